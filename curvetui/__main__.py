@@ -1,0 +1,5 @@
+"""Entry point for ``python -m curvetui``."""
+
+from curvetui.cli import main
+
+raise SystemExit(main())

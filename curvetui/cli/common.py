@@ -1,0 +1,32 @@
+"""Helpers shared by the sub-commands: unit options, rich output, the caution line."""
+
+from __future__ import annotations
+
+import json
+import sys
+
+from rich.console import Console
+
+from curvetui import CAUTION
+
+
+def add_units_option(parser) -> None:
+    parser.add_argument(
+        "--units",
+        choices=("metric", "us"),
+        default="metric",
+        help="metric (km/h, m) or us customary (mph, ft); default metric",
+    )
+
+
+def console() -> Console:
+    return Console(highlight=False)
+
+
+def print_json(obj) -> None:
+    json.dump(obj, sys.stdout, indent=2, allow_nan=False)
+    sys.stdout.write("\n")
+
+
+def print_caution(out: Console) -> None:
+    out.print(f"[bold yellow]{CAUTION}[/]")

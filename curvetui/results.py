@@ -1,0 +1,73 @@
+"""Engine results as named columns in the user's units: shared by JSON, tables and batch.
+
+The column names are the JSON keys of ``curvetui check``; a batch file's result columns
+carry the same names, so one bend's values agree whichever face printed them.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from curvetui.core.road import RoadCheck
+from curvetui.core.superelevation import AT_EMAX, NORMAL_CROWN, REMOVE_CROWN, SUPERELEVATED
+from curvetui.core.units import UnitSystem
+
+CROSS_SECTION_NAMES = {
+    NORMAL_CROWN: "normal crown",
+    REMOVE_CROWN: "remove adverse crown",
+    SUPERELEVATED: "superelevated",
+    AT_EMAX: "at e_max",
+}
+
+# key: (label, unit kind) -- the unit kind picks the label of the user's unit system
+ROAD_FIELDS: dict[str, tuple[str, str]] = {
+    "lateral_acceleration": ("Lateral acceleration v^2/R", "acceleration"),
+    "lateral_acceleration_g": ("Lateral acceleration", "g"),
+    "side_friction_max": ("Maximum side friction factor f_max", ""),
+    "side_friction_demand": ("Side friction demand f", ""),
+    "min_radius": ("Minimum radius R_min", "length"),
+    "min_radius_rounded": ("Minimum radius, as the table rounds", "length"),
+    "superelevation": ("Superelevation in use e", "%"),
+    "superelevation_design": ("Design superelevation (distribution)", "%"),
+    "safe_speed": ("Safe speed", "speed"),
+}
+
+
+def unit_label(kind: str, units: UnitSystem) -> str:
+    return {
+        "acceleration": units.acceleration_label,
+        "length": units.length_label,
+        "speed": units.speed_label,
+    }.get(kind, kind)
+
+
+def road_columns(check: RoadCheck, units: UnitSystem) -> dict[str, np.ndarray]:
+    """The check's results in the user's units, one array per JSON key (percent for e)."""
+    return {
+        "lateral_acceleration": units.acceleration_from_si(check.lateral_acceleration),
+        "lateral_acceleration_g": check.lateral_acceleration_g,
+        "side_friction_max": check.side_friction_max,
+        "side_friction_demand": check.side_friction_demand,
+        "min_radius": units.length_from_si(check.min_radius),
+        "min_radius_rounded": units.length_from_si(check.min_radius_rounded),
+        "superelevation": 100.0 * check.superelevation,
+        "superelevation_design": 100.0 * check.superelevation_design,
+        "safe_speed": units.speed_from_si(check.safe_speed),
+    }
+
+
+def rounded(value: float, digits: int = 6) -> float | None:
+    """A float trimmed for output: enough digits for a checker, no binary noise; None for NaN."""
+    value = float(value)
+    if not np.isfinite(value):
+        return None
+    return float(f"{value:.{digits}g}")
+
+
+def road_record(check: RoadCheck, index, units: UnitSystem) -> dict:
+    """One bend's results as a JSON-ready dict (status and messages added by the caller)."""
+    cols = road_columns(check, units)
+    record = {key: rounded(np.asarray(col)[index]) for key, col in cols.items()}
+    record["cross_section"] = CROSS_SECTION_NAMES[int(np.asarray(check.cross_section)[index])]
+    record["status"] = "fail" if bool(np.asarray(check.failed)[index]) else "pass"
+    return record

@@ -1,0 +1,179 @@
+"""Loading design tables from data files: the package's own and the user's.
+
+Tables are TOML files. The package ships its own under ``curvetui/data/road`` (and
+``data/rail`` for rail limits); a user adds an authority's table by dropping a file into
+a folder named by the environment variable ``CURVETUI_TABLES`` (several folders joined
+with the path separator) or ``~/.config/curvetui/tables``, or by passing a file path
+where a table name is asked for. Files are read once per process.
+"""
+
+from __future__ import annotations
+
+import os
+import tomllib
+from functools import cache
+from importlib import resources
+from pathlib import Path
+
+import numpy as np
+
+from curvetui.core.road_table import DISTRIBUTIONS, RadiusRounding, RoadTable
+
+DEFAULT_ROAD_TABLE = {"metric": "aashto-2018-metric", "us": "aashto-2018-us"}
+
+
+class TableError(ValueError):
+    """A table file that cannot be used, or a table name that is not known."""
+
+
+def user_table_dirs() -> list[Path]:
+    """Folders searched for the user's own table files."""
+    env = os.environ.get("CURVETUI_TABLES")
+    if env:
+        return [Path(p) for p in env.split(os.pathsep) if p]
+    return [Path.home() / ".config" / "curvetui" / "tables"]
+
+
+def _need(mapping: dict, key: str, where: str, kind: type | tuple[type, ...]):
+    if key not in mapping:
+        raise TableError(f"{where}: missing '{key}'")
+    value = mapping[key]
+    if isinstance(value, bool) or not isinstance(value, kind):
+        names = kind.__name__ if isinstance(kind, type) else " or ".join(k.__name__ for k in kind)
+        raise TableError(f"{where}: '{key}' must be {names}, got {value!r}")
+    return value
+
+
+def _number(mapping: dict, key: str, where: str, lo: float, hi: float) -> float:
+    value = float(_need(mapping, key, where, (int, float)))
+    if not (lo <= value <= hi):
+        raise TableError(
+            f"{where}: '{key}' = {value:g} is outside the allowed range {lo:g} to {hi:g}"
+        )
+    return value
+
+
+def parse_road_table(data: dict, path: str = "") -> RoadTable:
+    """Build a RoadTable from a parsed TOML document, with a clear error for any fault."""
+    label = path or "road table"
+    head = _need(data, "table", label, dict)
+    where = f"{label} [table]"
+    name = _need(head, "name", where, str)
+    units = _need(head, "units", where, str)
+    if units not in ("metric", "us"):
+        raise TableError(f"{where}: 'units' must be 'metric' or 'us', got {units!r}")
+    distribution = head.get("distribution", "aashto-method-5")
+    if distribution not in DISTRIBUTIONS:
+        raise TableError(f"{where}: 'distribution' must be one of {', '.join(DISTRIBUTIONS)}")
+    emax = _need(head, "emax", where, dict)
+    emin = _number(emax, "min", f"{where} emax", 0, 20)
+    emx = _number(emax, "max", f"{where} emax", emin, 20)
+    edef = _number(emax, "default", f"{where} emax", emin, emx)
+    tabulated = emax.get("tabulated", [])
+    rounding = head.get("radius_rounding", {})
+    rows = _need(data, "rows", label, list)
+    if len(rows) < 2:
+        raise TableError(f"{label}: needs at least two [[rows]]")
+    cols: dict[str, list[float]] = {
+        "speed": [],
+        "side_friction_max": [],
+        "running_speed": [],
+        "relative_gradient": [],
+    }
+    sources = []
+    for i, row in enumerate(rows, start=1):
+        rw = f"{label} row {i}"
+        if not isinstance(row, dict):
+            raise TableError(f"{rw}: must be a table of values")
+        cols["speed"].append(_number(row, "speed", rw, 1, 400))
+        cols["side_friction_max"].append(_number(row, "side_friction_max", rw, 0.01, 1.0))
+        if distribution == "aashto-method-5":
+            vr = _number(row, "running_speed", rw, 1, 400)
+        else:
+            vr = float(row.get("running_speed", cols["speed"][-1]))
+        cols["running_speed"].append(vr)
+        cols["relative_gradient"].append(_number(row, "relative_gradient", rw, 0.01, 5.0))
+        src = row.get("source")
+        if not isinstance(src, str) or not src.strip():
+            raise TableError(f"{rw}: every row needs a 'source' naming where its values come from")
+        sources.append(src)
+    speeds = np.array(cols["speed"])
+    if np.any(np.diff(speeds) <= 0):
+        raise TableError(f"{label}: row speeds must rise strictly from row to row")
+    constant = _number(head, "point_mass_constant", where, 1, 1000)
+    return RoadTable(
+        name=name,
+        title=str(head.get("title", name)),
+        source=_need(head, "source", where, str),
+        units=units,
+        point_mass_constant=constant,
+        distribution=distribution,
+        speeds=speeds,
+        side_friction_max=np.array(cols["side_friction_max"]),
+        running_speeds=np.array(cols["running_speed"]),
+        relative_gradient=np.array(cols["relative_gradient"]) / 100.0,
+        row_sources=tuple(sources),
+        emax_default=edef / 100.0,
+        emax_min=emin / 100.0,
+        emax_max=emx / 100.0,
+        emax_tabulated=tuple(float(t) / 100.0 for t in tabulated),
+        normal_crown=_number(head, "normal_crown", where, 0, 10) / 100.0
+        if "normal_crown" in head
+        else 0.02,
+        normal_crown_limit=_number(head, "normal_crown_limit", where, 0, 10) / 100.0
+        if "normal_crown_limit" in head
+        else 0.015,
+        radius_rounding=RadiusRounding(
+            whole_below=float(rounding.get("whole_below", 1000)),
+            step=float(rounding.get("step", 1)),
+            significant_figures=int(rounding.get("significant_figures", 3)),
+        ),
+        path=path,
+    )
+
+
+def read_table_file(path: Path) -> dict:
+    """Parse one TOML table file, turning any fault into a TableError."""
+    try:
+        with open(path, "rb") as fh:
+            return tomllib.load(fh)
+    except OSError as exc:
+        raise TableError(f"{path}: cannot read ({exc.strerror})") from None
+    except tomllib.TOMLDecodeError as exc:
+        raise TableError(f"{path}: not valid TOML ({exc})") from None
+
+
+def _packaged_files(kind: str) -> list[tuple[str, Path]]:
+    folder = resources.files("curvetui") / "data" / kind
+    return sorted(
+        (entry.name, Path(str(entry))) for entry in folder.iterdir() if entry.name.endswith(".toml")
+    )
+
+
+@cache
+def road_tables() -> dict[str, RoadTable]:
+    """Every road table: the package's, then the user's (a user file may replace one)."""
+    tables: dict[str, RoadTable] = {}
+    paths = [p for _, p in _packaged_files("road")]
+    for folder in user_table_dirs():
+        if folder.is_dir():
+            paths += sorted(folder.glob("*.toml"))
+    for path in paths:
+        data = read_table_file(path)
+        if data.get("table", {}).get("kind", "road") != "road":
+            continue
+        table = parse_road_table(data, str(path))
+        tables[table.name] = table
+    return tables
+
+
+def road_table(name: str | None, units: str = "metric") -> RoadTable:
+    """The road table called ``name`` (or a path to a .toml file); default per unit system."""
+    if name and (name.endswith(".toml") or os.sep in name):
+        return parse_road_table(read_table_file(Path(name)), name)
+    tables = road_tables()
+    key = name or DEFAULT_ROAD_TABLE[units]
+    if key not in tables:
+        known = ", ".join(sorted(tables))
+        raise TableError(f"--table: unknown road table {key!r}; known tables: {known}")
+    return tables[key]
