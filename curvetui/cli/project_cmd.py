@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import argparse
 
+from rich import box
 from rich.table import Table
 
 from curvetui.cli.common import console, print_caution
@@ -12,6 +13,7 @@ from curvetui.core.road_messages import road_messages
 from curvetui.core.units import unit_system
 from curvetui.project_file import load_project
 from curvetui.results import road_record
+from curvetui.stations import format_station
 from curvetui.tables import road_table
 
 COMMANDS = {"check", "tables", "open", "-h", "--help", "--version"}
@@ -43,22 +45,16 @@ def check_project(path: str) -> int:
     meta = project["project"]
     grid = Table(
         title=f"{meta['name']} - job {meta.get('job_number', '')}",
-        caption=f"table: {table.name}; units: {units.name}",
+        caption=f"table: {table.name}; speeds {units.speed_label}, lengths {units.length_label}",
+        box=box.SIMPLE_HEAD,
+        padding=(0, 1, 0, 0),
+        pad_edge=False,
+        show_edge=False,
     )
-    for col in (
-        "Bend",
-        "Station",
-        "V",
-        "R",
-        "e_max %",
-        "e %",
-        "f",
-        "f_max",
-        "R_min",
-        "Safe V",
-        "Status",
-    ):
-        grid.add_column(col, justify="right" if col not in ("Bend", "Status") else "left")
+    headers = ("Bend", "Station", "V", "R", "emax%", "e%", "f", "fmax", "Rmin", "Vsafe", "Status")
+    for col in headers:
+        left = col in ("Bend", "Status")
+        grid.add_column(col, justify="left" if left else "right", no_wrap=True)
     any_fail = False
     notes = []
     for bend in project["bends"]:
@@ -80,7 +76,7 @@ def check_project(path: str) -> int:
         colour = "red" if rec["status"] == "fail" else "green"
         grid.add_row(
             bend["id"],
-            f"{bend.get('station', 0):.1f}",
+            format_station(bend.get("station", 0.0), units.name, 1),
             f"{i['speed']:g}",
             f"{i['radius']:g}",
             f"{float(check.e_max) * 100:g}",
