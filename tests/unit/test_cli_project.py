@@ -10,7 +10,7 @@ DEMO = Path(__file__).resolve().parents[2] / "projects" / "quillmere-valley-road
 
 
 def test_demo_project_prints_every_bend_and_fails(capsys):
-    code = main([str(DEMO)])
+    code = main(["check", "--project", str(DEMO)])
     out = capsys.readouterr().out
     assert code == 1  # the demo holds failing bends on purpose
     for bend in ("QV-01", "QV-04", "QV-06"):
@@ -30,3 +30,8 @@ def test_corrupt_project_file(tmp_path, capsys):
     bad.write_text("{\"project\": ")
     assert main([str(bad)]) == 2
     assert "not valid JSON" in capsys.readouterr().err
+
+
+def test_opening_the_demo_exits_0(capsys):
+    assert main([str(DEMO)]) == 0
+    assert "QV-05" in capsys.readouterr().out
