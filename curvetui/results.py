@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from curvetui.core.rail import RailCheck
 from curvetui.core.road import RoadCheck
 from curvetui.core.superelevation import AT_EMAX, NORMAL_CROWN, REMOVE_CROWN, SUPERELEVATED
 from curvetui.core.units import UnitSystem
@@ -33,11 +34,29 @@ ROAD_FIELDS: dict[str, tuple[str, str]] = {
 }
 
 
+RAIL_FIELDS: dict[str, tuple[str, str]] = {
+    "equilibrium_cant": ("Equilibrium cant, fast train", "cant"),
+    "equilibrium_cant_low": ("Equilibrium cant, slow train", "cant"),
+    "cant_deficiency": ("Cant deficiency", "cant"),
+    "cant_excess": ("Cant excess", "cant"),
+    "lateral_acceleration": ("Uncompensated lateral acceleration g D/s", "m/s^2"),
+    "centripetal_acceleration": ("Centripetal acceleration v^2/R", "m/s^2"),
+    "max_speed": ("Maximum speed (deficiency limit)", "speed"),
+    "min_speed": ("Minimum speed (excess limit)", "speed"),
+    "balancing_cant": ("Cant balancing both trains", "cant"),
+    "cant_limit": ("Cant limit", "cant"),
+    "deficiency_limit": ("Cant deficiency limit", "cant"),
+    "excess_limit": ("Cant excess limit", "cant"),
+    "rail_centres": ("Distance between rail centres s", "cant"),
+}
+
+
 def unit_label(kind: str, units: UnitSystem) -> str:
     return {
         "acceleration": units.acceleration_label,
         "length": units.length_label,
         "speed": units.speed_label,
+        "cant": units.cant_label,
     }.get(kind, kind)
 
 
@@ -69,5 +88,35 @@ def road_record(check: RoadCheck, index, units: UnitSystem) -> dict:
     cols = road_columns(check, units)
     record = {key: rounded(np.asarray(col)[index]) for key, col in cols.items()}
     record["cross_section"] = CROSS_SECTION_NAMES[int(np.asarray(check.cross_section)[index])]
+    record["status"] = "fail" if bool(np.asarray(check.failed)[index]) else "pass"
+    return record
+
+
+def rail_columns(check: RailCheck, units: UnitSystem) -> dict[str, np.ndarray]:
+    """Rail results in the user's units: cant in mm or in, speeds km/h or mph, and the
+    accelerations in m/s^2 in both systems (the quantity the limits are usually quoted in)."""
+    c = units.cant
+    return {
+        "equilibrium_cant": check.equilibrium_cant / c,
+        "equilibrium_cant_low": check.equilibrium_cant_low / c,
+        "cant_deficiency": check.cant_deficiency / c,
+        "cant_excess": check.cant_excess / c,
+        "lateral_acceleration": check.lateral_acceleration,
+        "centripetal_acceleration": check.centripetal_acceleration,
+        "max_speed": units.speed_from_si(check.max_speed),
+        "min_speed": units.speed_from_si(check.min_speed),
+        "balancing_cant": check.balancing_cant / c,
+        "cant_limit": check.cant_limit / c,
+        "deficiency_limit": check.deficiency_limit / c,
+        "excess_limit": check.excess_limit / c,
+        "rail_centres": check.rail_centres / c,
+        "low_speed": units.speed_from_si(check.low_speed),
+    }
+
+
+def rail_record(check: RailCheck, index, units: UnitSystem) -> dict:
+    """One curve's results as a JSON-ready dict (NaN becomes null)."""
+    cols = rail_columns(check, units)
+    record = {key: rounded(np.asarray(col)[index]) for key, col in cols.items()}
     record["status"] = "fail" if bool(np.asarray(check.failed)[index]) else "pass"
     return record

@@ -160,7 +160,7 @@ def road_tables() -> dict[str, RoadTable]:
             paths += sorted(folder.glob("*.toml"))
     for path in paths:
         data = read_table_file(path)
-        if data.get("table", {}).get("kind", "road") != "road":
+        if "table" not in data or data["table"].get("kind", "road") != "road":
             continue
         table = parse_road_table(data, str(path))
         tables[table.name] = table
@@ -177,3 +177,103 @@ def road_table(name: str | None, units: str = "metric") -> RoadTable:
         known = ", ".join(sorted(tables))
         raise TableError(f"--table: unknown road table {key!r}; known tables: {known}")
     return tables[key]
+
+
+DEFAULT_RAIL_LIMITS = {"metric": "en13803-2010", "us": "49cfr213-class3-5"}
+
+
+def parse_rail_limits(data: dict, path: str = ""):
+    """Build RailLimits from a parsed TOML document (cant in mm metric, inches US)."""
+    from curvetui.core.rail import RailLimits, rail_centres_for_coefficient
+    from curvetui.core.units import INCH, KMH, MPH
+
+    label = path or "rail limits"
+    head = _need(data, "limits", label, dict)
+    where = f"{label} [limits]"
+    name = _need(head, "name", where, str)
+    units = _need(head, "units", where, str)
+    if units not in ("metric", "us"):
+        raise TableError(f"{where}: 'units' must be 'metric' or 'us', got {units!r}")
+    cant_unit = 0.001 if units == "metric" else INCH
+    speed_unit = KMH if units == "metric" else MPH
+    cant_hi = 300 if units == "metric" else 12
+    if "rail_centres" in head:
+        centres = _number(head, "rail_centres", where, 500, 2500) * cant_unit
+    elif "cant_coefficient" in head:
+        centres = rail_centres_for_coefficient(_number(head, "cant_coefficient", where, 1e-5, 0.01))
+    else:
+        raise TableError(f"{where}: needs 'rail_centres' (mm or in) or 'cant_coefficient'")
+    bands = _need(data, "bands", label, list)
+    if not bands:
+        raise TableError(f"{label}: needs at least one [[bands]]")
+    cols: dict[str, list[float]] = {
+        k: []
+        for k in (
+            "speed_max",
+            "cant_recommended",
+            "cant_max",
+            "deficiency_recommended",
+            "deficiency_max",
+            "excess_recommended",
+            "excess_max",
+        )
+    }
+    sources = []
+    for i, band in enumerate(bands, start=1):
+        bw = f"{label} band {i}"
+        if not isinstance(band, dict):
+            raise TableError(f"{bw}: must be a table of values")
+        cols["speed_max"].append(_number(band, "speed_max", bw, 1, 600) * speed_unit)
+        for key in ("cant_recommended", "cant_max", "deficiency_recommended", "deficiency_max"):
+            cols[key].append(_number(band, key, bw, 0, cant_hi) * cant_unit)
+        for key in ("excess_recommended", "excess_max"):
+            cols[key].append(
+                _number(band, key, bw, 0, cant_hi) * cant_unit if key in band else float("nan")
+            )
+        src = band.get("source")
+        if not isinstance(src, str) or not src.strip():
+            raise TableError(f"{bw}: every band needs a 'source' naming where its values come from")
+        sources.append(src)
+    if np.any(np.diff(cols["speed_max"]) <= 0):
+        raise TableError(f"{label}: band speed_max must rise strictly from band to band")
+    return RailLimits(
+        name=name,
+        title=str(head.get("title", name)),
+        source=_need(head, "source", where, str),
+        units=units,
+        rail_centres=centres,
+        **{k: np.array(v) for k, v in cols.items()},
+        band_sources=tuple(sources),
+        cant_min=float(head.get("cant_min", 0)) * cant_unit,
+        path=path,
+    )
+
+
+@cache
+def rail_limit_sets() -> dict:
+    """Every rail limits file: the package's, then the user's."""
+    found = {}
+    paths = [p for _, p in _packaged_files("rail")]
+    for folder in user_table_dirs():
+        if folder.is_dir():
+            paths += sorted(folder.glob("*.toml"))
+    for path in paths:
+        data = read_table_file(path)
+        if "limits" not in data:
+            continue
+        limits = parse_rail_limits(data, str(path))
+        found[limits.name] = limits
+    return found
+
+
+def rail_limits(name: str | None, units: str = "metric"):
+    """The rail limits called ``name`` (or a .toml path); default per unit system."""
+    if name and (name.endswith(".toml") or os.sep in name):
+        return parse_rail_limits(read_table_file(Path(name)), name)
+    found = rail_limit_sets()
+    key = name or DEFAULT_RAIL_LIMITS[units]
+    if key not in found:
+        raise TableError(
+            f"--limits: unknown rail limits {key!r}; known: {', '.join(sorted(found))}"
+        )
+    return found[key]

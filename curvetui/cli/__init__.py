@@ -19,7 +19,7 @@ class _Parser(argparse.ArgumentParser):
 
 
 def build_parser() -> argparse.ArgumentParser:
-    from curvetui.cli import project_cmd, road_cmd, tables_cmd
+    from curvetui.cli import project_cmd, rail_cmd, road_cmd, tables_cmd
 
     parser = _Parser(
         prog="curvetui",
@@ -32,6 +32,7 @@ def build_parser() -> argparse.ArgumentParser:
     check = sub.add_parser("check", help="check one bend, or every bend of a project")
     check_sub = check.add_subparsers(dest="kind", parser_class=_Parser)
     road_cmd.add_parser(check_sub)
+    rail_cmd.add_parser(check_sub)
     project_cmd.add_check_project(check)
     tables_cmd.add_parser(sub)
     project_cmd.add_open_parser(sub)

@@ -1,0 +1,241 @@
+"""Rail-track curves: equilibrium cant, cant deficiency and excess, speed limits.
+
+Equilibrium cant balances the lateral acceleration of a train at speed v on radius R:
+
+    E = s v^2 / (g R)                                       (EN 13803-1:2010, 3.x, in SI)
+
+s is the distance between the running-rail centres (1500 mm for 1435 mm gauge, so
+E = 11.8 V^2 / R with V in km/h, R in m, E in mm). Cant deficiency for the fastest train
+D = E(v_max) - E_a, cant excess for the slowest E_x = E_a - E(v_low), and the uncompensated
+lateral acceleration in the plane of the track a_q = g D / s.
+
+US customary: 49 CFR 213.57 writes E_a + E_u = 0.0007 D V^2 (inches, degrees of curve, mph);
+with s = 59.99 in and the arc definition of D (R = 5729.58 / D ft) the SI formula above gives
+the same number (see US_RAIL_CENTRES).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from curvetui.core.units import FOOT, G0, INCH, MPH
+
+# Distance between rail centres [m] for common gauges [mm]: gauge plus the rail head width.
+# 1435 -> 1500 mm is the EN 13803 value; the others follow the same rule with a head of
+# about 65-75 mm (common practice, values from memory: check with the authority).
+RAIL_CENTRES_MM = {
+    1435: 1500.0,
+    1520: 1600.0,
+    1600: 1670.0,
+    1668: 1740.0,
+    1067: 1130.0,
+    1000: 1065.0,
+}
+
+# The s for which s v^2/(g R) equals 0.0007 D V^2 (49 CFR 213.57) with R = 5729.578/D ft:
+# s = 0.0007 in x g x 5729.578 ft / (5280/3600 ft/s per mph)^2, about 59.99 in.
+US_RAIL_CENTRES = 0.0007 * INCH * G0 * (5729.5779513 * FOOT) / MPH**2
+
+# Status flags
+FAIL_CANT = 1 << 0  # applied cant above its maximum
+FAIL_DEFICIENCY = 1 << 1
+FAIL_EXCESS = 1 << 2
+FAIL_NO_BALANCE = 1 << 3  # no cant satisfies both the fast and the slow train
+WARN_NEGATIVE_DEFICIENCY = 1 << 4  # fastest train runs below equilibrium
+WARN_SPEED_OUTSIDE_LIMITS = 1 << 5  # speed above the limit file's last band
+WARN_CANT_BELOW_MIN = 1 << 6
+WARN_CANT_ABOVE_RECOMMENDED = 1 << 7
+WARN_DEFICIENCY_ABOVE_RECOMMENDED = 1 << 8
+WARN_EXCESS_ABOVE_RECOMMENDED = 1 << 9
+FAIL_MASK = FAIL_CANT | FAIL_DEFICIENCY | FAIL_EXCESS | FAIL_NO_BALANCE
+
+
+def rail_centres_for_coefficient(coefficient: float) -> float:
+    """The s [m] for which s v^2/(g R) equals ``coefficient`` x D x V^2 inches (D degrees of
+    curve, arc definition R = 5729.578/D ft, V mph); 0.0007 gives 59.99 in."""
+    return coefficient * INCH * G0 * (5729.5779513 * FOOT) / MPH**2
+
+
+def rail_centres_for_gauge(gauge_mm: float) -> float:
+    """Distance between rail centres [m] for a gauge [mm]: the preset, else gauge + 65 mm."""
+    return RAIL_CENTRES_MM.get(int(round(gauge_mm)), gauge_mm + 65.0) / 1000.0
+
+
+def equilibrium_cant(speed, radius, rail_centres=1.5):
+    """E = s v^2 / (g R) [m]; speed [m/s], radius [m], rail_centres s [m]."""
+    return rail_centres * np.asarray(speed, dtype=float) ** 2 / (G0 * np.asarray(radius))
+
+
+def speed_for_cant(cant, radius, rail_centres=1.5):
+    """The speed [m/s] whose equilibrium cant is ``cant`` [m]: v = sqrt(g R E / s); 0 for E <= 0."""
+    c = np.maximum(np.asarray(cant, dtype=float), 0.0)
+    return np.sqrt(G0 * np.asarray(radius, dtype=float) * c / rail_centres)
+
+
+def uncompensated_acceleration(deficiency, rail_centres=1.5):
+    """Lateral acceleration in the track plane left unbalanced, a_q = g D / s [m/s^2]."""
+    return G0 * np.asarray(deficiency, dtype=float) / rail_centres
+
+
+def balancing_cant(e_fast, e_slow, deficiency_limit, excess_limit, cant_max):
+    """The applied cant [m] that shares the limits between the fast and the slow train.
+
+    Feasible cants lie in [e_fast - deficiency_limit, e_slow + excess_limit] and [0, cant_max].
+    The choice uses the same fraction of each limit, (e_fast - E_a)/I = (E_a - e_slow)/X, so
+    E_a = (X e_fast + I e_slow)/(I + X) with I, X the deficiency and excess limits (common
+    practice, no source), then clips it to the feasible range. Returns (cant, feasible).
+    """
+    lo = np.maximum(e_fast - deficiency_limit, 0.0)
+    hi = np.minimum(e_slow + excess_limit, cant_max)
+    share = (e_fast * excess_limit + e_slow * deficiency_limit) / (deficiency_limit + excess_limit)
+    cant = np.clip(share, lo, np.maximum(hi, lo))
+    return cant, lo <= hi + 1e-12
+
+
+@dataclass(frozen=True)
+class RailLimits:
+    """Limits for cant, cant deficiency and excess by speed band, in SI (m, m/s).
+
+    Band i covers speeds up to ``speed_max[i]``; excess limits may be NaN (none set).
+    """
+
+    name: str
+    title: str
+    source: str
+    units: str
+    rail_centres: float  # [m]
+    speed_max: np.ndarray  # [m/s], rising
+    cant_recommended: np.ndarray  # [m]
+    cant_max: np.ndarray
+    deficiency_recommended: np.ndarray
+    deficiency_max: np.ndarray
+    excess_recommended: np.ndarray
+    excess_max: np.ndarray
+    band_sources: tuple[str, ...]
+    cant_min: float = 0.0
+    path: str = ""
+
+    def band(self, speed) -> tuple[np.ndarray, np.ndarray]:
+        """Index of the band holding ``speed`` [m/s], and whether it lies above the last."""
+        v = np.asarray(speed, dtype=float)
+        idx = np.searchsorted(self.speed_max, v - 1e-9, side="left")
+        above = idx >= len(self.speed_max)
+        return np.minimum(idx, len(self.speed_max) - 1), above
+
+
+@dataclass(frozen=True)
+class RailCheck:
+    """Results of a rail-curve check, SI units (m, m/s, m/s^2)."""
+
+    speed: np.ndarray
+    low_speed: np.ndarray  # NaN where none given
+    radius: np.ndarray
+    cant: np.ndarray  # applied
+    rail_centres: np.ndarray
+    equilibrium_cant: np.ndarray  # at the (fast) speed
+    equilibrium_cant_low: np.ndarray  # at the low speed, NaN without one
+    cant_deficiency: np.ndarray
+    cant_excess: np.ndarray  # NaN without a low speed
+    lateral_acceleration: np.ndarray  # uncompensated, g D / s
+    centripetal_acceleration: np.ndarray  # v^2 / R
+    max_speed: np.ndarray  # allowed by the deficiency limit
+    min_speed: np.ndarray  # allowed by the excess limit (NaN where the limits set none)
+    balancing_cant: np.ndarray  # NaN without a low speed
+    cant_limit: np.ndarray
+    deficiency_limit: np.ndarray
+    excess_limit: np.ndarray
+    flags: np.ndarray
+
+    @property
+    def failed(self) -> np.ndarray:
+        return (self.flags & FAIL_MASK) != 0
+
+
+def check_rail(
+    limits: RailLimits, speed, radius, cant, low_speed=None, rail_centres=None
+) -> RailCheck:
+    """Check rail curves against ``limits``. SI inputs; arrays broadcast.
+
+    ``low_speed`` (NaN where absent) is the slowest train's speed; ``rail_centres`` [m]
+    replaces the limits' own (for another gauge).
+    """
+    s_given = limits.rail_centres if rail_centres is None else rail_centres
+    low = np.asarray(np.nan if low_speed is None else low_speed, dtype=float)
+    v, r, ea, low, s = np.broadcast_arrays(
+        np.asarray(speed, dtype=float),
+        np.asarray(radius, dtype=float),
+        np.asarray(cant, dtype=float),
+        low,
+        np.asarray(s_given, dtype=float),
+    )
+    band, above = limits.band(v)
+    c_max = limits.cant_max[band]
+    i_max = limits.deficiency_max[band]
+    x_max = limits.excess_max[band]
+    e_fast = equilibrium_cant(v, r, s)
+    e_slow = equilibrium_cant(low, r, s)
+    deficiency = e_fast - ea
+    excess = ea - e_slow
+    has_low = ~np.isnan(low)
+    has_x = ~np.isnan(x_max)
+    v_max = speed_for_cant(ea + i_max, r, s)
+    v_min = np.where(has_x, speed_for_cant(ea - np.where(has_x, x_max, 0.0), r, s), np.nan)
+    x_for_balance = np.where(has_x, x_max, np.inf)
+    with np.errstate(invalid="ignore"):
+        bal, feasible = balancing_cant(
+            e_fast, np.where(has_low, e_slow, 0.0), i_max, x_for_balance, c_max
+        )
+    # with no excess limit the same-fraction rule degenerates: keep the fast train's need
+    bal = np.where(has_x, bal, np.clip(e_fast - i_max, 0.0, c_max))
+    bal = np.where(has_low, bal, np.nan)
+
+    tol = 1e-9
+    flags = np.zeros(v.shape, dtype=np.int64)
+    flags |= np.where(ea > c_max + tol, FAIL_CANT, 0)
+    flags |= np.where(deficiency > i_max + tol, FAIL_DEFICIENCY, 0)
+    flags |= np.where(has_low & has_x & (excess > np.where(has_x, x_max, 0) + tol), FAIL_EXCESS, 0)
+    flags |= np.where(has_low & ~feasible, FAIL_NO_BALANCE, 0)
+    flags |= np.where(deficiency < -tol, WARN_NEGATIVE_DEFICIENCY, 0)
+    flags |= np.where(above, WARN_SPEED_OUTSIDE_LIMITS, 0)
+    flags |= np.where(ea < limits.cant_min - tol, WARN_CANT_BELOW_MIN, 0)
+    flags |= np.where(
+        (ea > limits.cant_recommended[band] + tol) & (ea <= c_max + tol),
+        WARN_CANT_ABOVE_RECOMMENDED,
+        0,
+    )
+    flags |= np.where(
+        (deficiency > limits.deficiency_recommended[band] + tol) & (deficiency <= i_max + tol),
+        WARN_DEFICIENCY_ABOVE_RECOMMENDED,
+        0,
+    )
+    x_rec = limits.excess_recommended[band]
+    flags |= np.where(
+        has_low
+        & has_x
+        & (excess > np.where(has_x, x_rec, 0) + tol)
+        & (excess <= np.where(has_x, x_max, 0) + tol),
+        WARN_EXCESS_ABOVE_RECOMMENDED,
+        0,
+    )
+    return RailCheck(
+        speed=v,
+        low_speed=low,
+        radius=r,
+        cant=ea,
+        rail_centres=s,
+        equilibrium_cant=e_fast,
+        equilibrium_cant_low=e_slow,
+        cant_deficiency=deficiency,
+        cant_excess=np.where(has_low, excess, np.nan),
+        lateral_acceleration=uncompensated_acceleration(deficiency, s),
+        centripetal_acceleration=v**2 / r,
+        max_speed=v_max,
+        min_speed=v_min,
+        balancing_cant=bal,
+        cant_limit=c_max,
+        deficiency_limit=i_max,
+        excess_limit=x_max,
+        flags=flags,
+    )
