@@ -2,10 +2,8 @@
 
 from __future__ import annotations
 
-from rich.table import Table
-
 from curvetui.cli.common import console, print_caution, print_json
-from curvetui.tables import road_tables, user_table_dirs
+from curvetui.tables import rail_limit_sets, road_tables, user_table_dirs
 
 
 def add_parser(sub) -> None:
@@ -29,24 +27,36 @@ def run(args) -> int:
         }
         for t in tables.values()
     ]
+    for lim in rail_limit_sets().values():
+        rows.append(
+            {
+                "name": lim.name,
+                "kind": "rail",
+                "units": lim.units,
+                "title": lim.title,
+                "source": lim.source,
+                "distribution": "",
+                "speeds": [
+                    0.0,
+                    float(lim.speed_max[-1] / (1 / 3.6 if lim.units == "metric" else 0.44704)),
+                ],
+                "file": lim.path,
+            }
+        )
     if args.json:
         print_json(rows)
         return 0
     out = console()
-    grid = Table(title="Design tables loaded")
-    for col in ("Name", "Kind", "Units", "Speeds", "Distribution", "Source"):
-        grid.add_column(col, overflow="fold")
+    out.print("[bold]Design tables loaded[/]\n")
     for r in rows:
         unit = "km/h" if r["units"] == "metric" else "mph"
-        grid.add_row(
-            r["name"],
-            r["kind"],
-            r["units"],
-            f"{r['speeds'][0]:g}-{r['speeds'][1]:g} {unit}",
-            r["distribution"],
-            r["source"],
-        )
-    out.print(grid)
+        lo, hi = r["speeds"]
+        how = f", {r['distribution']}" if r["distribution"] else ""
+        span = f"{lo:g}-{hi:g}" if lo else f"up to {hi:g}"
+        out.print(f"[bold]{r['name']}[/]  {r['kind']}, {r['units']}, {span} {unit}{how}")
+        out.print(f"  {r['title']}", markup=False)
+        out.print(f"  source: {r['source']}", markup=False)
+        out.print(f"  file: {r['file']}\n", markup=False)
     out.print(
         "User tables are read from: " + ", ".join(str(d) for d in user_table_dirs()), markup=False
     )
