@@ -31,12 +31,18 @@ class RadiusRounding:
     significant_figures: int = 3
 
     def apply(self, value):
+        """Round half up, as printed tables do (common practice, no source). The tiny
+        allowance keeps 37.49999999999999 (float noise on an exact 37.5) a tie."""
         value = np.asarray(value, dtype=float)
+
+        def half_up(x):
+            return np.floor(x + 0.5 + 1e-9)
+
         with np.errstate(divide="ignore", invalid="ignore"):
-            small = np.round(value / self.step) * self.step
+            small = half_up(value / self.step) * self.step
             exponent = np.floor(np.log10(np.where(value > 0, value, 1.0)))
             scale = 10.0 ** (exponent - self.significant_figures + 1)
-            large = np.round(value / scale) * scale
+            large = half_up(value / scale) * scale
         return np.where(value < self.whole_below, small, large)
 
 

@@ -27,7 +27,7 @@ def test_missing_project_file_is_one_line(tmp_path, capsys):
 
 def test_corrupt_project_file(tmp_path, capsys):
     bad = tmp_path / "bad.json"
-    bad.write_text("{\"project\": ")
+    bad.write_text('{"project": ')
     assert main([str(bad)]) == 2
     assert "not valid JSON" in capsys.readouterr().err
 

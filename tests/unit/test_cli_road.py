@@ -17,9 +17,17 @@ import pytest
 from curvetui.cli import main
 
 KEYS = {
-    "lateral_acceleration", "lateral_acceleration_g", "side_friction_max",
-    "side_friction_demand", "min_radius", "min_radius_rounded", "superelevation",
-    "superelevation_design", "safe_speed", "status", "messages",
+    "lateral_acceleration",
+    "lateral_acceleration_g",
+    "side_friction_max",
+    "side_friction_demand",
+    "min_radius",
+    "min_radius_rounded",
+    "superelevation",
+    "superelevation_design",
+    "safe_speed",
+    "status",
+    "messages",
 }
 
 
@@ -123,8 +131,10 @@ def test_user_table_folder_is_loaded(tmp_path, monkeypatch, capsys):
     from curvetui import tables
 
     src = tables.road_table("aashto-2018-metric").path
-    text = open(src, encoding="utf-8").read().replace(
-        'name = "aashto-2018-metric"', 'name = "shire-local"'
+    text = (
+        open(src, encoding="utf-8")
+        .read()
+        .replace('name = "aashto-2018-metric"', 'name = "shire-local"')
     )
     (tmp_path / "shire.toml").write_text(text)
     monkeypatch.setenv("CURVETUI_TABLES", str(tmp_path))
@@ -139,7 +149,9 @@ def test_user_table_folder_is_loaded(tmp_path, monkeypatch, capsys):
 def test_human_output_shows_caution_and_status():
     proc = subprocess.run(
         [sys.executable, "-m", "curvetui", "check", "road", "--speed", "100", "--radius", "400"],
-        capture_output=True, text=True, check=False,
+        capture_output=True,
+        text=True,
+        check=False,
     )
     assert proc.returncode == 0
     assert "Status: PASS" in proc.stdout

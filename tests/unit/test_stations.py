@@ -21,7 +21,9 @@ def test_format_station(value, units, text):
     assert format_station(value, units) == text
 
 
-@pytest.mark.parametrize("text, units, value", [("2+710.5", "metric", 2710.5),
-                                                ("27+10.00", "us", 2710.0), ("812", "metric", 812)])
+@pytest.mark.parametrize(
+    "text, units, value",
+    [("2+710.5", "metric", 2710.5), ("27+10.00", "us", 2710.0), ("812", "metric", 812)],
+)
 def test_parse_station(text, units, value):
     assert parse_station(text, units) == pytest.approx(value)
