@@ -183,9 +183,13 @@ DEFAULT_RAIL_LIMITS = {"metric": "en13803-2010", "us": "49cfr213-class3-5"}
 
 
 def parse_rail_limits(data: dict, path: str = ""):
-    """Build RailLimits from a parsed TOML document (cant in mm metric, inches US)."""
+    """Build RailLimits from a parsed TOML document (cant in mm metric, inches US).
+
+    Optional per band: cant_gradient_max (mm/m or in/ft), cant_rate_max and
+    deficiency_rate_max (mm/s or in/s); NaN where a band leaves one out.
+    """
     from curvetui.core.rail import RailLimits, rail_centres_for_coefficient
-    from curvetui.core.units import INCH, KMH, MPH
+    from curvetui.core.units import FOOT, INCH, KMH, MPH
 
     label = path or "rail limits"
     head = _need(data, "limits", label, dict)
@@ -197,6 +201,10 @@ def parse_rail_limits(data: dict, path: str = ""):
     cant_unit = 0.001 if units == "metric" else INCH
     speed_unit = KMH if units == "metric" else MPH
     cant_hi = 300 if units == "metric" else 12
+    # transition limits: cant gradient in mm/m (metric) or in/ft (US), rates in mm/s or in/s
+    gradient_unit = 0.001 if units == "metric" else INCH / FOOT
+    gradient_hi = 20 if units == "metric" else 0.24
+    rate_hi = 500 if units == "metric" else 20
     if "rail_centres" in head:
         centres = _number(head, "rail_centres", where, 500, 2500) * cant_unit
     elif "cant_coefficient" in head:
@@ -218,6 +226,11 @@ def parse_rail_limits(data: dict, path: str = ""):
             "excess_max",
         )
     }
+    transition: dict[str, list[float]] = {
+        "cant_gradient_max": [],
+        "cant_rate_max": [],
+        "deficiency_rate_max": [],
+    }
     sources = []
     for i, band in enumerate(bands, start=1):
         bw = f"{label} band {i}"
@@ -229,6 +242,14 @@ def parse_rail_limits(data: dict, path: str = ""):
         for key in ("excess_recommended", "excess_max"):
             cols[key].append(
                 _number(band, key, bw, 0, cant_hi) * cant_unit if key in band else float("nan")
+            )
+        for key, unit, hi in (
+            ("cant_gradient_max", gradient_unit, gradient_hi),
+            ("cant_rate_max", cant_unit, rate_hi),
+            ("deficiency_rate_max", cant_unit, rate_hi),
+        ):
+            transition[key].append(
+                _number(band, key, bw, hi * 1e-6, hi) * unit if key in band else float("nan")
             )
         src = band.get("source")
         if not isinstance(src, str) or not src.strip():
@@ -246,6 +267,7 @@ def parse_rail_limits(data: dict, path: str = ""):
         band_sources=tuple(sources),
         cant_min=float(head.get("cant_min", 0)) * cant_unit,
         path=path,
+        **{k: np.array(v) for k, v in transition.items()},
     )
 
 

@@ -98,7 +98,8 @@ def balancing_cant(e_fast, e_slow, deficiency_limit, excess_limit, cant_max):
 class RailLimits:
     """Limits for cant, cant deficiency and excess by speed band, in SI (m, m/s).
 
-    Band i covers speeds up to ``speed_max[i]``; excess limits may be NaN (none set).
+    Band i covers speeds up to ``speed_max[i]``; excess limits may be NaN (none set), and so
+    may the transition limits (one value per band from a file; a scalar NaN by default).
     """
 
     name: str
@@ -116,6 +117,10 @@ class RailLimits:
     band_sources: tuple[str, ...]
     cant_min: float = 0.0
     path: str = ""
+    # Transition limits by band (see curvetui.core.transitions); NaN where none is set.
+    cant_gradient_max: np.ndarray | float = np.nan  # dE/ds [m/m]
+    cant_rate_max: np.ndarray | float = np.nan  # dE/dt [m/s]
+    deficiency_rate_max: np.ndarray | float = np.nan  # dD/dt [m/s]
 
     def band(self, speed) -> tuple[np.ndarray, np.ndarray]:
         """Index of the band holding ``speed`` [m/s], and whether it lies above the last."""
