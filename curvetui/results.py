@@ -83,6 +83,13 @@ def rounded(value: float, digits: int = 6) -> float | None:
     return float(f"{value:.{digits}g}")
 
 
+def fixed(value: float, places: int = 6) -> float | None:
+    """A length or station trimmed to ``places`` decimals (stations need decimals, not
+    significant figures); None for NaN."""
+    value = float(value)
+    return round(value, places) if np.isfinite(value) else None
+
+
 def road_record(check: RoadCheck, index, units: UnitSystem) -> dict:
     """One bend's results as a JSON-ready dict (status and messages added by the caller)."""
     cols = road_columns(check, units)

@@ -19,7 +19,7 @@ class _Parser(argparse.ArgumentParser):
 
 
 def build_parser() -> argparse.ArgumentParser:
-    from curvetui.cli import project_cmd, rail_cmd, road_cmd, tables_cmd
+    from curvetui.cli import project_cmd, rail_cmd, road_cmd, setout_cmd, tables_cmd
 
     parser = _Parser(
         prog="curvetui",
@@ -35,6 +35,7 @@ def build_parser() -> argparse.ArgumentParser:
     rail_cmd.add_parser(check_sub)
     project_cmd.add_check_project(check)
     tables_cmd.add_parser(sub)
+    setout_cmd.add_parser(sub)
     project_cmd.add_open_parser(sub)
     return parser
 
@@ -57,3 +58,7 @@ def main(argv: list[str] | None = None) -> int:
     except (InputError, TableError) as exc:
         sys.stderr.write(f"curvetui: error: {exc}\n")
         return 2
+    except BrokenPipeError:
+        # the reader (e.g. `head`) closed the pipe: stop quietly, as shell tools do
+        sys.stderr.close()
+        return 0

@@ -16,7 +16,7 @@ from curvetui.results import road_record
 from curvetui.stations import format_station
 from curvetui.tables import road_table
 
-COMMANDS = {"check", "tables", "open", "-h", "--help", "--version"}
+COMMANDS = {"check", "tables", "open", "setout", "-h", "--help", "--version"}
 
 
 def add_check_project(check: argparse.ArgumentParser) -> None:

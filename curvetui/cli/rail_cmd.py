@@ -7,6 +7,7 @@ import argparse
 from rich.table import Table
 
 from curvetui import CAUTION
+from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution, print_json
 from curvetui.core.rail import RailCheck, RailLimits, check_rail, rail_centres_for_gauge
 from curvetui.core.rail_messages import rail_messages
@@ -30,6 +31,7 @@ def add_parser(check_sub) -> None:
     p.add_argument("--limits", help="rail limits by name or .toml path (see `curvetui tables`)")
     add_units_option(p)
     p.add_argument("--json", action="store_true", help="print one JSON object")
+    geo.add_geometry_options(p, sight=False)
     p.set_defaults(run=run)
 
 
@@ -78,11 +80,41 @@ def rail_json(check: RailCheck, limits: RailLimits, units: UnitSystem) -> dict:
     return record
 
 
+def add_bend_objects(
+    record: dict, args, check: RailCheck, limits: RailLimits, units: UnitSystem
+) -> None:
+    """Add `transition` and, with --deflection, `geometry` to a rail record; a failed
+    transition fails the curve."""
+    record["transition"] = geo.rail_transition_json(
+        limits, float(check.cant), float(check.cant_deficiency), float(check.speed), units
+    )
+    geometry = geo.geometry_inputs(args, units)
+    if geometry is not None:
+        record["geometry"] = geo.geometry_json(float(check.radius), geometry, units)
+        t = record["transition"]
+        for name, ls in (("spiral in", geometry["ls_in"]), ("spiral out", geometry["ls_out"])):
+            need = t["length"]
+            given = units.length_from_si(ls)
+            if ls > 0 and need is not None and given < need - 1e-9:
+                t["status"] = "fail"
+                t["messages"].append(
+                    f"FAIL {name} {given:g} {units.length_label} is shorter "
+                    f"than the {need:.1f} {units.length_label} the "
+                    f"{t['governing']} needs"
+                )
+    if record["transition"]["status"] == "fail":
+        record["status"] = "fail"
+        record["messages"] += [
+            f"transition: {m}" for m in record["transition"]["messages"] if m.startswith("FAIL")
+        ]
+
+
 def run(args: argparse.Namespace) -> int:
     units = unit_system(args.units)
     limits = rail_limits(args.limits, units.name)
     check = check_rail(limits, **rail_inputs(args, limits, units))
     record = rail_json(check, limits, units)
+    add_bend_objects(record, args, check, limits, units)
     if args.json:
         print_json(record)
     else:
@@ -108,6 +140,9 @@ def print_rail(record: dict, units: UnitSystem) -> None:
         shown = "-" if value is None else f"{value:,.2f}" if abs(value) < 100 else f"{value:,.1f}"
         grid.add_row(label, shown, unit_label(kind, units))
     out.print(grid)
+    from curvetui.cli.road_cmd import print_parts
+
+    print_parts(out, record, units)
     colour = "red" if record["status"] == "fail" else "green"
     out.print(f"Status: [bold {colour}]{record['status'].upper()}[/]")
     for message in record["messages"]:

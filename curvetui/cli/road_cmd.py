@@ -7,6 +7,7 @@ import argparse
 from rich.table import Table
 
 from curvetui import CAUTION
+from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution, print_json
 from curvetui.core.road import RoadCheck, check_road
 from curvetui.core.road_messages import road_messages
@@ -35,6 +36,8 @@ def add_parser(check_sub) -> None:
         "--table", help="road design table by name or .toml path (see `curvetui tables`)"
     )
     p.add_argument("--json", action="store_true", help="print one JSON object")
+    geo.add_geometry_options(p)
+    geo.add_sight_lane_option(p)
     p.set_defaults(run=run)
 
 
@@ -89,12 +92,43 @@ def road_json(check: RoadCheck, table: RoadTable, units: UnitSystem) -> dict:
     return record
 
 
+def add_bend_objects(
+    record: dict, args, check: RoadCheck, table: RoadTable, units: UnitSystem
+) -> None:
+    """Add `transition`, and with the options `geometry` and `sight`, to a road record.
+
+    A failed transition or sight check fails the bend: it is never left as a side note.
+    """
+    v, r = float(check.speed), float(check.radius)
+    width = geo.lane_width(args, units)
+    record["transition"] = geo.road_transition_json(
+        table, v, r, float(check.superelevation), width, units
+    )
+    geometry = geo.geometry_inputs(args, units)
+    curve_length = None
+    if geometry is not None:
+        record["geometry"] = geo.geometry_json(r, geometry, units)
+        g = record["geometry"]
+        curve_length = units.length_to_si(g.get("length", g.get("total_length")))
+        geo.check_spiral_lengths(record["transition"], geometry, units)
+    sight = geo.sight_inputs(args, units)
+    if sight is not None:
+        record["sight"] = geo.sight_json(v, r, sight, curve_length, width, units)
+    for part in ("transition", "sight"):
+        if part in record and record[part]["status"] == "fail":
+            record["status"] = "fail"
+            record["messages"] += [
+                f"{part}: {m}" for m in record[part]["messages"] if m.startswith("FAIL")
+            ]
+
+
 def run(args: argparse.Namespace) -> int:
     units = unit_system(args.units)
     table = road_table(args.table, units.name)
     inputs = road_inputs(args, table, units)
     check = check_road(table, **inputs)
     record = road_json(check, table, units)
+    add_bend_objects(record, args, check, table, units)
     if args.json:
         print_json(record)
     else:
@@ -118,8 +152,40 @@ def print_road(record: dict, units: UnitSystem) -> None:
         grid.add_row(label, shown, unit_label(kind, units))
     grid.add_row("Cross-section", record["cross_section"], "")
     out.print(grid)
+    print_parts(out, record, units)
     colour = "red" if record["status"] == "fail" else "green"
     out.print(f"Status: [bold {colour}]{record['status'].upper()}[/]")
     for message in record["messages"]:
         out.print(f"  - {message}", markup=False)
     print_caution(out)
+
+
+PART_TITLES = {
+    "geometry": "Curve geometry",
+    "transition": "Transition and runoff",
+    "sight": "Sight distance round the bend",
+}
+
+
+def print_parts(out, record: dict, units: UnitSystem) -> None:
+    """Print the geometry, transition and sight objects of a record as small tables."""
+    from curvetui.stations import format_station
+
+    for part, title in PART_TITLES.items():
+        obj = record.get(part)
+        if not obj:
+            continue
+        grid = Table(title=title, show_header=False)
+        grid.add_column("Quantity")
+        grid.add_column("Value", justify="right")
+        for key, value in obj.items():
+            if key == "messages" or value is None:
+                continue
+            if key in ("pi", "pc", "pt", "ts", "sc", "cs", "st"):
+                value = format_station(value, units.name)
+            elif isinstance(value, float):
+                value = f"{value:,.3f}"
+            grid.add_row(key.replace("_", " "), str(value))
+        out.print(grid)
+        for m in obj.get("messages", []):
+            out.print(f"  - {m}", markup=False)
