@@ -6,19 +6,11 @@ import argparse
 
 from rich.table import Table
 
-from curvetui import CAUTION
+from curvetui.bends import RAIL_INPUTS, evaluate_rail
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution, print_json
-from curvetui.core.rail import RailCheck, RailLimits, check_rail, rail_centres_for_gauge
-from curvetui.core.rail_messages import rail_messages
-from curvetui.core.units import FOOT, UnitSystem, unit_system
-from curvetui.inputs import parse_number
-from curvetui.results import rail_record
+from curvetui.core.units import UnitSystem, unit_system
 from curvetui.tables import rail_limits
-
-RAIL_SPEED_RANGE_KMH = (1.0, 400.0)
-RAIL_SPEED_RANGE_MPH = (1.0, 250.0)
-RAIL_RADIUS_RANGE_M = (20.0, 100_000.0)
 
 
 def add_parser(check_sub) -> None:
@@ -35,86 +27,11 @@ def add_parser(check_sub) -> None:
     p.set_defaults(run=run)
 
 
-def rail_inputs(args: argparse.Namespace, limits: RailLimits, units: UnitSystem) -> dict:
-    """Parse and range-check the rail options; values in SI."""
-    lo, hi = RAIL_SPEED_RANGE_MPH if units.name == "us" else RAIL_SPEED_RANGE_KMH
-    speed = parse_number("--speed", args.speed, lo, hi, units.speed_label)
-    r_lo, r_hi = (units.length_from_si(x) for x in RAIL_RADIUS_RANGE_M)
-    radius = parse_number("--radius", args.radius, round(r_lo), round(r_hi), units.length_label)
-    cant_hi = 300.0 if units.name == "metric" else 12.0
-    cant = parse_number("--cant", args.cant, 0.0, cant_hi, units.cant_label)
-    inputs = {
-        "speed": units.speed_to_si(speed),
-        "radius": units.length_to_si(radius),
-        "cant": cant * units.cant,
-    }
-    if args.low_speed is not None:
-        inputs["low_speed"] = units.speed_to_si(
-            parse_number("--low-speed", args.low_speed, 0.0, speed, units.speed_label)
-        )
-    if args.gauge is not None:
-        gauge = parse_number("--gauge", args.gauge, 600.0, 1700.0, "mm")
-        inputs["rail_centres"] = rail_centres_for_gauge(gauge)
-    return inputs
-
-
-def rail_json(check: RailCheck, limits: RailLimits, units: UnitSystem) -> dict:
-    record = rail_record(check, (), units)
-    record["messages"] = rail_messages(check, (), limits, units)
-    record.update(
-        kind="rail",
-        units=units.name,
-        limits=limits.name,
-        limits_source=limits.source,
-        speed=float(units.speed_from_si(check.speed)),
-        radius=float(units.length_from_si(check.radius)),
-        cant=round(float(check.cant) / units.cant, 6),
-        caution=CAUTION,
-    )
-    if units.name == "us":
-        import math
-
-        r_ft = float(check.radius) / FOOT
-        record["degree_of_curve_arc"] = round(5729.5779513 / r_ft, 6)
-        record["degree_of_curve_chord"] = round(2 * math.degrees(math.asin(50.0 / r_ft)), 6)
-    return record
-
-
-def add_bend_objects(
-    record: dict, args, check: RailCheck, limits: RailLimits, units: UnitSystem
-) -> None:
-    """Add `transition` and, with --deflection, `geometry` to a rail record; a failed
-    transition fails the curve."""
-    record["transition"] = geo.rail_transition_json(
-        limits, float(check.cant), float(check.cant_deficiency), float(check.speed), units
-    )
-    geometry = geo.geometry_inputs(args, units)
-    if geometry is not None:
-        record["geometry"] = geo.geometry_json(float(check.radius), geometry, units)
-        t = record["transition"]
-        for name, ls in (("spiral in", geometry["ls_in"]), ("spiral out", geometry["ls_out"])):
-            need = t["length"]
-            given = units.length_from_si(ls)
-            if ls > 0 and need is not None and given < need - 1e-9:
-                t["status"] = "fail"
-                t["messages"].append(
-                    f"FAIL {name} {given:g} {units.length_label} is shorter "
-                    f"than the {need:.1f} {units.length_label} the "
-                    f"{t['governing']} needs"
-                )
-    if record["transition"]["status"] == "fail":
-        record["status"] = "fail"
-        record["messages"] += [
-            f"transition: {m}" for m in record["transition"]["messages"] if m.startswith("FAIL")
-        ]
-
-
 def run(args: argparse.Namespace) -> int:
     units = unit_system(args.units)
     limits = rail_limits(args.limits, units.name)
-    check = check_rail(limits, **rail_inputs(args, limits, units))
-    record = rail_json(check, limits, units)
-    add_bend_objects(record, args, check, limits, units)
+    raw = geo.raw_inputs(args, RAIL_INPUTS)
+    record = evaluate_rail(raw, units, limits)
     if args.json:
         print_json(record)
     else:

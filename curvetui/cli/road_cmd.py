@@ -6,22 +6,12 @@ import argparse
 
 from rich.table import Table
 
-from curvetui import CAUTION
+from curvetui.bends import ROAD_INPUTS, evaluate_road
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution, print_json
-from curvetui.core.road import RoadCheck, check_road
-from curvetui.core.road_messages import road_messages
-from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem, unit_system
-from curvetui.inputs import parse_number
-from curvetui.results import ROAD_FIELDS, road_record, unit_label
+from curvetui.results import ROAD_FIELDS, unit_label
 from curvetui.tables import road_table
-
-# Allowed input ranges in SI, shown to the user in their units.
-ROAD_SPEED_RANGE_KMH = (1.0, 200.0)
-RADIUS_RANGE_M = (1.0, 100_000.0)
-SUPERELEVATION_RANGE_PCT = (-10.0, 20.0)
-FRICTION_RANGE = (0.01, 1.0)
 
 
 def add_parser(check_sub) -> None:
@@ -41,94 +31,11 @@ def add_parser(check_sub) -> None:
     p.set_defaults(run=run)
 
 
-def speed_range(units: UnitSystem) -> tuple[float, float]:
-    lo, hi = ROAD_SPEED_RANGE_KMH
-    if units.name == "us":
-        return 1.0, 125.0
-    return lo, hi
-
-
-def road_inputs(args: argparse.Namespace, table: RoadTable, units: UnitSystem) -> dict:
-    """Parse and range-check the road options; values in SI (m/s, m, fractions)."""
-    lo, hi = speed_range(units)
-    speed = parse_number("--speed", args.speed, lo, hi, units.speed_label)
-    r_lo, r_hi = (units.length_from_si(x) for x in RADIUS_RANGE_M)
-    radius = parse_number("--radius", args.radius, round(r_lo, 1), round(r_hi), units.length_label)
-    inputs = {"speed": units.speed_to_si(speed), "radius": units.length_to_si(radius)}
-    if args.emax is not None:
-        inputs["e_max"] = (
-            parse_number(
-                "--emax",
-                args.emax,
-                100 * table.emax_min,
-                100 * table.emax_max,
-                f"% (table {table.name})",
-            )
-            / 100.0
-        )
-    if args.superelevation is not None:
-        inputs["superelevation"] = (
-            parse_number("--superelevation", args.superelevation, *SUPERELEVATION_RANGE_PCT, "%")
-            / 100.0
-        )
-    if args.friction is not None:
-        inputs["friction"] = parse_number("--friction", args.friction, *FRICTION_RANGE)
-    return inputs
-
-
-def road_json(check: RoadCheck, table: RoadTable, units: UnitSystem) -> dict:
-    record = road_record(check, (), units)
-    record["messages"] = road_messages(check, (), table, units)
-    record.update(
-        kind="road",
-        units=units.name,
-        table=table.name,
-        table_source=table.source,
-        speed=float(units.speed_from_si(check.speed)),
-        radius=float(units.length_from_si(check.radius)),
-        e_max=round(100 * float(check.e_max), 6),
-        caution=CAUTION,
-    )
-    return record
-
-
-def add_bend_objects(
-    record: dict, args, check: RoadCheck, table: RoadTable, units: UnitSystem
-) -> None:
-    """Add `transition`, and with the options `geometry` and `sight`, to a road record.
-
-    A failed transition or sight check fails the bend: it is never left as a side note.
-    """
-    v, r = float(check.speed), float(check.radius)
-    width = geo.lane_width(args, units)
-    record["transition"] = geo.road_transition_json(
-        table, v, r, float(check.superelevation), width, units
-    )
-    geometry = geo.geometry_inputs(args, units)
-    curve_length = None
-    if geometry is not None:
-        record["geometry"] = geo.geometry_json(r, geometry, units)
-        g = record["geometry"]
-        curve_length = units.length_to_si(g.get("length", g.get("total_length")))
-        geo.check_spiral_lengths(record["transition"], geometry, units)
-    sight = geo.sight_inputs(args, units)
-    if sight is not None:
-        record["sight"] = geo.sight_json(v, r, sight, curve_length, width, units)
-    for part in ("transition", "sight"):
-        if part in record and record[part]["status"] == "fail":
-            record["status"] = "fail"
-            record["messages"] += [
-                f"{part}: {m}" for m in record[part]["messages"] if m.startswith("FAIL")
-            ]
-
-
 def run(args: argparse.Namespace) -> int:
     units = unit_system(args.units)
     table = road_table(args.table, units.name)
-    inputs = road_inputs(args, table, units)
-    check = check_road(table, **inputs)
-    record = road_json(check, table, units)
-    add_bend_objects(record, args, check, table, units)
+    raw = geo.raw_inputs(args, ROAD_INPUTS)
+    record = evaluate_road(raw, units, table)
     if args.json:
         print_json(record)
     else:
