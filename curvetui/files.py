@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import os
+import shutil
 import tempfile
 from pathlib import Path
 
@@ -26,7 +27,10 @@ def atomic_write_text(path: str | Path, text: str, backup: bool = False) -> None
             bak_tmp = folder / f".{target.name}.bak.tmp"
             if bak_tmp.exists():
                 bak_tmp.unlink()
-            os.link(target, bak_tmp) if hasattr(os, "link") else None
+            try:
+                os.link(target, bak_tmp)  # the old file's contents, with no copy to tear
+            except OSError:
+                shutil.copy2(target, bak_tmp)
             os.replace(bak_tmp, bak)
         os.replace(tmp, target)
         try:

@@ -37,6 +37,7 @@ def build_parser() -> argparse.ArgumentParser:
     tables_cmd.add_parser(sub)
     setout_cmd.add_parser(sub)
     project_cmd.add_open_parser(sub)
+    project_cmd.add_new_parser(sub)
     return parser
 
 

@@ -1,102 +1,175 @@
-"""``curvetui FILE`` and ``curvetui check --project FILE``: every bend of a project."""
+"""Project commands: ``curvetui new FILE``, ``curvetui check --project FILE``, ``curvetui FILE``."""
 
 from __future__ import annotations
 
 import argparse
+import sys
+from pathlib import Path
 
 from rich import box
 from rich.table import Table
 
-from curvetui.cli.common import console, print_caution
-from curvetui.core.road import check_road
-from curvetui.core.road_messages import road_messages
-from curvetui.core.units import unit_system
-from curvetui.project_file import load_project
-from curvetui.results import road_record
+from curvetui.cli.common import console, print_caution, print_json
+from curvetui.inputs import InputError
+from curvetui.project.checking import (
+    evaluate_project,
+    project_context,
+    refresh_results,
+    stale_results,
+)
+from curvetui.project.files import ProjectError, load_project, save_project
+from curvetui.project.model import Details, Project
 from curvetui.stations import format_station
-from curvetui.tables import road_table
 
-COMMANDS = {"check", "tables", "open", "setout", "-h", "--help", "--version"}
+COMMANDS = {"check", "tables", "open", "setout", "new", "-h", "--help", "--version"}
 
 
 def add_check_project(check: argparse.ArgumentParser) -> None:
     check.add_argument("--project", help="check every bend of this project file")
+    check.add_argument(
+        "--save",
+        action="store_true",
+        help="with --project: store the fresh results in the file (atomic save)",
+    )
+    check.add_argument("--json", action="store_true", help="with --project: print JSON")
     check.set_defaults(run=_run_check_project)
 
 
+def add_new_parser(sub) -> None:
+    p = sub.add_parser("new", help="start a project file")
+    p.add_argument("file")
+    p.add_argument("--name", help="project name (default: the file name)")
+    p.add_argument("--units", choices=("metric", "us"), default="metric")
+    p.set_defaults(run=_run_new)
+
+
 def add_open_parser(sub) -> None:
-    p = sub.add_parser("open", help="open a project file (prints its check results)")
+    p = sub.add_parser("open", help="open a project file (created when absent)")
     p.add_argument("file")
     p.set_defaults(run=_run_open)
 
 
+def report_problems(exc: ProjectError) -> int:
+    sys.stderr.write(f"curvetui: error: {exc.path}: cannot use this project file:\n")
+    for p in exc.problems:
+        sys.stderr.write(f"  {p}\n")
+    return 2
+
+
+def _run_new(args) -> int:
+    path = Path(args.file)
+    if path.exists():
+        raise InputError(f"{path}: already exists; choose another name")
+    project = Project(Details(name=args.name or path.stem, units=args.units))
+    save_project(project, path)
+    console().print(f"Created {path} ({args.units} units).", markup=False)
+    return 0
+
+
 def _run_open(args) -> int:
-    """Opening shows the checks; a failing bend is news, not an error of the command."""
-    check_project(args.file)
+    """Open a project: the terminal app where available, else print its checks."""
+    path = Path(args.file)
+    if not path.exists():
+        save_project(Project(Details(name=path.stem)), path)
+        console().print(f"Created {path}.", markup=False)
+    try:
+        check_project(str(path))
+    except ProjectError as exc:
+        return report_problems(exc)
     return 0
 
 
 def _run_check_project(args) -> int:
     if not args.project:
-        raise SystemExit("curvetui: error: check needs `road` or --project FILE")
-    return check_project(args.project)
+        raise InputError("check: needs `road`, `rail` or --project FILE")
+    try:
+        return check_project(args.project, save=args.save, as_json=args.json)
+    except ProjectError as exc:
+        return report_problems(exc)
 
 
-def check_project(path: str) -> int:
-    """Print a results table for every bend; 1 when any bend fails."""
-    project = load_project(path)
-    units = unit_system(project["project"]["units"])
-    table = road_table(project["project"].get("road_table"), units.name)
+def check_project(path: str, save: bool = False, as_json: bool = False) -> int:
+    """Check every bend; 1 when any fails or cannot be computed."""
+    project, notes = load_project(path)
+    ctx = project_context(project)
+    outcomes = evaluate_project(project, ctx)
+    notes += stale_results(outcomes)
+    bad = any(o.status != "pass" for o in outcomes)
+    if save:
+        refresh_results(project, outcomes)
+        save_project(project, path)
+        notes.append(f"results stored in {path} (previous file kept as {path}.bak)")
+    if as_json:
+        print_json(
+            {
+                "project": project.details.to_json(),
+                "bends": [
+                    {
+                        "id": o.bend.id,
+                        "kind": o.bend.kind,
+                        "status": o.status,
+                        "error": o.error,
+                        "results": o.record,
+                    }
+                    for o in outcomes
+                ],
+                "notes": notes,
+            }
+        )
+        return 1 if bad else 0
+    print_outcomes(project, ctx, outcomes, notes)
+    return 1 if bad else 0
+
+
+def print_outcomes(project, ctx, outcomes, notes) -> None:
+    units = ctx.units
     out = console()
-    meta = project["project"]
+    d = project.details
     grid = Table(
-        title=f"{meta['name']} - job {meta.get('job_number', '')}",
-        caption=f"table: {table.name}; speeds {units.speed_label}, lengths {units.length_label}",
+        title=f"{d.name} - job {d.job_number}",
+        caption=f"road table {ctx.table.name}; rail limits {ctx.limits.name}; speeds "
+        f"{units.speed_label}, lengths {units.length_label}, cant {units.cant_label}",
         box=box.SIMPLE_HEAD,
         padding=(0, 1, 0, 0),
         pad_edge=False,
         show_edge=False,
     )
-    headers = ("Bend", "Station", "V", "R", "emax%", "e%", "f", "fmax", "Rmin", "Vsafe", "Status")
-    for col in headers:
-        left = col in ("Bend", "Status")
-        grid.add_column(col, justify="left" if left else "right", no_wrap=True)
-    any_fail = False
-    notes = []
-    for bend in project["bends"]:
-        if bend.get("kind") != "road":
+    for col in ("Bend", "Kind", "Station", "V", "R", "Key result", "Limit", "Vsafe", "Status"):
+        grid.add_column(
+            col,
+            justify="left" if col in ("Bend", "Kind", "Status", "Key result") else "right",
+            no_wrap=True,
+        )
+    lines = []
+    for o in outcomes:
+        b, r = o.bend, o.record
+        station = format_station(b.station, units.name, 1)
+        if r is None:
+            grid.add_row(b.id, b.kind, station, "", "", "", "", "", "[bold magenta]ERROR[/]")
+            lines.append(f"{b.id}: ERROR {o.error}")
             continue
-        i = bend["inputs"]
-        check = check_road(
-            table,
-            units.speed_to_si(i["speed"]),
-            units.length_to_si(i["radius"]),
-            e_max=i.get("emax", 100 * table.emax_default) / 100,
-            superelevation=i["superelevation"] / 100
-            if i.get("superelevation") is not None
-            else None,
-            friction=i.get("friction"),
-        )
-        rec = road_record(check, (), units)
-        any_fail |= rec["status"] == "fail"
-        colour = "red" if rec["status"] == "fail" else "green"
+        if b.kind == "road":
+            key = f"f {r['side_friction_demand']:.3f}"
+            limit = f"{r['side_friction_max']:.3f}"
+            safe = f"{r['safe_speed']:.1f}"
+        else:
+            key = f"D {r['cant_deficiency']:.1f}"
+            limit = f"{r['deficiency_limit']:.1f}"
+            safe = f"{r['max_speed']:.1f}"
+        colour = "red" if r["status"] == "fail" else "green"
         grid.add_row(
-            bend["id"],
-            format_station(bend.get("station", 0.0), units.name, 1),
-            f"{i['speed']:g}",
-            f"{i['radius']:g}",
-            f"{float(check.e_max) * 100:g}",
-            f"{rec['superelevation']:.1f}",
-            f"{rec['side_friction_demand']:.3f}",
-            f"{rec['side_friction_max']:.3f}",
-            f"{rec['min_radius_rounded']:g}",
-            f"{rec['safe_speed']:.1f}",
-            f"[{colour}]{rec['status'].upper()}[/]",
+            b.id,
+            b.kind,
+            station,
+            f"{r['speed']:g}",
+            f"{r['radius']:g}",
+            key,
+            limit,
+            safe,
+            f"[bold {colour}]{r['status'].upper()}[/]",
         )
-        for m in road_messages(check, (), table, units):
-            notes.append(f"{bend['id']}: {m}")
+        lines += [f"{b.id}: {m}" for m in r["messages"]]
     out.print(grid)
-    for n in notes:
-        out.print(f"  - {n}", markup=False)
+    for line in lines + notes:
+        out.print(f"  - {line}", markup=False)
     print_caution(out)
-    return 1 if any_fail else 0

@@ -19,10 +19,15 @@ def test_demo_project_prints_every_bend_and_fails(capsys):
     assert "qualified engineer" in out.replace("\n", " ")
 
 
-def test_missing_project_file_is_one_line(tmp_path, capsys):
-    code = main([str(tmp_path / "absent.json")])
-    assert code == 2
-    assert "cannot read" in capsys.readouterr().err
+def test_opening_an_absent_file_creates_it(tmp_path, capsys):
+    path = tmp_path / "absent.json"
+    assert main([str(path)]) == 0
+    assert path.exists() and "Created" in capsys.readouterr().out
+
+
+def test_checking_a_missing_file_exits_2(tmp_path, capsys):
+    assert main(["check", "--project", str(tmp_path / "absent.json")]) == 2
+    assert "no such file" in capsys.readouterr().err
 
 
 def test_corrupt_project_file(tmp_path, capsys):
@@ -35,3 +40,9 @@ def test_corrupt_project_file(tmp_path, capsys):
 def test_opening_the_demo_exits_0(capsys):
     assert main([str(DEMO)]) == 0
     assert "QV-05" in capsys.readouterr().out
+
+
+def test_demo_holds_road_and_rail_bends(capsys):
+    main(["check", "--project", str(DEMO)])
+    out = capsys.readouterr().out
+    assert "QS-01" in out and "QS-02" in out and "rail" in out

@@ -1,0 +1,1 @@
+"""Project files: the model, reading and writing, and checking every bend."""

@@ -1,0 +1,187 @@
+"""Reading, migrating, validating and saving project files (JSON, format version 2).
+
+Loading reports every problem at once, each with its JSON path and the allowed range; a
+file from a newer format is refused; version 1 files are migrated. Saving writes a
+temporary file beside the target, fsyncs it and renames it over the old one, keeping the
+previous file as FILE.bak, so a save killed at any moment leaves the old or the new file.
+"""
+
+from __future__ import annotations
+
+import json
+from functools import cache
+from importlib import resources
+from pathlib import Path
+from typing import Any
+
+from curvetui.files import atomic_write_text
+from curvetui.project.model import FORMAT_VERSION, Bend, Details, Project
+
+
+class ProjectError(ValueError):
+    """A project file that cannot be used; ``problems`` lists every fault found."""
+
+    def __init__(self, path: str, problems: list[str]):
+        self.path = path
+        self.problems = problems
+        head = f"{path}: " + (problems[0] if len(problems) == 1 else f"{len(problems)} problems")
+        super().__init__(head)
+
+
+@cache
+def project_schema() -> dict:
+    """The JSON Schema of format version 2, shipped in the package."""
+    text = (resources.files("curvetui") / "data" / "project-schema.json").read_text("utf-8")
+    return json.loads(text)
+
+
+def json_path(parts) -> str:
+    out = "$"
+    for p in parts:
+        out += f"[{p}]" if isinstance(p, int) else f".{p}"
+    return out
+
+
+def _describe(error) -> str:
+    """One schema error in plain words, with the allowed range where the schema gives one."""
+    v, s = error.validator, error.schema
+    where = json_path(error.absolute_path)
+    got = error.instance
+    if v == "required":
+        missing = error.message.split("'")[1] if "'" in error.message else error.message
+        return f"{where}: missing '{missing}'"
+    if v in ("minimum", "maximum", "exclusiveMinimum", "exclusiveMaximum"):
+        lo = s.get("minimum", s.get("exclusiveMinimum"))
+        hi = s.get("maximum", s.get("exclusiveMaximum"))
+        lo_word = "greater than" if "exclusiveMinimum" in s else "from"
+        rng = f"{lo_word} {lo:g} to {hi:g}" if lo is not None and hi is not None else ""
+        return f"{where}: must be a number {rng}, got {got!r}".replace("number ,", "number,")
+    if v == "type":
+        want = s["type"] if isinstance(s["type"], str) else " or ".join(s["type"])
+        return f"{where}: must be {want}, got {json.dumps(got)[:40]}"
+    if v == "enum":
+        return f"{where}: must be one of {', '.join(map(repr, s['enum']))}, got {got!r}"
+    if v == "const":
+        return f"{where}: must be {s['const']!r}, got {got!r}"
+    if v == "additionalProperties":
+        return f"{where}: {error.message} (not a field of this format)"
+    if v in ("minLength", "maxLength"):
+        return (
+            f"{where}: text length must be {s.get('minLength', 0)} to "
+            f"{s.get('maxLength', 'any')} characters"
+        )
+    if v == "pattern":
+        return f"{where}: must be a date written YYYY-MM-DD, got {got!r}"
+    return f"{where}: {error.message}"
+
+
+def validate(data: Any) -> list[str]:
+    """Every schema problem of a parsed document, sorted by path."""
+    from jsonschema import Draft202012Validator
+
+    validator = Draft202012Validator(project_schema())
+    errors = sorted(validator.iter_errors(data), key=lambda e: list(map(str, e.absolute_path)))
+    problems = [_describe(e) for e in errors]
+    if isinstance(data, dict) and isinstance(data.get("bends"), list):
+        seen: dict[str, int] = {}
+        for i, b in enumerate(data["bends"]):
+            if isinstance(b, dict) and isinstance(b.get("id"), str):
+                if b["id"] in seen:
+                    problems.append(
+                        f"$.bends[{i}].id: {b['id']!r} is used by bends[{seen[b['id']]}]"
+                        " too; ids must be unique"
+                    )
+                seen.setdefault(b["id"], i)
+    return problems
+
+
+def migrate(data: dict, path: str) -> tuple[dict, list[str]]:
+    """Bring an older document up to the current format; returns it and notes of what moved."""
+    if not isinstance(data, dict):
+        raise ProjectError(path, ["$: must be a JSON object"])
+    version = data.get("curvetui_project_version")
+    if version is None and data.get("format") == "curvetui-project":
+        version = data.get("version")
+    if version == FORMAT_VERSION:
+        return data, []
+    if isinstance(version, int) and version > FORMAT_VERSION:
+        raise ProjectError(
+            path,
+            [
+                f"$: written by a newer curvetui (format {version}); this one "
+                f"reads formats 1 to {FORMAT_VERSION}: update curvetui"
+            ],
+        )
+    if version == 1:
+        bends = []
+        for b in data.get("bends", []):
+            b = dict(b)
+            b.setdefault("notes", "")
+            b.setdefault("results", None)
+            bends.append(b)
+        details = dict(data.get("project", {}))
+        return (
+            {"curvetui_project_version": FORMAT_VERSION, "details": details, "bends": bends},
+            ["migrated from format 1: 'project' became 'details'"],
+        )
+    raise ProjectError(path, ["$: not a curvetui project file (no 'curvetui_project_version')"])
+
+
+def parse_project(data: dict) -> Project:
+    """A validated document as a Project."""
+    d = data["details"]
+    details = Details(**{k: d[k] for k in d})
+    bends = [
+        Bend(
+            id=b["id"],
+            kind=b["kind"],
+            inputs=dict(b["inputs"]),
+            station=float(b.get("station", 0.0)),
+            notes=b.get("notes", ""),
+            results=b.get("results"),
+        )
+        for b in data["bends"]
+    ]
+    return Project(details, bends)
+
+
+def load_project(path: str | Path) -> tuple[Project, list[str]]:
+    """Load, migrate and validate a project; returns it and notes (e.g. a migration).
+
+    Raises ProjectError listing every problem with its JSON path.
+    """
+    name = str(path)
+    try:
+        text = Path(path).read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ProjectError(name, ["no such file"]) from None
+    except OSError as exc:
+        raise ProjectError(name, [f"cannot read ({exc.strerror})"]) from None
+    except UnicodeDecodeError:
+        raise ProjectError(name, ["not UTF-8 text"]) from None
+    if not text.strip():
+        raise ProjectError(name, ["the file is empty"])
+    try:
+        data = json.loads(text)
+    except json.JSONDecodeError as exc:
+        raise ProjectError(
+            name,
+            [
+                f"not valid JSON (line {exc.lineno}, column {exc.colno}: "
+                f"{exc.msg}); the file may be truncated or corrupt"
+            ],
+        ) from None
+    data, notes = migrate(data, name)
+    problems = validate(data)
+    if problems:
+        raise ProjectError(name, problems)
+    return parse_project(data), notes
+
+
+def project_text(project: Project) -> str:
+    return json.dumps(project.to_json(), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+
+
+def save_project(project: Project, path: str | Path) -> None:
+    """Save atomically, keeping the previous file as FILE.bak."""
+    atomic_write_text(path, project_text(project), backup=True)

@@ -1,0 +1,92 @@
+"""The project model: details and an ordered list of bends, each with its inputs."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+FORMAT_VERSION = 2
+DETAIL_FIELDS = (
+    "name",
+    "client",
+    "job_number",
+    "designer",
+    "checker",
+    "date",
+    "revision",
+    "drawing",
+    "units",
+    "road_table",
+    "rail_limits",
+    "notes",
+)
+
+
+@dataclass
+class Details:
+    """Project metadata; units are 'metric' or 'us'."""
+
+    name: str
+    units: str = "metric"
+    client: str = ""
+    job_number: str = ""
+    designer: str = ""
+    checker: str = ""
+    date: str = ""
+    revision: str = ""
+    drawing: str = ""
+    road_table: str | None = None
+    rail_limits: str | None = None
+    notes: str = ""
+
+    def to_json(self) -> dict[str, Any]:
+        return {k: getattr(self, k) for k in DETAIL_FIELDS}
+
+
+@dataclass
+class Bend:
+    """One bend: its inputs in the project's units, notes, and the results stored at save."""
+
+    id: str
+    kind: str  # "road" or "rail"
+    inputs: dict[str, Any]
+    station: float = 0.0
+    notes: str = ""
+    results: dict[str, Any] | None = None
+
+    def to_json(self) -> dict[str, Any]:
+        inputs = {k: v for k, v in self.inputs.items() if v is not None and v != ""}
+        return {
+            "id": self.id,
+            "kind": self.kind,
+            "station": self.station,
+            "inputs": inputs,
+            "notes": self.notes,
+            "results": self.results,
+        }
+
+
+@dataclass
+class Project:
+    details: Details
+    bends: list[Bend] = field(default_factory=list)
+
+    def to_json(self) -> dict[str, Any]:
+        return {
+            "curvetui_project_version": FORMAT_VERSION,
+            "details": self.details.to_json(),
+            "bends": [b.to_json() for b in self.bends],
+        }
+
+    def bend(self, bend_id: str) -> Bend:
+        for b in self.bends:
+            if b.id == bend_id:
+                return b
+        raise KeyError(bend_id)
+
+    def new_bend_id(self, prefix: str = "B") -> str:
+        taken = {b.id for b in self.bends}
+        n = len(self.bends) + 1
+        while f"{prefix}{n:02d}" in taken:
+            n += 1
+        return f"{prefix}{n:02d}"
