@@ -49,6 +49,16 @@ RAIL_INPUTS = (
     "spiral_out",
 )
 
+GEOMETRY_KEYS = (
+    "deflection",
+    "pi_station",
+    "spiral_in",
+    "spiral_out",
+    "obstruction_offset",
+    "grade",
+    "lane_width",
+)
+
 # Allowed ranges (display units: metric, us)
 ROAD_SPEED = {"metric": (1.0, 200.0), "us": (1.0, 125.0)}
 RAIL_SPEED = {"metric": (1.0, 400.0), "us": (1.0, 250.0)}

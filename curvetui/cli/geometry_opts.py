@@ -30,15 +30,16 @@ def add_sight_lane_option(p: argparse.ArgumentParser) -> None:
     )
 
 
-GEOMETRY_KEYS = (
-    "deflection",
-    "pi_station",
-    "spiral_in",
-    "spiral_out",
-    "obstruction_offset",
-    "grade",
-    "lane_width",
-)
+def run_check(args: argparse.Namespace, keys, evaluate, printer) -> int:
+    """Shared body of `check road` and `check rail`: evaluate, print, exit 1 on a failure."""
+    from curvetui.cli.common import print_json
+
+    record = evaluate(raw_inputs(args, keys))
+    if args.json:
+        print_json(record)
+    else:
+        printer(record)
+    return 1 if record["status"] == "fail" else 0
 
 
 def raw_inputs(args: argparse.Namespace, keys) -> dict:

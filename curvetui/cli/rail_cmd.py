@@ -8,7 +8,7 @@ from rich.table import Table
 
 from curvetui.bends import RAIL_INPUTS, evaluate_rail
 from curvetui.cli import geometry_opts as geo
-from curvetui.cli.common import add_units_option, console, print_caution, print_json
+from curvetui.cli.common import add_units_option, console, print_caution
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.tables import rail_limits
 
@@ -30,13 +30,12 @@ def add_parser(check_sub) -> None:
 def run(args: argparse.Namespace) -> int:
     units = unit_system(args.units)
     limits = rail_limits(args.limits, units.name)
-    raw = geo.raw_inputs(args, RAIL_INPUTS)
-    record = evaluate_rail(raw, units, limits)
-    if args.json:
-        print_json(record)
-    else:
-        print_rail(record, units)
-    return 1 if record["status"] == "fail" else 0
+    return geo.run_check(
+        args,
+        RAIL_INPUTS,
+        lambda raw: evaluate_rail(raw, units, limits),
+        lambda r: print_rail(r, units),
+    )
 
 
 def print_rail(record: dict, units: UnitSystem) -> None:

@@ -8,7 +8,7 @@ from rich.table import Table
 
 from curvetui.bends import ROAD_INPUTS, evaluate_road
 from curvetui.cli import geometry_opts as geo
-from curvetui.cli.common import add_units_option, console, print_caution, print_json
+from curvetui.cli.common import add_units_option, console, print_caution
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.results import ROAD_FIELDS, unit_label
 from curvetui.tables import road_table
@@ -34,13 +34,12 @@ def add_parser(check_sub) -> None:
 def run(args: argparse.Namespace) -> int:
     units = unit_system(args.units)
     table = road_table(args.table, units.name)
-    raw = geo.raw_inputs(args, ROAD_INPUTS)
-    record = evaluate_road(raw, units, table)
-    if args.json:
-        print_json(record)
-    else:
-        print_road(record, units)
-    return 1 if record["status"] == "fail" else 0
+    return geo.run_check(
+        args,
+        ROAD_INPUTS,
+        lambda raw: evaluate_road(raw, units, table),
+        lambda r: print_road(r, units),
+    )
 
 
 def print_road(record: dict, units: UnitSystem) -> None:

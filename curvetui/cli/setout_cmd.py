@@ -11,7 +11,7 @@ from rich import box
 from rich.table import Table
 
 from curvetui import CAUTION
-from curvetui.bends import cli_name, parse_geometry
+from curvetui.bends import GEOMETRY_KEYS, cli_name, parse_geometry
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution
 from curvetui.core.units import UnitSystem, unit_system
@@ -52,7 +52,7 @@ def run(args: argparse.Namespace) -> int:
     units = unit_system(args.units)
     if args.deflection is None:
         raise InputError("--deflection: needed for setting out (degrees, 0 to 179)")
-    g = parse_geometry(geo.raw_inputs(args, geo.GEOMETRY_KEYS), units, cli_name)
+    g = parse_geometry(geo.raw_inputs(args, GEOMETRY_KEYS), units, cli_name)
     radius = units.length_to_si(parse_number("--radius", args.radius, 1, 1e5, units.length_label))
     big = 1e8
     e = units.length_to_si(parse_number("--pi-easting", args.pi_easting, -big, big))
