@@ -46,6 +46,7 @@ def add_new_parser(sub) -> None:
 def add_open_parser(sub) -> None:
     p = sub.add_parser("open", help="open a project file (created when absent)")
     p.add_argument("file")
+    p.add_argument("--print", action="store_true", help="print the checks instead of the app")
     p.set_defaults(run=_run_open)
 
 
@@ -67,15 +68,25 @@ def _run_new(args) -> int:
 
 
 def _run_open(args) -> int:
-    """Open a project: the terminal app where available, else print its checks."""
+    """Open a project in the terminal app (created when absent). Without a terminal (a pipe,
+    CI), print its checks instead."""
     path = Path(args.file)
     if not path.exists():
         save_project(Project(Details(name=path.stem)), path)
         console().print(f"Created {path}.", markup=False)
+    if args.print or not (sys.stdin.isatty() and sys.stdout.isatty()):
+        try:
+            check_project(str(path))
+        except ProjectError as exc:
+            return report_problems(exc)
+        return 0
+    from curvetui.app.app import build_app
+
     try:
-        check_project(str(path))
+        app = build_app(path)
     except ProjectError as exc:
         return report_problems(exc)
+    app.run()
     return 0
 
 

@@ -1,0 +1,1 @@
+"""Modal dialogs of the terminal app."""

@@ -1,0 +1,191 @@
+"""The bend worksheet: the inputs in the order a designer thinks, validated as typed, and
+the results beside them. The last good result stays on screen while an input is invalid."""
+
+from __future__ import annotations
+
+from rich.console import Group
+from rich.markup import escape
+from rich.table import Table
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.containers import Horizontal, VerticalScroll
+from textual.widgets import Input, Label, Select, Static
+
+from curvetui.app.session import RAIL_FIELD_ORDER, ROAD_FIELD_ORDER, field_label
+from curvetui.core.units import UnitSystem
+from curvetui.results import RAIL_FIELDS, ROAD_FIELDS, unit_label
+
+# Every input either kind can have, in one order that reads well for both.
+ALL_FIELDS = (
+    "speed",
+    "low_speed",
+    "radius",
+    "deflection",
+    "pi_station",
+    "superelevation",
+    "emax",
+    "friction",
+    "cant",
+    "gauge",
+    "spiral_in",
+    "spiral_out",
+    "obstruction_offset",
+    "grade",
+    "lane_width",
+)
+UNIT_KIND = {
+    "speed": "speed",
+    "low_speed": "speed",
+    "radius": "length",
+    "deflection": "deg",
+    "pi_station": "length",
+    "superelevation": "%",
+    "emax": "%",
+    "friction": "",
+    "cant": "cant",
+    "gauge": "mm",
+    "spiral_in": "length",
+    "spiral_out": "length",
+    "obstruction_offset": "length",
+    "grade": "%",
+    "lane_width": "length",
+}
+HINTS = {
+    "superelevation": "blank: design value",
+    "emax": "blank: table default",
+    "friction": "blank: table f_max",
+    "low_speed": "for cant excess",
+    "gauge": "blank: 1435",
+    "pi_station": "e.g. 2+710",
+    "spiral_out": "blank: = in",
+    "obstruction_offset": "sight clearance",
+    "grade": "+ up / - down",
+    "lane_width": "blank: 3.6 m / 12 ft",
+}
+
+
+def field_unit(key: str, units: UnitSystem) -> str:
+    kind = UNIT_KIND[key]
+    return {"deg": "deg"}.get(kind, unit_label(kind, units))
+
+
+class Worksheet(Horizontal):
+    """Inputs on the left, results on the right (stacked when the terminal is narrow)."""
+
+    DEFAULT_CSS = """
+    Worksheet { height: 1fr; }
+    Worksheet #form { width: 44; height: 1fr; }
+    Worksheet .row { height: 1; }
+    Worksheet .row Label { width: 16; padding: 0 1 0 0; }
+    Worksheet .row Input { width: 14; border: none; height: 1; padding: 0 1; }
+    Worksheet .row .unit { width: 11; color: $text-muted; padding: 0 0 0 1; }
+    Worksheet .row Input.-invalid { background: $error 30%; }
+    Worksheet #kind { width: 30; margin: 0 0 1 0; }
+    Worksheet #field-error { color: $error; height: auto; }
+    Worksheet #results { width: 1fr; height: 1fr; padding: 0 1; }
+    """
+
+    def compose(self) -> ComposeResult:
+        with VerticalScroll(id="form"):
+            yield Select(
+                [("Road bend", "road"), ("Rail curve", "rail")],
+                id="kind",
+                allow_blank=False,
+                value="road",
+                compact=True,
+            )
+            for key in ("bend_id", "station", "notes"):
+                with Horizontal(classes="row", id=f"row-{key}"):
+                    yield Label({"bend_id": "bend id", "station": "station", "notes": "notes"}[key])
+                    yield Input(id=f"in-{key}", compact=True)
+                    yield Static("", classes="unit", id=f"unit-{key}")
+            for key in ALL_FIELDS:
+                with Horizontal(classes="row", id=f"row-{key}"):
+                    yield Label(field_label(key))
+                    yield Input(id=f"in-{key}", compact=True, placeholder="")
+                    yield Static("", classes="unit", id=f"unit-{key}")
+            yield Static("", id="field-error")
+        with VerticalScroll(id="results"):
+            yield Static("", id="results-body")
+
+    def show_fields(self, kind: str, units: UnitSystem) -> None:
+        wanted = set(ROAD_FIELD_ORDER if kind == "road" else RAIL_FIELD_ORDER)
+        for key in ALL_FIELDS:
+            self.query_one(f"#row-{key}").display = key in wanted
+            unit = field_unit(key, units)
+            hint = HINTS.get(key, "")
+            self.query_one(f"#unit-{key}", Static).update(escape(unit))
+            self.query_one(f"#in-{key}", Input).placeholder = hint
+        self.query_one("#unit-station", Static).update(escape(units.length_label))
+
+    def show_results(
+        self, record: dict | None, error: str | None, units: UnitSystem, stale: bool
+    ) -> None:
+        self.query_one("#field-error", Static).update(Text(error, style="bold") if error else "")
+        self.query_one("#results-body", Static).update(results_renderable(record, units, stale))
+
+
+def results_renderable(record: dict | None, units: UnitSystem, stale: bool):
+    """The results of a record as a Rich renderable: status first, then values, then reasons."""
+    if record is None:
+        return Text("No result yet: give valid inputs.", style="italic")
+    status = record["status"]
+    word = "PASS" if status == "pass" else "FAIL"
+    head = Text()
+    head.append(
+        f" {word} ", style="bold white on green" if status == "pass" else "bold white on red"
+    )
+    head.append(
+        f"  {record['kind']} bend, {record['speed']:g} {units.speed_label}, "
+        f"R {record['radius']:g} {units.length_label}"
+    )
+    if stale:
+        head.append("\nshowing the last valid inputs' results", style="bold yellow")
+    grid = Table(show_header=False, box=None, padding=(0, 1), expand=False)
+    grid.add_column("q", no_wrap=True, overflow="ellipsis", max_width=34)
+    grid.add_column("v", justify="right", no_wrap=True)
+    grid.add_column("u", no_wrap=True, overflow="ellipsis")
+    fields = ROAD_FIELDS if record["kind"] == "road" else RAIL_FIELDS
+    for key, (label, kind) in fields.items():
+        value = record.get(key)
+        if value is None:
+            continue
+        grid.add_row(
+            label, f"{value:,.3f}" if abs(value) < 100 else f"{value:,.1f}", unit_label(kind, units)
+        )
+    if record["kind"] == "road":
+        grid.add_row("Cross-section", record["cross_section"], "")
+    t = record.get("transition") or {}
+    if "spiral_length_min" in t and t.get("spiral_length_min") is not None:
+        grid.add_row(
+            "Spiral length range",
+            f"{t['spiral_length_min']:.1f}-{t['spiral_length_max']:.1f}",
+            f"{units.length_label} ({t['governing']})",
+        )
+    elif t.get("length") is not None:
+        grid.add_row(
+            "Transition length", f"{t['length']:.1f}", f"{units.length_label} ({t['governing']})"
+        )
+    s = record.get("sight")
+    if s:
+        grid.add_row(
+            "Sightline offset needed",
+            f"{s['sightline_offset_required']:.2f}",
+            f"{units.length_label} ({s['status']})",
+        )
+    g = record.get("geometry")
+    if g:
+        key = "tangent" if g["type"] == "circular" else "total_tangent"
+        grid.add_row("Tangent length", f"{g[key]:,.2f}", units.length_label)
+        grid.add_row(
+            "Curve length", f"{g.get('length', g.get('total_length')):,.2f}", units.length_label
+        )
+    msgs = Text()
+    for m in record["messages"]:
+        style = (
+            "bold red"
+            if m.startswith("FAIL") or ": FAIL" in m
+            else ("yellow" if "WARNING" in m else "")
+        )
+        msgs.append(f"- {m}\n", style=style)
+    return Group(head, Text(""), grid, Text(""), msgs)

@@ -1,0 +1,307 @@
+"""A bend's calculation written out step by step: formula, substituted values, answer and
+source, so a checker can follow it by hand. Shared by the terminal app and the worksheet.
+
+Pure text from a bend's record (the output of curvetui.bends); no computation of its own
+beyond the arithmetic a checker would write beside each line.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from curvetui.core.rail import RailLimits
+from curvetui.core.road_table import ROW, RoadTable
+from curvetui.core.units import G0, UnitSystem
+
+
+@dataclass(frozen=True)
+class Step:
+    """One line of working."""
+
+    label: str
+    formula: str
+    substituted: str
+    result: str
+    source: str
+    check: str = ""  # "pass", "fail" or "" (no check on this line)
+
+
+def _f(x, digits=4) -> str:
+    return f"{x:.{digits}g}" if abs(x) < 10**digits else f"{x:,.0f}"
+
+
+def table_row_text(table: RoadTable, speed_display: float, units: UnitSystem) -> str:
+    """Which table row(s) gave f_max: the row itself, or the two rows interpolated."""
+    v_si = units.speed_to_si(speed_display)
+    _, kind = table.f_max(v_si)
+    tv = v_si / table.speed_unit
+    sp = table.speeds
+    tu = "km/h" if table.units == "metric" else "mph"
+    if int(kind) == ROW:
+        i = int(np.argmin(abs(sp - tv)))
+        return (
+            f"{table.name} row {sp[i]:g} {tu}: f_max {table.side_friction_max[i]:g} "
+            f"({table.row_sources[i]})"
+        )
+    i = int(np.clip(np.searchsorted(sp, tv) - 1, 0, len(sp) - 2))
+    how = "interpolated" if sp[0] <= tv <= sp[-1] else "EXTRAPOLATED"
+    return (
+        f"{table.name}: {how} between rows {sp[i]:g} {tu} (f_max "
+        f"{table.side_friction_max[i]:g}) and {sp[i + 1]:g} {tu} (f_max "
+        f"{table.side_friction_max[i + 1]:g})"
+    )
+
+
+def road_working(record: dict, table: RoadTable, units: UnitSystem) -> list[Step]:
+    """The steps of a road check, in the table's own form of the point-mass equation."""
+    V, R = record["speed"], record["radius"]
+    C = table.point_mass_constant
+    sp, ln = units.speed_label, units.length_label
+    # the standard's equation is written in its own units; show it in the project's units
+    # when they agree with the table (the usual case), else in SI
+    native = units.name == table.units
+    e = record["superelevation"] / 100
+    emax = record["e_max"] / 100
+    fmax = record["side_friction_max"]
+    v_ms = units.speed_to_si(V)
+    r_m = units.length_to_si(R)
+    src = "AASHTO Green Book 2018 Eq. 3-8 (point-mass model)"
+    steps = [
+        Step(
+            "Lateral acceleration",
+            "a = v^2 / R",
+            f"a = ({_f(v_ms)} m/s)^2 / {_f(r_m)} m",
+            f"{_f(v_ms**2 / r_m)} m/s^2 = {_f(record['lateral_acceleration_g'])} g",
+            "Newtonian circular motion; g = 9.80665 m/s^2",
+        ),
+        Step(
+            "Maximum side friction",
+            "f_max from the design table",
+            f"V = {V:g} {sp}",
+            f"f_max = {fmax:g}",
+            table_row_text(table, V, units),
+        ),
+    ]
+    if native:
+        rmin = V**2 / (C * (emax + fmax))
+        steps.append(
+            Step(
+                "Minimum radius",
+                f"R_min = V^2 / ({C:g} (e_max + f_max))",
+                f"R_min = {V:g}^2 / ({C:g} x ({emax:.3f} + {fmax:.3f}))",
+                f"{_f(rmin, 5)} {ln}, as the table rounds {record['min_radius_rounded']:g} {ln}",
+                f"{table.source.split(':')[0]}; Eq. 3-10",
+                "fail" if R < record["min_radius"] - 1e-9 else "pass",
+            )
+        )
+        demand = V**2 / (C * R) - e
+        friction_formula = f"f = V^2 / ({C:g} R) - e"
+        friction_sub = f"f = {V:g}^2 / ({C:g} x {R:g}) - {e:.4f}"
+    else:
+        steps.append(
+            Step(
+                "Minimum radius",
+                "R_min = v^2 / (k (e_max + f_max))",
+                f"k = {table.k_si:.4f} m/s^2 from the table's constant {C:g}",
+                f"{record['min_radius']:.5g} {ln}",
+                src,
+                "fail" if R < record["min_radius"] - 1e-9 else "pass",
+            )
+        )
+        demand = record["side_friction_demand"]
+        friction_formula = "f = v^2 / (k R) - e"
+        friction_sub = f"k = {table.k_si:.4f} m/s^2, v = {_f(v_ms)} m/s, R = {_f(r_m)} m"
+    steps.append(
+        Step(
+            "Design superelevation",
+            "Method 5 (parabolic f distribution on the running speed)"
+            if table.distribution == "aashto-method-5"
+            else "e = e_max R_min / R (linear distribution)",
+            f"V = {V:g} {sp}, R = {R:g} {ln}, e_max = {record['e_max']:g} %",
+            f"e = {record['superelevation_design']:.2f} % ({record['cross_section']})",
+            "Green Book 2018 section 3.3.5 (Method 5)"
+            if table.distribution == "aashto-method-5"
+            else "linear distribution (AASHTO Method 1)",
+        )
+    )
+    steps.append(
+        Step(
+            "Side friction demand",
+            friction_formula,
+            friction_sub,
+            f"f = {demand:.4f} against f_max {fmax:g}",
+            src,
+            "fail" if demand > fmax + 1e-12 else "pass",
+        )
+    )
+    steps.append(
+        Step(
+            "Safe speed",
+            "largest V with V^2/(C R) - e <= f_max(V)",
+            "solved exactly on the table's piecewise-linear f_max",
+            f"{record['safe_speed']:.1f} {sp}",
+            src,
+            "fail" if record["safe_speed"] < V - 1e-9 else "pass",
+        )
+    )
+    steps += _transition_steps(record, units) + _sight_steps(record, units)
+    return steps
+
+
+def rail_working(record: dict, limits: RailLimits, units: UnitSystem) -> list[Step]:
+    """The steps of a rail check: E = s v^2/(g R), D, X, a_q, speed limits."""
+    V, R = record["speed"], record["radius"]
+    cl, sp = units.cant_label, units.speed_label
+    s = record["rail_centres"]
+    v = units.speed_to_si(V)
+    r = units.length_to_si(R)
+    s_m = s * units.cant
+    src = "EN 13803 form E = s v^2 / (g R)"
+    steps = [
+        Step(
+            "Equilibrium cant",
+            "E = s v^2 / (g R)",
+            f"E = {_f(s_m)} m x ({_f(v)} m/s)^2 / ({G0} x {_f(r)} m)",
+            f"{record['equilibrium_cant']:.1f} {cl}",
+            src,
+        ),
+        Step(
+            "Cant deficiency",
+            "D = E - E_a",
+            f"D = {record['equilibrium_cant']:.1f} - {record['cant']:g}",
+            f"{record['cant_deficiency']:.1f} {cl} against {record['deficiency_limit']:g}",
+            f"{limits.name}",
+            "fail" if record["cant_deficiency"] > record["deficiency_limit"] + 1e-9 else "pass",
+        ),
+    ]
+    if record.get("cant_excess") is not None:
+        steps.append(
+            Step(
+                "Cant excess",
+                "X = E_a - E(v_low)",
+                f"X = {record['cant']:g} - {record['equilibrium_cant_low']:.1f}",
+                f"{record['cant_excess']:.1f} {cl}"
+                + (
+                    f" against {record['excess_limit']:g}"
+                    if record.get("excess_limit") is not None
+                    else ""
+                ),
+                limits.name,
+                "fail"
+                if record.get("excess_limit") is not None
+                and record["cant_excess"] > record["excess_limit"] + 1e-9
+                else "pass",
+            )
+        )
+    steps += [
+        Step(
+            "Uncompensated lateral acceleration",
+            "a_q = g D / s",
+            f"a_q = {G0} x {record['cant_deficiency']:.1f} / {s:g}",
+            f"{record['lateral_acceleration']:.3f} m/s^2",
+            src,
+        ),
+        Step(
+            "Maximum speed",
+            "V_max = sqrt(g R (E_a + D_lim) / s)",
+            f"sqrt({G0} x {_f(r)} x ({record['cant']:g} + {record['deficiency_limit']:g}) / {s:g})",
+            f"{record['max_speed']:.1f} {sp}",
+            limits.name,
+            "fail" if record["max_speed"] < V - 1e-9 else "pass",
+        ),
+        Step(
+            "Applied cant",
+            "E_a <= E_max",
+            f"{record['cant']:g} <= {record['cant_limit']:g}",
+            f"{record['cant']:g} {cl}",
+            limits.name,
+            "fail" if record["cant"] > record["cant_limit"] + 1e-9 else "pass",
+        ),
+    ]
+    if record.get("min_speed") is not None:
+        steps.append(
+            Step(
+                "Minimum speed",
+                "V_min = sqrt(g R (E_a - X_lim) / s)",
+                "0 where E_a <= X_lim",
+                f"{record['min_speed']:.1f} {sp}",
+                limits.name,
+            )
+        )
+    if record.get("balancing_cant") is not None:
+        steps.append(
+            Step(
+                "Cant balancing both trains",
+                "(E - E_a)/D_lim = (E_a - E_low)/X_lim",
+                "same share of each limit (common practice)",
+                f"{record['balancing_cant']:.1f} {cl}",
+                "common practice, no source",
+            )
+        )
+    steps += _transition_steps(record, units)
+    return steps
+
+
+def _transition_steps(record: dict, units: UnitSystem) -> list[Step]:
+    t = record.get("transition")
+    if not t:
+        return []
+    ln = units.length_label
+    status = "fail" if t["status"] == "fail" else ("" if t["status"] != "pass" else "pass")
+    if "spiral_length_min" in t:
+        lo, hi = t["spiral_length_min"], t["spiral_length_max"]
+        return [
+            Step(
+                "Spiral length",
+                "max(v^3/(C R), sqrt(24 p_min R), runoff) ... sqrt(24 p_max R)",
+                f"comfort {_num(t['length_comfort'])}, shift "
+                f"{_num(t['length_shift_min'])}, runoff {_num(t['runoff'])} {ln}",
+                f"{_num(lo)} to {_num(hi)} {ln} ({t['governing']} governs)",
+                "Green Book 2018 section 3.3.8 (from memory)",
+                status,
+            )
+        ]
+    return [
+        Step(
+            "Transition length",
+            "max(E/(dE/ds), E v/(dE/dt), D v/(dD/dt))",
+            f"gradient {_num(t['length_cant_gradient'])}, cant rate "
+            f"{_num(t['length_cant_rate'])}, deficiency rate "
+            f"{_num(t['length_deficiency_rate'])} {ln}",
+            f"{_num(t['length'])} {ln} ({t['governing']})",
+            "rail limits file",
+            status,
+        )
+    ]
+
+
+def _sight_steps(record: dict, units: UnitSystem) -> list[Step]:
+    s = record.get("sight")
+    if not s:
+        return []
+    ln = units.length_label
+    return [
+        Step(
+            "Stopping sight distance",
+            "SSD = v t + v^2 / (2 a), rounded up to 5",
+            "t = 2.5 s, a = " + ("3.4 m/s^2" if units.name == "metric" else "11.2 ft/s^2"),
+            f"{_num(s['stopping_sight_distance'])} {ln}",
+            "Green Book 2018 Eq. 3-2, Table 3-1",
+        ),
+        Step(
+            "Sightline offset",
+            "HSO = R (1 - cos(S / (2 R)))",
+            f"R = {_num(s['sightline_radius'])}, S = {_num(s['stopping_sight_distance'])}",
+            f"{_num(s['sightline_offset_required'])} {ln} needed, "
+            f"{_num(s['offset_available'])} {ln} clear",
+            "TxDOT Roadway Design Manual 4.7.9 form (read)",
+            s["status"],
+        ),
+    ]
+
+
+def _num(x) -> str:
+    return "-" if x is None or (isinstance(x, float) and math.isnan(x)) else f"{x:.1f}"
