@@ -17,14 +17,22 @@ def atomic_write_text(path: str | Path, text: str, backup: bool = False) -> None
     target = Path(path)
     folder = target.parent if str(target.parent) else Path(".")
     fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
+    bak_tmp = folder / f".{target.name}.bak.tmp"
     try:
+        # keep the old file's permissions (mkstemp makes 0600); a new file gets the usual
+        # 0666 less the umask
+        if target.exists():
+            os.chmod(tmp, target.stat().st_mode & 0o7777)
+        else:
+            umask = os.umask(0)
+            os.umask(umask)
+            os.chmod(tmp, 0o666 & ~umask)
         with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
             fh.write(text)
             fh.flush()
             os.fsync(fh.fileno())
         if backup and target.exists():
             bak = target.with_name(target.name + ".bak")
-            bak_tmp = folder / f".{target.name}.bak.tmp"
             if bak_tmp.exists():
                 bak_tmp.unlink()
             try:
@@ -42,6 +50,7 @@ def atomic_write_text(path: str | Path, text: str, backup: bool = False) -> None
         except OSError:
             pass  # some file systems cannot fsync a folder; the rename is still atomic
     except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
+        for leftover in (tmp, bak_tmp):
+            if os.path.exists(leftover):
+                os.unlink(leftover)
         raise

@@ -7,6 +7,7 @@ import sys
 
 from curvetui import __version__
 from curvetui.inputs import InputError
+from curvetui.project.files import ProjectError
 from curvetui.tables import TableError
 
 
@@ -56,6 +57,11 @@ def main(argv: list[str] | None = None) -> int:
         return 0
     try:
         return int(args.run(args))
+    except ProjectError as exc:
+        sys.stderr.write(f"curvetui: error: {exc.path}: cannot use this project file:\n")
+        for problem in exc.problems:
+            sys.stderr.write(f"  {problem}\n")
+        return 2
     except (InputError, TableError) as exc:
         sys.stderr.write(f"curvetui: error: {exc}\n")
         return 2
@@ -63,3 +69,7 @@ def main(argv: list[str] | None = None) -> int:
         # the reader (e.g. `head`) closed the pipe: stop quietly, as shell tools do
         sys.stderr.close()
         return 0
+    except OSError as exc:
+        where = exc.filename or "file"
+        sys.stderr.write(f"curvetui: error: {where}: {exc.strerror or exc}\n")
+        return 2

@@ -9,6 +9,7 @@ previous file as FILE.bak, so a save killed at any moment leaves the old or the 
 from __future__ import annotations
 
 import json
+import math
 from functools import cache
 from importlib import resources
 from pathlib import Path
@@ -58,6 +59,13 @@ def _describe(error) -> str:
         return f"{where}: must be a number {rng}, got {got!r}".replace("number ,", "number,")
     if v == "type":
         want = s["type"] if isinstance(s["type"], str) else " or ".join(s["type"])
+        lo = s.get("minimum", s.get("exclusiveMinimum"))
+        hi = s.get("maximum", s.get("exclusiveMaximum"))
+        if lo is not None and hi is not None:
+            lo_word = "greater than" if "exclusiveMinimum" in s else "from"
+            return (
+                f"{where}: must be a number {lo_word} {lo:g} to {hi:g}, got {json.dumps(got)[:40]}"
+            )
         return f"{where}: must be {want}, got {json.dumps(got)[:40]}"
     if v == "enum":
         return f"{where}: must be one of {', '.join(map(repr, s['enum']))}, got {got!r}"
@@ -100,6 +108,8 @@ def migrate(data: dict, path: str) -> tuple[dict, list[str]]:
     if not isinstance(data, dict):
         raise ProjectError(path, ["$: must be a JSON object"])
     version = data.get("curvetui_project_version")
+    if isinstance(version, bool):
+        raise ProjectError(path, ["$.curvetui_project_version: must be a whole number"])
     if version is None and data.get("format") == "curvetui-project":
         version = data.get("version")
     if version == FORMAT_VERSION:
@@ -114,7 +124,13 @@ def migrate(data: dict, path: str) -> tuple[dict, list[str]]:
         )
     if version == 1:
         bends = []
-        for b in data.get("bends", []):
+        if not isinstance(data.get("project", {}), dict):
+            raise ProjectError(path, ["$.project: must be an object (format 1)"])
+        if not isinstance(data.get("bends", []), list):
+            raise ProjectError(path, ["$.bends: must be a list (format 1)"])
+        for i, b in enumerate(data.get("bends", [])):
+            if not isinstance(b, dict):
+                raise ProjectError(path, [f"$.bends[{i}]: must be an object (format 1)"])
             b = dict(b)
             b.setdefault("notes", "")
             b.setdefault("results", None)
@@ -162,7 +178,7 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
     if not text.strip():
         raise ProjectError(name, ["the file is empty"])
     try:
-        data = json.loads(text)
+        data = json.loads(text)  # NaN/Infinity parse, then are refused with their path
     except json.JSONDecodeError as exc:
         raise ProjectError(
             name,
@@ -171,11 +187,27 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
                 f"{exc.msg}); the file may be truncated or corrupt"
             ],
         ) from None
+    except RecursionError:
+        raise ProjectError(name, ["not a project: nested too deeply to read (corrupt?)"]) from None
     data, notes = migrate(data, name)
-    problems = validate(data)
+    problems = validate(data) + non_finite_numbers(data)
     if problems:
         raise ProjectError(name, problems)
     return parse_project(data), notes
+
+
+def non_finite_numbers(data, parts=()) -> list[str]:
+    """Paths of numbers too large to be finite (1e999 reads as infinity)."""
+    out: list[str] = []
+    if isinstance(data, dict):
+        for k, v in data.items():
+            out += non_finite_numbers(v, (*parts, k))
+    elif isinstance(data, list):
+        for i, v in enumerate(data):
+            out += non_finite_numbers(v, (*parts, i))
+    elif isinstance(data, float) and not math.isfinite(data):
+        out.append(f"{json_path(parts)}: must be a finite number, got {data}")
+    return out
 
 
 def project_text(project: Project) -> str:
@@ -183,5 +215,13 @@ def project_text(project: Project) -> str:
 
 
 def save_project(project: Project, path: str | Path) -> None:
-    """Save atomically, keeping the previous file as FILE.bak."""
-    atomic_write_text(path, project_text(project), backup=True)
+    """Save atomically, keeping the previous file as FILE.bak. A project that would not load
+    back (e.g. a name longer than the format allows) is refused before anything is written."""
+    problems = validate(project.to_json())
+    if problems:
+        raise ProjectError(str(path), problems)
+    try:
+        text = project_text(project)
+    except ValueError:
+        raise ProjectError(str(path), ["a number in the project is not finite"]) from None
+    atomic_write_text(path, text, backup=True)

@@ -26,8 +26,22 @@ def run(capsys, *args):
 
 
 def test_simple_curve_geometry_matches_the_reference(capsys):
-    code, cap = run(capsys, "check", "road", "--speed", "20", "--radius", "150", "--units",
-                    "us", "--deflection", "60", "--pi-station", "10+00", "--json")
+    code, cap = run(
+        capsys,
+        "check",
+        "road",
+        "--speed",
+        "20",
+        "--radius",
+        "150",
+        "--units",
+        "us",
+        "--deflection",
+        "60",
+        "--pi-station",
+        "10+00",
+        "--json",
+    )
     g = json.loads(cap.out)["geometry"]
     assert g["tangent"] == pytest.approx(86.60, abs=0.005)
     assert g["length"] == pytest.approx(157.08, abs=0.005)
@@ -40,9 +54,24 @@ def test_simple_curve_geometry_matches_the_reference(capsys):
 
 
 def test_spiral_geometry_matches_montana_example(capsys):
-    code, cap = run(capsys, "check", "road", "--speed", "60", "--radius", "3000", "--units",
-                    "us", "--deflection", "15", "--pi-station", "243+18.72", "--spiral", "210",
-                    "--json")
+    code, cap = run(
+        capsys,
+        "check",
+        "road",
+        "--speed",
+        "60",
+        "--radius",
+        "3000",
+        "--units",
+        "us",
+        "--deflection",
+        "15",
+        "--pi-station",
+        "243+18.72",
+        "--spiral",
+        "210",
+        "--json",
+    )
     g = json.loads(cap.out)["geometry"]
     assert g["spiral_angle"] == pytest.approx(2.00535, abs=5e-6)
     assert g["p"] == pytest.approx(0.612, abs=0.0005)
@@ -57,34 +86,81 @@ def test_spiral_geometry_matches_montana_example(capsys):
 
 
 def test_overlapping_spirals_are_refused(capsys):
-    code, cap = run(capsys, "check", "road", "--speed", "100", "--radius", "400", "--deflection",
-                    "5", "--spiral", "90")
+    code, cap = run(
+        capsys,
+        "check",
+        "road",
+        "--speed",
+        "100",
+        "--radius",
+        "400",
+        "--deflection",
+        "5",
+        "--spiral",
+        "90",
+    )
     assert code == 2
     assert "--spiral: spirals overlap" in cap.err and cap.err.count("\n") == 1
 
 
 def test_sight_object_and_failure(capsys):
-    code, cap = run(capsys, "check", "road", "--speed", "100", "--radius", "400", "--deflection",
-                    "40", "--obstruction-offset", "8", "--json")
+    code, cap = run(
+        capsys,
+        "check",
+        "road",
+        "--speed",
+        "100",
+        "--radius",
+        "400",
+        "--deflection",
+        "40",
+        "--obstruction-offset",
+        "8",
+        "--json",
+    )
     out = json.loads(cap.out)
     s = out["sight"]
     assert s["stopping_sight_distance"] == 185  # Table 3-1 design value (from memory)
     r = 400 - 1.8  # sight line on the centre of the inside 3.6 m lane (Green Book practice)
-    assert s["sightline_offset_required"] == pytest.approx(r * (1 - math.cos(
-        math.radians(28.65 * 185 / r))), rel=3e-4)  # TxDOT form; 28.65 rounds 90/pi = 28.648
+    assert s["sightline_offset_required"] == pytest.approx(
+        r * (1 - math.cos(math.radians(28.65 * 185 / r))), rel=3e-4
+    )  # TxDOT form; 28.65 rounds 90/pi = 28.648
     assert s["status"] == "fail" and out["status"] == "fail" and code == 1
     assert s["speed_that_passes"] < 100
     # with the offset required the bend passes
-    code, cap = run(capsys, "check", "road", "--speed", "100", "--radius", "400", "--deflection",
-                    "40", "--obstruction-offset", f"{s['sightline_offset_required'] + 0.01}",
-                    "--json")
+    code, cap = run(
+        capsys,
+        "check",
+        "road",
+        "--speed",
+        "100",
+        "--radius",
+        "400",
+        "--deflection",
+        "40",
+        "--obstruction-offset",
+        f"{s['sightline_offset_required'] + 0.01}",
+        "--json",
+    )
     assert json.loads(cap.out)["sight"]["status"] == "pass" and code == 0
 
 
 def test_us_sight_distance_50_mph(capsys):
     # Green Book Table 3-1: 50 mph design SSD 425 ft (read)
-    code, cap = run(capsys, "check", "road", "--speed", "50", "--radius", "1150", "--units", "us",
-                    "--obstruction-offset", "30", "--json")
+    code, cap = run(
+        capsys,
+        "check",
+        "road",
+        "--speed",
+        "50",
+        "--radius",
+        "1150",
+        "--units",
+        "us",
+        "--obstruction-offset",
+        "30",
+        "--json",
+    )
     assert json.loads(cap.out)["sight"]["stopping_sight_distance"] == 425
 
 
@@ -99,15 +175,41 @@ def test_transition_object_names_the_governing_criterion(capsys):
 
 
 def test_spiral_too_short_fails(capsys):
-    code, cap = run(capsys, "check", "road", "--speed", "100", "--radius", "400", "--deflection",
-                    "40", "--spiral", "30", "--json")
+    code, cap = run(
+        capsys,
+        "check",
+        "road",
+        "--speed",
+        "100",
+        "--radius",
+        "400",
+        "--deflection",
+        "40",
+        "--spiral",
+        "30",
+        "--json",
+    )
     out = json.loads(cap.out)
     assert out["transition"]["status"] == "fail" and out["status"] == "fail" and code == 1
 
 
 def test_rail_geometry_and_unevaluated_transition(capsys):
-    code, cap = run(capsys, "check", "rail", "--speed", "60", "--radius", "3274", "--cant", "2",
-                    "--units", "us", "--deflection", "20", "--json")
+    code, cap = run(
+        capsys,
+        "check",
+        "rail",
+        "--speed",
+        "60",
+        "--radius",
+        "3274",
+        "--cant",
+        "2",
+        "--units",
+        "us",
+        "--deflection",
+        "20",
+        "--json",
+    )
     out = json.loads(cap.out)
     assert out["geometry"]["type"] == "circular"
     # 49 CFR 213 sets no transition limits: reported, not counted as a failure
@@ -122,9 +224,24 @@ def test_geometry_options_need_deflection(capsys):
 def test_setout_csv_points_lie_on_the_circle(capsys):
     # simple curve: every arc point is R from the centre; the deflection to a point at arc
     # length l from the PC is l / (2R) (Euclid III.32; any surveying text)
-    code, cap = run(capsys, "setout", "--radius", "300", "--deflection", "50", "--pi-station",
-                    "1+000", "--pi-easting", "1000", "--pi-northing", "2000", "--bearing", "90",
-                    "--csv", "-")
+    code, cap = run(
+        capsys,
+        "setout",
+        "--radius",
+        "300",
+        "--deflection",
+        "50",
+        "--pi-station",
+        "1+000",
+        "--pi-easting",
+        "1000",
+        "--pi-northing",
+        "2000",
+        "--bearing",
+        "90",
+        "--csv",
+        "-",
+    )
     rows = list(csv.DictReader(io.StringIO(cap.out)))
     assert code == 0 and rows[0]["point"] == "PC" and rows[-1]["point"] == "PT"
     t = 300 * math.tan(math.radians(25))
@@ -139,9 +256,24 @@ def test_setout_csv_points_lie_on_the_circle(capsys):
 
 def test_setout_versines_on_the_arc(capsys):
     # versine of a 20 m chord on R 1000 m: c^2 / (8R) = 0.05 m (hand arithmetic)
-    code, cap = run(capsys, "setout", "--radius", "1000", "--deflection", "20", "--pi-easting",
-                    "0", "--pi-northing", "0", "--bearing", "0", "--versine-chord", "20",
-                    "--csv", "-")
+    code, cap = run(
+        capsys,
+        "setout",
+        "--radius",
+        "1000",
+        "--deflection",
+        "20",
+        "--pi-easting",
+        "0",
+        "--pi-northing",
+        "0",
+        "--bearing",
+        "0",
+        "--versine-chord",
+        "20",
+        "--csv",
+        "-",
+    )
     rows = list(csv.DictReader(io.StringIO(cap.out)))
     mid = [r for r in rows if r["element"] == "arc"][len(rows) // 2]
     assert float(mid["versine"]) == pytest.approx(50.0, abs=0.01)  # mm
@@ -149,14 +281,42 @@ def test_setout_versines_on_the_arc(capsys):
 
 def test_setout_writes_a_file(tmp_path, capsys):
     path = tmp_path / "points.csv"
-    code, _ = run(capsys, "setout", "--radius", "300", "--deflection", "50", "--pi-easting", "0",
-                  "--pi-northing", "0", "--bearing", "0", "--csv", str(path))
+    code, _ = run(
+        capsys,
+        "setout",
+        "--radius",
+        "300",
+        "--deflection",
+        "50",
+        "--pi-easting",
+        "0",
+        "--pi-northing",
+        "0",
+        "--bearing",
+        "0",
+        "--csv",
+        str(path),
+    )
     text = path.read_text()
     assert code == 0 and text.startswith("station,point,element")
     assert "qualified engineer" in text
 
 
 def test_setout_human_output_shows_caution(capsys):
-    code, cap = run(capsys, "setout", "--radius", "300", "--deflection", "50", "--pi-easting",
-                    "0", "--pi-northing", "0", "--bearing", "0", "--turn", "left")
+    code, cap = run(
+        capsys,
+        "setout",
+        "--radius",
+        "300",
+        "--deflection",
+        "50",
+        "--pi-easting",
+        "0",
+        "--pi-northing",
+        "0",
+        "--bearing",
+        "0",
+        "--turn",
+        "left",
+    )
     assert code == 0 and "PC" in cap.out and "qualified engineer" in cap.out.replace("\n", " ")
