@@ -23,6 +23,8 @@ from curvetui.app.dialogs.confirm import Confirm
 from curvetui.app.dialogs.details import DetailsDialog
 from curvetui.app.session import Session
 from curvetui.app.widgets.bend_list import BendList
+from curvetui.app.widgets.charts import RailChartView, RoadChartView
+from curvetui.app.widgets.plan_sketch import PlanSketch
 from curvetui.app.widgets.working_view import WorkingView
 from curvetui.app.widgets.worksheet import ALL_FIELDS, Worksheet
 from curvetui.core.units import unit_system
@@ -74,9 +76,10 @@ class CurveApp(App):
                     with VerticalScroll():
                         yield WorkingView(id="working-view")
                 with TabPane("Plan", id="plan"):
-                    yield Static("", id="plan-view")
+                    yield PlanSketch(id="plan-view")
                 with TabPane("Chart", id="chart"):
-                    yield Static("", id="chart-view")
+                    yield RoadChartView(id="road-chart")
+                    yield RailChartView(id="rail-chart")
         yield Static(Text(CAUTION, style="bold"), id="caution")
         yield Footer()
 
@@ -147,7 +150,7 @@ class CurveApp(App):
         working = self.query_one("#working-view", WorkingView)
         if bend is None:
             working.show(None)
-            self.query_one("#plan-view", Static).update("No bend: F3 adds one.")
+            self.query_one(PlanSketch).show(None, "No bend: F3 adds one.")
             return
         st = self.session.state(bend)
         for key in ALL_FIELDS:
@@ -168,14 +171,52 @@ class CurveApp(App):
         return rail_working(record, ctx.limits, self.units)
 
     def refresh_pictures(self, bend: Bend, record: dict | None) -> None:
-        """Plan and chart views (replaced by the picture widgets where available)."""
-        plan = self.query_one("#plan-view", Static)
-        g = (record or {}).get("geometry")
-        plan.update(
-            "give a deflection to see the plan"
-            if not g
-            else f"{g['type']}: PI {format_station(g['pi'], self.units.name)}"
-        )
+        """Plan sketch and chart of the current bend, drawn from its valid inputs."""
+        from curvetui import pictures
+        from curvetui.core.spiral import GeometryError
+
+        if self.query_one("#views", TabbedContent).active not in ("plan", "chart"):
+            return  # drawn when the view is shown: typing stays quick
+        plan = self.query_one(PlanSketch)
+        road, rail = self.query_one(RoadChartView), self.query_one(RailChartView)
+        road.display, rail.display = bend.kind == "road", bend.kind == "rail"
+        if record is None:
+            plan.show(None, "no valid inputs yet")
+            return
+        units = self.units
+        failed = record["status"] == "fail"
+        radius = units.length_to_si(record["radius"])
+        try:
+            shape = pictures.plan_for_inputs(bend.inputs, units, radius)
+            plan.show(
+                shape,
+                "" if shape else "give a deflection to see the plan",
+                stations=pictures.station_texts(shape, units) if shape else None,
+                units=units,
+            )
+        except (InputError, GeometryError) as exc:
+            plan.show(None, str(exc))
+        ctx = self.session.context
+        try:
+            if bend.kind == "road":
+                road.show(
+                    pictures.road_chart_for_inputs(bend.inputs, units, ctx.table),
+                    units=units,
+                    bend_failed=failed,
+                )
+            else:
+                rail.show(
+                    pictures.rail_chart_for_inputs(bend.inputs, units, ctx.limits),
+                    units=units,
+                    bend_failed=failed,
+                )
+        except InputError as exc:
+            (road if bend.kind == "road" else rail).show(None, units=units, message=str(exc))
+
+    @on(TabbedContent.TabActivated, "#views")
+    def view_changed(self, event: TabbedContent.TabActivated) -> None:
+        if self.current is not None:
+            self.refresh_pictures(self.current, self.session.state(self.current).record)
 
     def refresh_bend_row(self) -> None:
         self.query_one(BendList).update_bend(self.session, self._index())

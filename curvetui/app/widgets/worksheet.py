@@ -64,6 +64,33 @@ HINTS = {
 }
 
 
+# Short names for the results column (the JSON keys' long labels are in curvetui.results).
+SHORT = {
+    "lateral_acceleration": "a = v^2/R",
+    "lateral_acceleration_g": "a in g",
+    "side_friction_max": "f max",
+    "side_friction_demand": "f demand",
+    "min_radius": "R min",
+    "min_radius_rounded": "R min (table)",
+    "superelevation": "e in use",
+    "superelevation_design": "e design",
+    "safe_speed": "safe speed",
+    "equilibrium_cant": "E equilibrium",
+    "equilibrium_cant_low": "E slow train",
+    "cant_deficiency": "cant deficiency",
+    "cant_excess": "cant excess",
+    "centripetal_acceleration": "v^2/R",
+    "max_speed": "V max (deficiency)",
+    "min_speed": "V min (excess)",
+    "balancing_cant": "balancing cant",
+    "cant_limit": "cant limit",
+    "deficiency_limit": "deficiency limit",
+    "excess_limit": "excess limit",
+    "rail_centres": "rail centres s",
+}
+SHORT["lateral_acceleration_rail"] = "a_q = g D/s"
+
+
 def field_unit(key: str, units: UnitSystem) -> str:
     kind = UNIT_KIND[key]
     return {"deg": "deg"}.get(kind, unit_label(kind, units))
@@ -74,11 +101,11 @@ class Worksheet(Horizontal):
 
     DEFAULT_CSS = """
     Worksheet { height: 1fr; }
-    Worksheet #form { width: 44; height: 1fr; }
+    Worksheet #form { width: 40; height: 1fr; }
     Worksheet .row { height: 1; }
-    Worksheet .row Label { width: 16; padding: 0 1 0 0; }
-    Worksheet .row Input { width: 14; border: none; height: 1; padding: 0 1; }
-    Worksheet .row .unit { width: 11; color: $text-muted; padding: 0 0 0 1; }
+    Worksheet .row Label { width: 15; padding: 0 1 0 0; }
+    Worksheet .row Input { width: 13; border: none; height: 1; padding: 0 1; }
+    Worksheet .row .unit { width: 10; color: $text-muted; padding: 0 0 0 1; }
     Worksheet .row Input.-invalid { background: $error 30%; }
     Worksheet #kind { width: 30; margin: 0 0 1 0; }
     Worksheet #field-error { color: $error; height: auto; }
@@ -142,43 +169,45 @@ def results_renderable(record: dict | None, units: UnitSystem, stale: bool):
     if stale:
         head.append("\nshowing the last valid inputs' results", style="bold yellow")
     grid = Table(show_header=False, box=None, padding=(0, 1), expand=False)
-    grid.add_column("q", no_wrap=True, overflow="ellipsis", max_width=34)
-    grid.add_column("v", justify="right", no_wrap=True)
+    grid.add_column("q", no_wrap=True, overflow="ellipsis", max_width=20)
+    grid.add_column("v", justify="right", no_wrap=True, min_width=9)
     grid.add_column("u", no_wrap=True, overflow="ellipsis")
     fields = ROAD_FIELDS if record["kind"] == "road" else RAIL_FIELDS
     for key, (label, kind) in fields.items():
         value = record.get(key)
         if value is None:
             continue
+        label = SHORT.get(
+            key + ("_rail" if key == "lateral_acceleration" and record["kind"] == "rail" else ""),
+            label,
+        )
         grid.add_row(
             label, f"{value:,.3f}" if abs(value) < 100 else f"{value:,.1f}", unit_label(kind, units)
         )
     if record["kind"] == "road":
-        grid.add_row("Cross-section", record["cross_section"], "")
+        grid.add_row("section", record["cross_section"], "")
     t = record.get("transition") or {}
     if "spiral_length_min" in t and t.get("spiral_length_min") is not None:
         grid.add_row(
-            "Spiral length range",
+            "spiral length",
             f"{t['spiral_length_min']:.1f}-{t['spiral_length_max']:.1f}",
             f"{units.length_label} ({t['governing']})",
         )
     elif t.get("length") is not None:
-        grid.add_row(
-            "Transition length", f"{t['length']:.1f}", f"{units.length_label} ({t['governing']})"
-        )
+        grid.add_row("transition", f"{t['length']:.1f}", f"{units.length_label} ({t['governing']})")
     s = record.get("sight")
     if s:
         grid.add_row(
-            "Sightline offset needed",
+            "sight offset need",
             f"{s['sightline_offset_required']:.2f}",
             f"{units.length_label} ({s['status']})",
         )
     g = record.get("geometry")
     if g:
         key = "tangent" if g["type"] == "circular" else "total_tangent"
-        grid.add_row("Tangent length", f"{g[key]:,.2f}", units.length_label)
+        grid.add_row("tangent", f"{g[key]:,.2f}", units.length_label)
         grid.add_row(
-            "Curve length", f"{g.get('length', g.get('total_length')):,.2f}", units.length_label
+            "curve length", f"{g.get('length', g.get('total_length')):,.2f}", units.length_label
         )
     msgs = Text()
     for m in record["messages"]:
