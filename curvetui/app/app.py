@@ -85,6 +85,14 @@ class CurveApp(App):
 
     def on_mount(self) -> None:
         self.refresh_all()
+        self.query_one(BendList).focus()
+        # paint first, then run the engine (its first run imports scipy)
+        self.call_after_refresh(self.first_compute)
+
+    def first_compute(self) -> None:
+        if not any(self.session.state(b).record for b in self.session.project.bends):
+            self.session.compute_all()
+        self.refresh_all()
         for note in self.session.notes:
             self.notify(note, severity="warning" if "differ" in note else "information", timeout=8)
         self.query_one(BendList).focus()
@@ -103,10 +111,15 @@ class CurveApp(App):
             tables = f"TABLE PROBLEM: {exc}"
         mark = " | [b reverse] unsaved [/]" if self.session.dirty else ""
         name = self.session.path.name if self.session.path else "(no file)"
-        self.query_one("#topbar", Static).update(
+        self._set_topbar(
             f"[b]{escape(d.name)}[/] {escape(d.job_number)} | {escape(name)} | {d.units} | "
             f"{escape(tables)}{mark}"
         )
+
+    def _set_topbar(self, text: str) -> None:
+        if text != getattr(self, "_topbar_text", None):
+            self._topbar_text = text
+            self.query_one("#topbar", Static).update(text)
 
     def refresh_all(self) -> None:
         self.query_one(BendList).refill(self.session, self._index())
@@ -157,7 +170,8 @@ class CurveApp(App):
             box = sheet.query_one(f"#in-{key}", Input)
             box.set_class(st.error_field == key, "-invalid")
         sheet.show_results(st.record, st.error, self.units, stale=st.error is not None)
-        working.show(self._working_steps(bend, st.record))
+        if self.query_one("#views", TabbedContent).active == "working":
+            working.show(self._working_steps(bend, st.record))
         self.refresh_pictures(bend, st.record)
 
     def _working_steps(self, bend: Bend, record: dict | None):
@@ -216,7 +230,12 @@ class CurveApp(App):
     @on(TabbedContent.TabActivated, "#views")
     def view_changed(self, event: TabbedContent.TabActivated) -> None:
         if self.current is not None:
-            self.refresh_pictures(self.current, self.session.state(self.current).record)
+            record = self.session.state(self.current).record
+            if event.pane.id == "working":
+                self.query_one("#working-view", WorkingView).show(
+                    self._working_steps(self.current, record)
+                )
+            self.refresh_pictures(self.current, record)
 
     def refresh_bend_row(self) -> None:
         self.query_one(BendList).update_bend(self.session, self._index())
@@ -462,4 +481,4 @@ class CurveApp(App):
 
 def build_app(path: str | Path) -> CurveApp:
     """The app on a project file (created in memory when absent)."""
-    return CurveApp(Session.open(path))
+    return CurveApp(Session.open(path, compute=False))

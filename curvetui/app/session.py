@@ -79,8 +79,11 @@ class Session:
     states: dict[int, BendState] = field(default_factory=dict)  # by id() of the Bend
 
     @classmethod
-    def open(cls, path: str | Path) -> Session:
-        """Open a project file (created in memory when absent; saved on the first save)."""
+    def open(cls, path: str | Path, compute: bool = True) -> Session:
+        """Open a project file (created in memory when absent; saved on the first save).
+
+        With ``compute`` False the bends are left for ``compute_all`` (the app paints its
+        first screen before the engine's first, slower, run)."""
         p = Path(path)
         if p.exists():
             project, notes = load_project(p)
@@ -92,9 +95,14 @@ class Session:
                 dirty=True,
                 notes=[f"{p.name} is new: save to create it"],
             )
-        s.recompute_all()
-        s.notes += stale_results([_Outcome(b, s.state(b).record) for b in s.project.bends])
+        if compute:
+            s.compute_all()
         return s
+
+    def compute_all(self) -> None:
+        """Evaluate every bend and note any whose stored results differ."""
+        self.recompute_all()
+        self.notes += stale_results([_Outcome(b, self.state(b).record) for b in self.project.bends])
 
     # -- context and evaluation --------------------------------------------------------
     @property
@@ -208,10 +216,11 @@ class Session:
 
     # -- summary ------------------------------------------------------------------------
     def status(self, bend: Bend) -> str:
+        """'pass', 'fail', 'error' (inputs cannot be used) or 'pending' (not computed yet)."""
         st = self.state(bend)
         if st.error is not None:
             return "error"
-        return st.record["status"] if st.record else "error"
+        return st.record["status"] if st.record else "pending"
 
 
 @dataclass

@@ -31,7 +31,6 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.special import fresnel
 
 from curvetui.core.circular import (
     GeometryError,
@@ -78,6 +77,8 @@ def clothoid_xy(s, ls, radius):
     scale = np.sqrt(np.pi * r * ls)  # A sqrt(pi)
     with np.errstate(divide="ignore", invalid="ignore"):
         z = np.where(scale > 0, s / np.where(scale > 0, scale, 1.0), 0.0)
+    from scipy.special import fresnel  # imported here: scipy is slow to import at start-up
+
     fs, fc = fresnel(z)  # scipy returns (S, C)
     x = np.where(scale > 0, scale * fc, s)
     y = np.where(scale > 0, scale * fs, 0.0)

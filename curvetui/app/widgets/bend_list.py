@@ -9,8 +9,8 @@ from textual.widgets import DataTable
 from curvetui.app.session import Session
 from curvetui.stations import format_station
 
-STATUS_STYLE = {"pass": "bold green", "fail": "bold red", "error": "bold magenta"}
-STATUS_WORD = {"pass": "pass", "fail": "FAIL", "error": "ERROR"}
+STATUS_STYLE = {"pass": "bold green", "fail": "bold red", "error": "bold magenta", "pending": "dim"}
+STATUS_WORD = {"pass": "pass", "fail": "FAIL", "error": "ERROR", "pending": "..."}
 
 
 class BendList(DataTable):

@@ -148,8 +148,24 @@ class Worksheet(Horizontal):
     def show_results(
         self, record: dict | None, error: str | None, units: UnitSystem, stale: bool
     ) -> None:
-        self.query_one("#field-error", Static).update(Text(error, style="bold") if error else "")
-        self.query_one("#results-body", Static).update(results_renderable(record, units, stale))
+        # Skip unchanged content: every update of a Static re-lays the screen out.
+        shown = (error, id(record), stale, units.name)
+        if shown == getattr(self, "_shown", None):
+            return
+        self._shown = shown
+        if error != getattr(self, "_error", None):
+            self._error = error
+            self.query_one("#field-error", Static).update(
+                Text(error, style="bold") if error else ""
+            )
+        # Same number of lines as before: no new layout needed (it costs more than the
+        # engine); a record's line count follows its keys and messages.
+        lines = None if record is None else (tuple(sorted(record)), len(record["messages"]), stale)
+        same = lines is not None and lines == getattr(self, "_lines", None)
+        self._lines = lines
+        self.query_one("#results-body", Static).update(
+            results_renderable(record, units, stale), layout=not same
+        )
 
 
 def results_renderable(record: dict | None, units: UnitSystem, stale: bool):
