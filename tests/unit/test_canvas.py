@@ -1,6 +1,6 @@
 """The braille canvas (curvetui.app.canvas).
 
-Check values come from the Unicode Standard, Braille Patterns block (U+2800-U+28FF): a
+Check values (source: the Unicode Standard, Braille Patterns block (U+2800-U+28FF)): a
 cell's character is U+2800 plus the sum of its raised dots, dot 1 (top left) 0x01, 2 0x02,
 3 0x04 (down the left column), 4 0x08, 5 0x10, 6 0x20 (down the right), 7 0x40 and 8 0x80
 (the bottom row, left and right). So a full top row is U+2809, a full bottom row U+28C0, a

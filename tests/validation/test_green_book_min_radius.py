@@ -150,7 +150,7 @@ def _round_like_table_3_7(x):
 def test_literal_radii_follow_eq_3_10(units):
     """Double-check of this file's hand-worked literals by a separate mpmath computation.
 
-    This guards the transcription of the check values, not the engine.
+    This guards the typing-in of the check values, not the engine.
     """
     radii = US_TABLE_3_7 if units == "us" else METRIC_TABLE_3_7
     f_max = US_F_MAX if units == "us" else METRIC_F_MAX
