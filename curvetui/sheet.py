@@ -416,6 +416,7 @@ FONT = "DejaVu"
 RED = (180, 0, 0)
 GREEN = (0, 110, 40)
 GREY = (110, 110, 110)
+PLAN_HEIGHT = 62.0  # mm, the least height of the plan sketch
 
 
 def _fonts_dir():
@@ -584,41 +585,42 @@ def _pdf_bend(pdf, s: SheetSet, b: BendSheet, page: int) -> None:
     _pdf_title_block(pdf, s, b, page)
     head = FontFace(emphasis="BOLD", fill_color=(225, 225, 225))
     top = pdf.get_y() + 1.5
-    # inputs on the left, the standard in use on the right
+    # inputs on the left, the plan sketch on the right, the standard in use below both
     pdf.set_y(top)
     _heading(pdf, "Inputs")
     with pdf.table(
         text_align="LEFT",
-        col_widths=(44, 26, 14),
-        width=84,
+        col_widths=(40, 34, 12),
+        width=86,
         align="LEFT",
-        line_height=3.8,
-        padding=0.6,
+        line_height=3.6,
+        padding=0.5,
         headings_style=head,
     ) as table:
         table.row(("Input", "Value", "Unit"))
         for n, v, u in b.inputs:
             table.row((n, v, u))
     left_end = pdf.get_y()
-    pdf.set_y(top)
-    pdf.set_left_margin(100)
+    pdf.set_xy(102, top)
+    pdf.set_left_margin(102)
+    _heading(pdf, "Plan sketch (not to a true bearing)")
+    plan_top = pdf.get_y()
+    pdf.set_left_margin(12)
+    plan_h = max(left_end - plan_top, PLAN_HEIGHT)
+    _pdf_plan(pdf, b, 102, plan_top, pdf.w - 12 - 102, plan_h)
+    pdf.set_xy(12, max(left_end, plan_top + plan_h))
     _heading(pdf, "Standard in use")
     with pdf.table(
         text_align="LEFT",
-        col_widths=(28, 70),
-        width=98,
-        align="LEFT",
+        col_widths=(36, 150),
         first_row_as_headings=False,
-        line_height=3.6,
-        padding=0.6,
+        line_height=3.5,
+        padding=0.5,
     ) as table:
         for k, v in b.standard:
             row = table.row()
             row.cell(k, style=FontFace(emphasis="BOLD"))
             row.cell(v)
-    right_end = pdf.get_y()
-    pdf.set_left_margin(12)
-    pdf.set_xy(12, max(left_end, right_end))
     _heading(pdf, "Working (check each line by hand)")
     if b.error:
         pdf.set_text_color(*RED)
@@ -654,8 +656,10 @@ def _pdf_bend(pdf, s: SheetSet, b: BendSheet, page: int) -> None:
         pdf.set_font(FONT, "B" if bad else "", 7.5)
         pdf.multi_cell(0, 3.8, m, new_x="LMARGIN", new_y="NEXT")
     pdf.set_text_color(0, 0, 0)
-    _heading(pdf, "Plan sketch (not to a true bearing)")
-    _pdf_plan(pdf, b)
+
+
+def _overlap(a, b) -> bool:
+    return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
 
 
 def _nice_step(length: float) -> float:
@@ -668,28 +672,23 @@ def _nice_step(length: float) -> float:
     return 10 * mag
 
 
-def _pdf_plan(pdf, b: BendSheet) -> None:
+def _pdf_plan(pdf, b: BendSheet, x0: float, y0: float, w: float, h: float) -> None:
+    """The bend in plan, scaled to the box (x0, y0, w, h) [mm], in vector lines."""
     from curvetui.pictures import ARC, TANGENT
 
-    x0, y0 = pdf.l_margin, pdf.get_y() + 1
-    w = pdf.w - pdf.l_margin - pdf.r_margin
-    h = pdf.h - 21 - y0
     if b.plan is None:
-        pdf.set_font(FONT, "", 8)
-        pdf.multi_cell(0, 4, b.plan_note, new_x="LMARGIN", new_y="NEXT")
+        pdf.set_font(FONT, "", 7.5)
+        pdf.set_xy(x0, y0)
+        pdf.multi_cell(w, 3.8, b.plan_note, new_x="LEFT", new_y="NEXT")
         return
-    if h < 28:  # too little room left on this page: the plan gets a page of its own
-        pdf.add_page()
-        x0, y0 = pdf.l_margin, pdf.get_y()
-        h = pdf.h - 21 - y0
     shape = b.plan
     pdf.set_draw_color(150, 150, 150)
     pdf.set_line_width(0.2)
     pdf.rect(x0, y0, w, h)
     xmin, xmax, ymin, ymax = shape.bounds()
-    pad = 14.0  # mm kept clear for labels
+    pad_x, pad_y = 16.0, 9.0  # mm kept clear for labels
     span_x, span_y = max(xmax - xmin, 1e-9), max(ymax - ymin, 1e-9)
-    scale = min((w - 2 * pad) / span_x, (h - 2 * pad) / span_y)
+    scale = min((w - 2 * pad_x) / span_x, (h - 2 * pad_y) / span_y)
     cx, cy = (xmin + xmax) / 2, (ymin + ymax) / 2
 
     def at(x, y):  # plan metres to page mm; plan +y is drawn upwards
@@ -718,7 +717,8 @@ def _pdf_plan(pdf, b: BendSheet) -> None:
     pdf.set_font(FONT, "", 6.5)
     pdf.set_draw_color(0, 0, 0)
     pdf.set_line_width(0.2)
-    for p in shape.key_points:
+    placed: list[tuple[float, float, float, float]] = []
+    for p in sorted(shape.key_points, key=lambda p: p.station):
         px, py = at(p.x, p.y)
         pdf.set_fill_color(255, 255, 255)
         pdf.ellipse(px - 0.8, py - 0.8, 1.6, 1.6, style="DF")
@@ -730,7 +730,13 @@ def _pdf_plan(pdf, b: BendSheet) -> None:
         lx = px + ux * 3 - (tw if ux < -0.3 else (tw / 2 if abs(ux) <= 0.3 else 0))
         ly = py + uy * 3 + (1.2 if uy > 0 else -0.2)
         lx = min(max(lx, x0 + 1), x0 + w - tw - 1)
-        ly = min(max(ly, y0 + 3), y0 + h - 1)
+        base = ly
+        for shift in (0, 2.8, -2.8, 5.6, -5.6, 8.4, -8.4):
+            ly = min(max(base + shift, y0 + 7), y0 + h - 7)
+            box = (lx, ly - 2.4, lx + tw, ly + 0.4)
+            if not any(_overlap(box, other) for other in placed):
+                break
+        placed.append(box)
         pdf.text(lx, ly, text)
     # scale bar and legend
     bar = _nice_step(span_x)
@@ -741,12 +747,14 @@ def _pdf_plan(pdf, b: BendSheet) -> None:
     pdf.line(bx + bar * scale, by - 1, bx + bar * scale, by + 1)
     pdf.text(bx, by - 1.5, f"{bar:g} m")
     hand = "right-hand" if shape.direction > 0 else "left-hand"
-    legend = (
-        f"{hand} bend, R {shape.radius:g} m, deflection {math.degrees(shape.deflection):.3f} deg; "
-        "thick: arc, blue: spirals, dashed: tangents; stations in the project's units"
-    )
     pdf.set_text_color(*GREY)
-    pdf.text(x0 + 2, y0 + 3.5, legend)
+    pdf.set_font(FONT, "", 6)
+    pdf.text(
+        x0 + 2,
+        y0 + 3,
+        f"{hand} bend, R {shape.radius:g} m, deflection {math.degrees(shape.deflection):.3f} deg",
+    )
+    pdf.text(x0 + 2, y0 + 5.6, "thick: arc · blue: spirals · dashed: tangents")
     pdf.set_text_color(0, 0, 0)
 
 
