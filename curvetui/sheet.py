@@ -281,7 +281,8 @@ def _check(step: Step) -> str:
 
 def _counts(s: SheetSet) -> str:
     n = {k: sum(b.status == k for b in s.bends) for k in ("PASS", "FAIL", "ERROR")}
-    return f"{len(s.bends)} bends: {n['PASS']} PASS, {n['FAIL']} FAIL, {n['ERROR']} ERROR"
+    word = "bend" if len(s.bends) == 1 else "bends"
+    return f"{len(s.bends)} {word}: {n['PASS']} PASS, {n['FAIL']} FAIL, {n['ERROR']} ERROR"
 
 
 SUMMARY_HEAD = ("Bend", "Kind", "Station", "Speed", "Radius", "Status")

@@ -20,7 +20,14 @@ class _Parser(argparse.ArgumentParser):
 
 
 def build_parser() -> argparse.ArgumentParser:
-    from curvetui.cli import project_cmd, rail_cmd, road_cmd, setout_cmd, tables_cmd
+    from curvetui.cli import (
+        project_cmd,
+        rail_cmd,
+        road_cmd,
+        setout_cmd,
+        sheet_cmd,
+        tables_cmd,
+    )
 
     parser = _Parser(
         prog="curvetui",
@@ -39,6 +46,7 @@ def build_parser() -> argparse.ArgumentParser:
     setout_cmd.add_parser(sub)
     project_cmd.add_open_parser(sub)
     project_cmd.add_new_parser(sub)
+    sheet_cmd.add_parser(sub)
     return parser
 
 
