@@ -59,7 +59,7 @@ FIELD_NAMES = {
     "deflection": "Deflection angle",
     "pi_station": "PI station",
     "superelevation": "Superelevation given",
-    "emax": "Maximum superelevation e_max",
+    "emax": "Max. superelevation e_max",
     "friction": "Side friction f given",
     "cant": "Applied cant",
     "gauge": "Track gauge",
@@ -106,6 +106,7 @@ class BendSheet:
     radius: str
     notes: str
     inputs: list[tuple[str, str, str]]  # (name, value, unit)
+    blanks: list[str]  # inputs left blank, with the default used
     standard: list[tuple[str, str]]  # (what, value and source)
     steps: list[Step]
     messages: list[str]
@@ -162,8 +163,6 @@ def _inputs(bend, units) -> list[tuple[str, str, str]]:
         kind = UNIT_KIND[key]
         unit = {"deg": "deg", "station": units.length_label}.get(kind, unit_label(kind, units))
         if value is None or value == "":
-            if key in DEFAULTS and (key != "spiral_out" or bend.inputs.get("spiral_in")):
-                rows.append((FIELD_NAMES[key], f"(blank: {DEFAULTS[key]})", ""))
             continue
         if key == "pi_station" and isinstance(value, int | float):
             text, unit = format_station(float(value), units.name), ""
@@ -171,6 +170,17 @@ def _inputs(bend, units) -> list[tuple[str, str, str]]:
             text = _value_text(value)
         rows.append((FIELD_NAMES[key], text, unit))
     return rows
+
+
+def _blanks(bend) -> list[str]:
+    """The inputs left blank whose defaults the check used."""
+    return [
+        f"{FIELD_NAMES[key]} ({DEFAULTS[key]})"
+        for key in FIELD_ORDER.get(bend.kind, ())
+        if key in DEFAULTS
+        and bend.inputs.get(key) in (None, "")
+        and (key != "spiral_out" or bend.inputs.get("spiral_in") not in (None, ""))
+    ]
 
 
 def _standard(outcome: Outcome, ctx: Context, units) -> list[tuple[str, str]]:
@@ -265,6 +275,7 @@ def build(project_or_path, bend_ids=None) -> SheetSet:
             radius="-" if radius is None else f"{_value_text(radius)} {units.length_label}",
             notes=bend.notes,
             inputs=_inputs(bend, units),
+            blanks=_blanks(bend),
             standard=_standard(outcome, ctx, units),
             steps=steps,
             messages=list(rec.get("messages", [])) if rec else [],
@@ -330,6 +341,8 @@ def render_text(project_or_path, bend_ids=None, paper: str = "a4") -> str:
             out.append(f"{'Notes:':<12} {b.notes}")
         out += ["", "INPUTS"]
         out += [f"  {n}: {v} {u}".rstrip() for n, v, u in b.inputs]
+        if b.blanks:
+            out.append(f"  Left blank, default used: {'; '.join(b.blanks)}")
         out += ["", "STANDARD IN USE"]
         out += [f"  {k}: {v}" for k, v in b.standard]
         out += ["", "WORKING"]
@@ -387,6 +400,8 @@ def render_markdown(project_or_path, bend_ids=None, paper: str = "a4") -> str:
             out.append(f"| Notes | {_md(b.notes)} |")
         out += ["", "### Inputs", "", "| Input | Value | Unit |", "|---|---|---|"]
         out += [f"| {_md(n)} | {_md(v)} | {_md(u)} |" for n, v, u in b.inputs]
+        if b.blanks:
+            out += ["", f"Left blank, default used: {_md('; '.join(b.blanks))}"]
         out += ["", "### Standard in use", ""]
         out += [f"- **{_md(k)}:** {_md(v)}" for k, v in b.standard]
         out += ["", "### Working", ""]
@@ -417,14 +432,14 @@ FONT = "DejaVu"
 RED = (180, 0, 0)
 GREEN = (0, 110, 40)
 GREY = (110, 110, 110)
-PLAN_HEIGHT = 62.0  # mm, the least height of the plan sketch
+PLAN_HEIGHTS = (62.0, 52.0, 42.0)  # mm, the plan sketch's least height, tried in turn
 
 
 def _fonts_dir():
     return resources.files("curvetui") / "data" / "fonts"
 
 
-def _make_pdf(s: SheetSet, paper: str):
+def _new_pdf(s: SheetSet, paper: str):
     from fpdf import FPDF
 
     if paper not in PAPERS:
@@ -462,10 +477,25 @@ def _make_pdf(s: SheetSet, paper: str):
     pdf.set_creator(f"curvetui {__version__}")
     pdf.set_margins(12, 12, 12)
     pdf.set_auto_page_break(True, margin=20)
-    _pdf_summary(pdf, s)
-    for page, b in enumerate(s.bends, start=2):
-        _pdf_bend(pdf, s, b, page)
     return pdf
+
+
+def _make_pdf(s: SheetSet, paper: str):
+    """The summary, then each bend on one page: a bend whose page overflows is drawn again
+    with a shorter plan sketch (down to the least of PLAN_HEIGHTS)."""
+    choice = [0] * len(s.bends)
+    while True:
+        pdf = _new_pdf(s, paper)
+        _pdf_summary(pdf, s)
+        overflowed = False
+        for i, b in enumerate(s.bends):
+            before = pdf.page
+            _pdf_bend(pdf, s, b, i + 2, PLAN_HEIGHTS[choice[i]])
+            if pdf.page > before + 1 and choice[i] + 1 < len(PLAN_HEIGHTS):
+                choice[i] += 1
+                overflowed = True
+        if not overflowed:
+            return pdf
 
 
 def _heading(pdf, text: str, size: float = 9.5) -> None:
@@ -499,7 +529,7 @@ def _pdf_summary(pdf, s: SheetSet) -> None:
         ("Date", d.date),
         ("Revision", d.revision),
         ("Units", s.units.name),
-        ("Sheet", f"page 1 of {s.pages}"),
+        ("Sheet", "page 1 of {nb}"),
     ]
     with pdf.table(
         text_align="LEFT",
@@ -579,7 +609,7 @@ def _pdf_title_block(pdf, s: SheetSet, b: BendSheet, page: int) -> None:
         pdf.multi_cell(0, 3.6, f"Notes: {b.notes}", new_x="LMARGIN", new_y="NEXT")
 
 
-def _pdf_bend(pdf, s: SheetSet, b: BendSheet, page: int) -> None:
+def _pdf_bend(pdf, s: SheetSet, b: BendSheet, page: int, plan_height: float) -> None:
     from fpdf.fonts import FontFace
 
     pdf.add_page()
@@ -601,13 +631,23 @@ def _pdf_bend(pdf, s: SheetSet, b: BendSheet, page: int) -> None:
         table.row(("Input", "Value", "Unit"))
         for n, v, u in b.inputs:
             table.row((n, v, u))
+    if b.blanks:
+        pdf.set_font(FONT, "", 6.5)
+        pdf.multi_cell(
+            86,
+            3.2,
+            f"Left blank, default used: {'; '.join(b.blanks)}",
+            new_x="LMARGIN",
+            new_y="NEXT",
+        )
+        pdf.set_font(FONT, "", 7.5)
     left_end = pdf.get_y()
     pdf.set_xy(102, top)
     pdf.set_left_margin(102)
     _heading(pdf, "Plan sketch (not to a true bearing)")
     plan_top = pdf.get_y()
     pdf.set_left_margin(12)
-    plan_h = max(left_end - plan_top, PLAN_HEIGHT)
+    plan_h = max(left_end - plan_top, plan_height)
     _pdf_plan(pdf, b, 102, plan_top, pdf.w - 12 - 102, plan_h)
     pdf.set_xy(12, max(left_end, plan_top + plan_h))
     _heading(pdf, "Standard in use")
