@@ -637,6 +637,7 @@ def _pdf_bend(pdf, s: SheetSet, b: BendSheet, page: int, plan_height: float) -> 
             86,
             3.2,
             f"Left blank, default used: {'; '.join(b.blanks)}",
+            align="L",
             new_x="LMARGIN",
             new_y="NEXT",
         )
@@ -648,7 +649,7 @@ def _pdf_bend(pdf, s: SheetSet, b: BendSheet, page: int, plan_height: float) -> 
     plan_top = pdf.get_y()
     pdf.set_left_margin(12)
     plan_h = max(left_end - plan_top, plan_height)
-    _pdf_plan(pdf, b, 102, plan_top, pdf.w - 12 - 102, plan_h)
+    _pdf_plan(pdf, b, s.units, 102, plan_top, pdf.w - 12 - 102, plan_h)
     pdf.set_xy(12, max(left_end, plan_top + plan_h))
     _heading(pdf, "Standard in use")
     with pdf.table(
@@ -713,8 +714,9 @@ def _nice_step(length: float) -> float:
     return 10 * mag
 
 
-def _pdf_plan(pdf, b: BendSheet, x0: float, y0: float, w: float, h: float) -> None:
-    """The bend in plan, scaled to the box (x0, y0, w, h) [mm], in vector lines."""
+def _pdf_plan(pdf, b: BendSheet, units, x0: float, y0: float, w: float, h: float) -> None:
+    """The bend in plan (metres) scaled to the box (x0, y0, w, h) [mm], in vector lines;
+    the scale bar and radius are given in the project's length unit."""
     from curvetui.pictures import ARC, TANGENT
 
     if b.plan is None:
@@ -780,20 +782,23 @@ def _pdf_plan(pdf, b: BendSheet, x0: float, y0: float, w: float, h: float) -> No
         placed.append(box)
         pdf.text(lx, ly, text)
     # scale bar and legend
-    bar = _nice_step(span_x)
+    ln = units.length_label
+    bar = _nice_step(float(units.length_from_si(span_x)))  # in the project's unit
+    bar_mm = float(units.length_to_si(bar)) * scale
     bx, by = x0 + 4, y0 + h - 4
     pdf.set_line_width(0.4)
-    pdf.line(bx, by, bx + bar * scale, by)
+    pdf.line(bx, by, bx + bar_mm, by)
     pdf.line(bx, by - 1, bx, by + 1)
-    pdf.line(bx + bar * scale, by - 1, bx + bar * scale, by + 1)
-    pdf.text(bx, by - 1.5, f"{bar:g} m")
+    pdf.line(bx + bar_mm, by - 1, bx + bar_mm, by + 1)
+    pdf.text(bx, by - 1.5, f"{bar:g} {ln}")
+    radius = float(units.length_from_si(shape.radius))
     hand = "right-hand" if shape.direction > 0 else "left-hand"
     pdf.set_text_color(*GREY)
     pdf.set_font(FONT, "", 6)
     pdf.text(
         x0 + 2,
         y0 + 3,
-        f"{hand} bend, R {shape.radius:g} m, deflection {math.degrees(shape.deflection):.3f} deg",
+        f"{hand} bend, R {radius:g} {ln}, deflection {math.degrees(shape.deflection):.3f} deg",
     )
     pdf.text(x0 + 2, y0 + 5.6, "thick: arc · blue: spirals · dashed: tangents")
     pdf.set_text_color(0, 0, 0)

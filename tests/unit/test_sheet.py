@@ -268,3 +268,15 @@ def test_rendered_page_is_not_blank(tmp_path, demo_pdf, page):
     # the footer's caution is drawn near the bottom of the page
     bottom = pixels[int(h * 0.9) * w :]
     assert any(p < 128 for p in bottom)
+
+
+def test_us_project_prints_its_own_units():
+    project = Project(
+        Details(name="US scratch", units="us"),
+        [Bend("B1", "road", {"speed": 50, "radius": 800, "deflection": 30}, station=1200)],
+    )
+    page = flat(PdfReader(io.BytesIO(render_pdf(project))).pages[1].extract_text())
+    assert "Design speed 50 mph" in page and "Radius 800 ft" in page
+    assert "R 800 ft, deflection 30.000 deg" in page  # the plan sketch's legend
+    assert "Station 12+00.00" in page
+    assert " km/h" not in page
