@@ -29,6 +29,7 @@ from curvetui.app.widgets.working_view import WorkingView
 from curvetui.app.widgets.worksheet import ALL_FIELDS, Worksheet
 from curvetui.core.units import unit_system
 from curvetui.inputs import InputError
+from curvetui.project.files import ProjectError
 from curvetui.project.model import Bend
 from curvetui.stations import format_station, parse_station
 
@@ -179,7 +180,10 @@ class CurveApp(App):
 
         if record is None:
             return None
-        ctx = self.session.context
+        try:
+            ctx = self.session.context
+        except InputError:
+            return None
         if bend.kind == "road":
             return road_working(record, ctx.table, self.units)
         return rail_working(record, ctx.limits, self.units)
@@ -201,7 +205,7 @@ class CurveApp(App):
         failed = record["status"] == "fail"
         radius = units.length_to_si(record["radius"])
         try:
-            shape = pictures.plan_for_inputs(bend.inputs, units, radius)
+            shape = pictures.plan_for_inputs(bend.inputs, units, radius, name=lambda k: k)
             plan.show(
                 shape,
                 "" if shape else "give a deflection to see the plan",
@@ -210,8 +214,8 @@ class CurveApp(App):
             )
         except (InputError, GeometryError) as exc:
             plan.show(None, str(exc))
-        ctx = self.session.context
         try:
+            ctx = self.session.context
             if bend.kind == "road":
                 road.show(
                     pictures.road_chart_for_inputs(bend.inputs, units, ctx.table),
@@ -394,8 +398,18 @@ class CurveApp(App):
         )
 
     def action_save(self) -> None:
+        if isinstance(self.screen, DetailsDialog):
+            self.screen.action_apply()  # ctrl+s in the dialog applies it, as it says
+            return
         try:
             path = self.session.save()
+        except ProjectError as exc:
+            self.notify(
+                "Not saved: fix the fields first: " + "; ".join(exc.problems[:3]),
+                severity="error",
+                timeout=10,
+            )
+            return
         except (InputError, OSError) as exc:
             self.notify(f"Not saved: {exc}", severity="error", timeout=10)
             return

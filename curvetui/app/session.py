@@ -116,7 +116,13 @@ class Session:
         """Evaluate a bend; on bad input keep the last good record and note the error."""
         st = self.state(bend)
         index = self.project.bends.index(bend)
-        outcome = evaluate(bend, index, ctx or self.context)
+        if ctx is None:
+            try:
+                ctx = self.context
+            except InputError as exc:  # e.g. the project names an unknown table
+                st.error, st.error_field = str(exc), None
+                return st
+        outcome = evaluate(bend, index, ctx)
         if outcome.record is None:
             st.error = (outcome.error or "").replace(f"$.bends[{index}].inputs.", "")
             st.error_field = _field_of(st.error)
@@ -125,7 +131,10 @@ class Session:
         return st
 
     def recompute_all(self) -> None:
-        ctx = self.context
+        try:
+            ctx = self.context
+        except InputError:
+            ctx = None  # each bend then carries the message
         for b in self.project.bends:
             self.recompute(b, ctx)
 

@@ -8,6 +8,8 @@ from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Button, Static
 
+from curvetui import CAUTION
+
 
 class Confirm(ModalScreen[str]):
     """Ask a question; dismisses with the id of the button chosen (escape: 'cancel')."""
@@ -32,6 +34,7 @@ class Confirm(ModalScreen[str]):
             with Horizontal():
                 for i, (key, label) in enumerate(self.choices):
                     yield Button(label, id=key, variant="primary" if i == 0 else "default")
+            yield Static(CAUTION, classes="dialog-caution")
 
     def on_button_pressed(self, event: Button.Pressed) -> None:
         self.dismiss(event.button.id or "cancel")

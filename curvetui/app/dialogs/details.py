@@ -8,6 +8,7 @@ from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.widgets import Button, Input, Label, Select, Static
 
+from curvetui import CAUTION
 from curvetui.project.model import Details
 
 TEXT_FIELDS = (
@@ -80,6 +81,7 @@ class DetailsDialog(ModalScreen[dict | None]):
             with Horizontal(id="buttons"):
                 yield Button("Apply", id="apply", variant="primary")
                 yield Button("Cancel", id="cancel")
+            yield Static(CAUTION, classes="dialog-caution")
 
     def action_apply(self) -> None:
         out: dict = {k: self.query_one(f"#d-{k}", Input).value for k in TEXT_FIELDS}

@@ -160,18 +160,26 @@ class Worksheet(Horizontal):
             )
         # Same number of lines as before: no new layout needed (it costs more than the
         # engine); a record's line count follows its keys and messages.
-        lines = None if record is None else (tuple(sorted(record)), len(record["messages"]), stale)
+        lines = (
+            None
+            if record is None
+            else (tuple(sorted(record)), len(record["messages"]), stale, error)
+        )
         same = lines is not None and lines == getattr(self, "_lines", None)
         self._lines = lines
         self.query_one("#results-body", Static).update(
-            results_renderable(record, units, stale), layout=not same
+            results_renderable(record, units, stale, error), layout=not same
         )
 
 
-def results_renderable(record: dict | None, units: UnitSystem, stale: bool):
+def results_renderable(
+    record: dict | None, units: UnitSystem, stale: bool, error: str | None = None
+):
     """The results of a record as a Rich renderable: status first, then values, then reasons."""
     if record is None:
-        return Text("No result yet: give valid inputs.", style="italic")
+        return Text(
+            "No result yet: give valid inputs." + (f"\n{error}" if error else ""), style="italic"
+        )
     status = record["status"]
     word = "PASS" if status == "pass" else "FAIL"
     head = Text()
@@ -184,6 +192,8 @@ def results_renderable(record: dict | None, units: UnitSystem, stale: bool):
     )
     if stale:
         head.append("\nshowing the last valid inputs' results", style="bold yellow")
+    if error:
+        head.append(f"\n{error}", style="bold red")
     grid = Table(show_header=False, box=None, padding=(0, 1), expand=False)
     grid.add_column("q", no_wrap=True, overflow="ellipsis", max_width=20)
     grid.add_column("v", justify="right", no_wrap=True, min_width=9)

@@ -1,0 +1,164 @@
+"""Helpers shared by the app's tests: run it, read what is on the terminal, move about.
+
+The project they run on is the bundled demo, an invented scenario, copied first; only the
+app's behaviour is under test.
+"""
+
+from __future__ import annotations
+
+import asyncio
+import io
+import re
+import shutil
+from collections.abc import Awaitable, Callable
+from pathlib import Path
+
+from rich.console import Console
+from textual.pilot import Pilot
+from textual.widgets import Input, TabbedContent
+
+from curvetui import CAUTION
+from curvetui.app.app import CurveApp, build_app
+from curvetui.app.widgets.bend_list import BendList
+
+ROOT = Path(__file__).resolve().parents[2]
+DEMO = ROOT / "projects" / "quillmere-valley-road.json"
+SMALL, LARGE = (80, 24), (120, 40)
+
+
+def copy_demo(folder: Path) -> Path:
+    """A copy of the demo under its own name (the top bar shows the file name)."""
+    target = folder / "quillmere-valley-road.json"
+    shutil.copyfile(DEMO, target)
+    return target
+
+
+def drive(
+    path: Path,
+    steps: Callable[[CurveApp, Pilot], Awaitable[None]],
+    size: tuple[int, int] = SMALL,
+) -> CurveApp:
+    """Run the app on ``path`` at ``size`` and let ``steps`` press keys and check."""
+    app = build_app(path)
+
+    async def run() -> None:
+        async with app.run_test(size=size) as pilot:
+            await ready(app, pilot)
+            await steps(app, pilot)
+
+    asyncio.run(run())
+    return app
+
+
+async def ready(app: CurveApp, pilot: Pilot) -> None:
+    """Wait for the first computation (the app paints first, then runs the engine)."""
+    for _ in range(50):
+        await pilot.pause()
+        bends = app.session.project.bends
+        if all(app.session.status(b) != "pending" for b in bends):
+            return
+    raise AssertionError("the bends were never computed")
+
+
+def screen_text(app: CurveApp) -> str:
+    """The characters on the terminal now, the top screen over those beneath it."""
+    width, height = app.size
+    console = Console(
+        width=width,
+        height=height,
+        file=io.StringIO(),
+        record=True,
+        force_terminal=True,
+        legacy_windows=False,
+        safe_box=False,
+    )
+    console.print(
+        app.screen._compositor.render_update(full=True, screen_stack=app._background_screens)
+    )
+    return console.export_text()
+
+
+def region_text(app: CurveApp, selector: str) -> str:
+    """The characters on screen inside one widget's region."""
+    region = app.query_one(selector).region
+    lines = screen_text(app).splitlines()[region.y : region.y + region.height]
+    return "\n".join(line[region.x : region.x + region.width] for line in lines)
+
+
+def working_text(app: CurveApp) -> str:
+    """All the rows of the working view (it scrolls), as plain text."""
+    console = Console(width=100, file=io.StringIO(), record=True, legacy_windows=False)
+    console.print(app.query_one("#working-view").content)
+    return console.export_text()
+
+
+def flat(text: str) -> str:
+    return re.sub(r"\s+", " ", text)
+
+
+def caution_on_screen(app: CurveApp) -> bool:
+    """The whole caution is visible (it may wrap over lines, but nothing covers it)."""
+    lines = [line.strip() for line in screen_text(app).splitlines()]
+    return CAUTION in flat(" ".join(lines))
+
+
+def caution_widget_text(app: CurveApp) -> str:
+    base = app.screen_stack[0]
+    return str(base.query_one("#caution").content)
+
+
+def row_cells(app: CurveApp, bend_id: str) -> list[str]:
+    table = app.query_one(BendList)
+    index = [b.id for b in app.session.project.bends].index(bend_id)
+    return [str(c) for c in table.get_row_at(index)]
+
+
+def status_word(app: CurveApp, bend_id: str) -> str:
+    return row_cells(app, bend_id)[1]
+
+
+def list_ids(app: CurveApp) -> list[str]:
+    table = app.query_one(BendList)
+    return [str(table.get_row_at(i)[0]) for i in range(table.row_count)]
+
+
+async def go_to(app: CurveApp, pilot: Pilot, bend_id: str) -> None:
+    """Put the list cursor on ``bend_id`` (as the arrow keys do; those are tested once)."""
+    table = app.query_one(BendList)
+    table.focus()
+    table.move_cursor(row=[b.id for b in app.session.project.bends].index(bend_id))
+    await pilot.pause()
+    assert app.current is not None and app.current.id == bend_id
+
+
+async def retype(pilot: Pilot, app: CurveApp, key: str, text: str) -> None:
+    """Focus an input, empty it (as select-all and delete would), type ``text``."""
+    box = app.query_one(f"#in-{key}", Input)
+    box.focus()
+    await pilot.pause()
+    box.value = ""
+    await pilot.pause()
+    if text:
+        await pilot.press(*text)
+        await pilot.pause()
+
+
+async def set_box(pilot: Pilot, app: CurveApp, key: str, text: str) -> None:
+    """Put ``text`` in an input at once (one change, as a paste would)."""
+    app.query_one(f"#in-{key}", Input).value = text
+    await pilot.pause()
+
+
+async def show_view(app: CurveApp, pilot: Pilot, view: str) -> None:
+    """Show a view (as F9 does; F9 itself is tested with the caution)."""
+    app.query_one("#views", TabbedContent).active = view
+    await pilot.pause()
+    await pilot.pause()
+
+
+async def palette_settles(app: CurveApp, pilot: Pilot, expected: str) -> None:
+    """Wait for the command palette's search (it runs in the background) to show a hit."""
+    for _ in range(40):
+        await pilot.pause(0.05)
+        if expected in screen_text(app):
+            return

@@ -1,0 +1,340 @@
+"""The terminal app's state (curvetui.app.session.Session), with no Textual running.
+
+All project data here is invented: the bundled demo project ("Quillmere Valley Road") is an
+invented scenario, copied into a temporary folder before each test so the repository's file
+is never touched. Only the app's behaviour is under test (edits, the last good result kept
+on bad input, adding/copying/deleting/moving bends, saving, the unsaved flag); no
+engineering value is checked here beyond the demo's pass/fail words.
+"""
+
+from __future__ import annotations
+
+import json
+import shutil
+from pathlib import Path
+
+import pytest
+
+from curvetui.app.session import Session
+from curvetui.cli import main
+from curvetui.inputs import InputError
+
+ROOT = Path(__file__).resolve().parents[2]
+DEMO = ROOT / "projects" / "quillmere-valley-road.json"
+
+
+@pytest.fixture
+def demo_path(tmp_path: Path) -> Path:
+    target = tmp_path / "quillmere-valley-road.json"
+    shutil.copyfile(DEMO, target)
+    return target
+
+
+@pytest.fixture
+def session(demo_path: Path) -> Session:
+    return Session.open(demo_path)
+
+
+def bend(session: Session, bend_id: str):
+    return next(b for b in session.project.bends if b.id == bend_id)
+
+
+def ids(session: Session) -> list[str]:
+    return [b.id for b in session.project.bends]
+
+
+# -- opening ---------------------------------------------------------------------------------
+
+
+def test_open_demo_is_clean_with_a_result_for_every_bend(session):
+    assert session.dirty is False
+    assert session.notes == []  # stored results agree with fresh ones
+    assert ids(session) == [
+        "QV-01", "QV-02", "QV-03", "QV-04", "QV-05", "QV-06", "QS-01", "QS-02",
+    ]  # fmt: skip
+    for b in session.project.bends:
+        st = session.state(b)
+        assert st.error is None and st.record is not None, b.id
+    assert session.status(bend(session, "QV-04")) == "fail"
+    assert session.status(bend(session, "QV-01")) == "pass"
+
+
+def test_open_a_missing_file_makes_an_unsaved_empty_project(tmp_path):
+    s = Session.open(tmp_path / "new-road.json")
+    assert s.project.bends == []
+    assert s.dirty is True
+    assert s.project.details.name == "new-road"
+    assert any("new-road.json is new" in n for n in s.notes)
+    assert not (tmp_path / "new-road.json").exists()
+
+
+# -- typed inputs ----------------------------------------------------------------------------
+
+
+def test_valid_input_updates_the_record(session):
+    b = bend(session, "QV-04")
+    assert session.state(b).record["radius"] == 160.0
+    st = session.set_input(b, "radius", "260")
+    assert st.error is None and st.error_field is None
+    assert st.record["radius"] == 260.0
+    assert st.record["status"] == "pass"
+    assert b.inputs["radius"] == 260.0
+    assert session.status(b) == "pass"
+    st = session.set_input(b, "radius", " 160 ")  # spaces round a number are fine
+    assert st.record["radius"] == 160.0 and st.record["status"] == "fail"
+
+
+@pytest.mark.parametrize(
+    ("key", "text", "expected"),
+    [
+        ("speed", "abc", "speed: must be a number from 1 to 200 km/h, got 'abc'"),
+        ("speed", "0", "speed: must be a number from 1 to 200 km/h, got 0"),
+        ("speed", "-5", "speed: must be a number from 1 to 200 km/h, got -5"),
+        ("emax", "30", "emax: must be a number from 4 to 12 %"),
+        ("radius", "abc", "radius: must be a number from 1 to 100000 m, got 'abc'"),
+    ],
+)
+def test_invalid_input_names_field_and_range_and_keeps_last_good_record(
+    session, key, text, expected
+):
+    b = bend(session, "QV-04")
+    before = json.dumps(session.state(b).record, sort_keys=True)
+    st = session.set_input(b, key, text)
+    assert st.error is not None and st.error.startswith(expected), st.error
+    assert st.error_field == key
+    assert json.dumps(st.record, sort_keys=True) == before  # last good record, unchanged
+    assert st.record["speed"] == 80.0 and st.record["radius"] == 160.0
+    assert session.status(b) == "error"
+    assert session.dirty is True
+    # a good value again clears the error
+    st = session.set_input(b, key, {"speed": "80", "emax": "8", "radius": "160"}[key])
+    assert st.error is None and st.error_field is None
+    assert session.status(b) == "fail"
+
+
+def test_error_message_has_no_json_path(session):
+    b = bend(session, "QV-04")
+    st = session.set_input(b, "speed", "abc")
+    assert "$.bends" not in st.error and "inputs." not in st.error
+
+
+def test_last_good_record_survives_two_bad_edits_in_a_row(session):
+    b = bend(session, "QV-04")
+    session.set_input(b, "radius", "260")  # good: passes
+    session.set_input(b, "speed", "abc")
+    st = session.set_input(b, "emax", "30")  # a second bad field while the first is bad
+    assert st.error is not None
+    assert st.record["radius"] == 260.0 and st.record["status"] == "pass"
+
+
+def test_clearing_an_optional_field_uses_the_default(session):
+    b = bend(session, "QV-05")
+    st = session.state(b)
+    assert st.record["superelevation"] == 5.0 and st.record["status"] == "fail"
+    st = session.set_input(b, "superelevation", "")
+    assert "superelevation" not in b.inputs
+    assert st.error is None
+    assert st.record["superelevation"] == pytest.approx(st.record["superelevation_design"])
+    assert st.record["superelevation"] != 5.0
+    assert st.record["status"] == "pass"
+
+
+def test_clearing_a_required_field_is_an_error_naming_it(session):
+    b = bend(session, "QV-04")
+    st = session.set_input(b, "speed", "")
+    assert "speed" not in b.inputs
+    assert st.error == "speed: required"
+    assert st.error_field == "speed"
+    assert st.record["speed"] == 80.0
+
+
+# -- kind --------------------------------------------------------------------------------------
+
+
+def test_set_kind_road_to_rail(session):
+    b = bend(session, "QV-03")
+    st = session.set_kind(b, "rail")
+    assert b.kind == "rail"
+    assert st.error == "cant: required" and st.error_field == "cant"
+    assert st.record["kind"] == "road"  # the last good record until the rail inputs are given
+    st = session.set_input(b, "cant", "60")
+    assert st.error is None
+    assert st.record["kind"] == "rail"
+    assert "cant_deficiency" in st.record
+    assert session.dirty is True
+
+
+def test_set_kind_rejects_other_words(session):
+    b = bend(session, "QV-03")
+    with pytest.raises(InputError, match="kind: must be 'road' or 'rail'"):
+        session.set_kind(b, "tram")
+    assert b.kind == "road"
+
+
+# -- adding, copying, deleting, moving ---------------------------------------------------------
+
+
+def test_add_bend_after_the_current_one(session):
+    after = bend(session, "QV-02")
+    new = session.add_bend("road", after=after)
+    assert ids(session)[2] == new.id
+    assert new.id not in {"QV-01", "QV-02"} and ids(session).count(new.id) == 1
+    assert new.station == after.station
+    assert session.state(new).record["status"] == "pass"
+    assert session.dirty is True
+
+
+def test_add_rail_bend_at_the_end(session):
+    new = session.add_bend("rail")
+    assert ids(session)[-1] == new.id
+    assert new.kind == "rail"
+    assert session.state(new).error is None
+    assert session.state(new).record["kind"] == "rail"
+
+
+def test_duplicate_is_an_independent_copy(session):
+    b = bend(session, "QV-04")
+    twin = session.duplicate_bend(b)
+    assert ids(session).index(twin.id) == ids(session).index("QV-04") + 1
+    assert twin.id != "QV-04"
+    assert twin.inputs == b.inputs and twin.kind == b.kind and twin.station == b.station
+    assert twin.results is None
+    assert session.status(twin) == "fail"
+    session.set_input(twin, "radius", "260")
+    assert b.inputs["radius"] == 160
+    assert session.status(b) == "fail" and session.status(twin) == "pass"
+
+
+def test_delete_bend(session):
+    b = bend(session, "QV-04")
+    session.delete_bend(b)
+    assert "QV-04" not in ids(session)
+    assert len(session.project.bends) == 7
+    assert id(b) not in session.states
+    assert session.dirty is True
+
+
+def test_move_bend_and_the_ends(session):
+    b = bend(session, "QV-04")
+    session.move_bend(b, 1)
+    assert ids(session)[3:6] == ["QV-05", "QV-04", "QV-06"]
+    session.move_bend(b, -2)
+    assert ids(session)[2:5] == ["QV-04", "QV-03", "QV-05"]
+    session.move_bend(b, -99)
+    assert ids(session)[0] == "QV-04"
+
+
+def test_moving_past_an_end_changes_nothing(session):
+    first, last = session.project.bends[0], session.project.bends[-1]
+    before = ids(session)
+    session.move_bend(first, -1)
+    session.move_bend(last, 1)
+    assert ids(session) == before
+    assert session.dirty is False
+
+
+# -- saving and the unsaved flag --------------------------------------------------------------
+
+
+def test_save_writes_the_edits_and_keeps_a_backup(demo_path, session):
+    original = demo_path.read_bytes()
+    session.set_input(bend(session, "QV-04"), "radius", "260")
+    added = session.add_bend("road")
+    session.delete_bend(bend(session, "QV-02"))
+    session.set_detail("name", "Quillmere edits (invented)")
+    assert session.dirty is True
+    path = session.save()
+    assert path == demo_path
+    assert session.dirty is False
+    backup = demo_path.with_name(demo_path.name + ".bak")
+    assert backup.read_bytes() == original
+
+    again = Session.open(demo_path)
+    assert again.dirty is False
+    assert again.notes == []  # the stored results are the fresh ones
+    assert again.project.details.name == "Quillmere edits (invented)"
+    assert "QV-02" not in ids(again) and ids(again)[-1] == added.id
+    qv04 = bend(again, "QV-04")
+    assert qv04.inputs["radius"] == 260
+    assert qv04.results["status"] == "pass"
+    assert again.status(qv04) == "pass"
+
+
+def test_save_as_another_file(tmp_path, session):
+    target = tmp_path / "copy.json"
+    session.set_input(bend(session, "QV-01"), "speed", "90")
+    assert session.save(target) == target
+    assert session.path == target
+    assert Session.open(target).project.bends[0].inputs["speed"] == 90
+
+
+def test_dirty_flag(session):
+    assert session.dirty is False
+    session.set_input(bend(session, "QV-01"), "speed", "90")
+    assert session.dirty is True
+    session.save()
+    assert session.dirty is False
+    for edit in (
+        lambda s: (
+            s.set_kind(bend(s, "QV-01"), "rail"),
+            s.set_input(bend(s, "QV-01"), "cant", "60"),
+        ),
+        lambda s: s.add_bend(),
+        lambda s: s.duplicate_bend(bend(s, "QV-02")),
+        lambda s: s.delete_bend(bend(s, "QV-03")),
+        lambda s: s.move_bend(bend(s, "QV-05"), -1),
+        lambda s: s.set_detail("designer", "R. Hollin"),
+    ):
+        edit(session)
+        assert session.dirty is True
+        session.save()
+        assert session.dirty is False
+
+
+def test_saving_with_a_bad_input_leaves_the_file_alone(demo_path, session):
+    """A refused save leaves the file as it was (the app's handling of the refusal is in
+    test_app.py: today ctrl+s there stops the app)."""
+    original = demo_path.read_bytes()
+    session.set_input(bend(session, "QV-04"), "speed", "abc")
+    with pytest.raises(ValueError, match="speed"):
+        session.save()
+    assert demo_path.read_bytes() == original
+    assert session.dirty is True
+
+
+# -- a project naming a table that does not exist -----------------------------------------------
+
+
+def unknown_table_project(tmp_path: Path) -> Path:
+    data = json.loads(DEMO.read_text(encoding="utf-8"))
+    data["details"]["road_table"] = "no-such-table"
+    path = tmp_path / "unknown-table.json"
+    path.write_text(json.dumps(data, indent=2), encoding="utf-8")
+    return path
+
+
+def test_unknown_road_table_is_an_input_error_naming_it(tmp_path):
+    # the session opens (the app must not die); every bend carries the message instead
+    session = Session.open(unknown_table_project(tmp_path))
+    assert session.project.bends
+    for bend in session.project.bends:
+        message = session.state(bend).error or ""
+        assert "unknown road table 'no-such-table'" in message
+        assert "aashto-2018-metric" in message  # the known tables are listed
+        assert session.status(bend) == "error"
+
+
+def test_unknown_road_table_checked_without_a_terminal_gives_a_message(tmp_path, capsys):
+    code = main([str(unknown_table_project(tmp_path))])  # pytest's stdin is not a terminal
+    err = capsys.readouterr().err
+    assert code == 2
+    assert "unknown road table 'no-such-table'" in err
+    assert "Traceback" not in err
+
+
+def test_open_without_computing_leaves_bends_pending(demo_path):
+    s = Session.open(demo_path, compute=False)
+    assert all(s.status(b) == "pending" for b in s.project.bends)
+    s.compute_all()
+    assert s.status(bend(s, "QV-04")) == "fail"
+    assert s.notes == []
