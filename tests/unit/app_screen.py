@@ -96,10 +96,26 @@ def flat(text: str) -> str:
     return re.sub(r"\s+", " ", text)
 
 
+# characters that draw the edge of a panel or a dialog: a wrapped line of text ends there
+EDGES = "█▌▐│┃▎▊▏"
+
+
 def caution_on_screen(app: CurveApp) -> bool:
-    """The whole caution is visible (it may wrap over lines, but nothing covers it)."""
-    lines = [line.strip() for line in screen_text(app).splitlines()]
-    return CAUTION in flat(" ".join(lines))
+    """The whole caution is visible somewhere: it may wrap over a few lines, inside the main
+    screen or inside a dialog, but nothing may cover any part of it."""
+    lines = screen_text(app).splitlines()
+    for row, line in enumerate(lines):
+        col = line.find("CAUTION:")
+        while col >= 0:
+            parts = []
+            for text in lines[row : row + 5]:
+                piece = text[col:]
+                cut = min((i for i, ch in enumerate(piece) if ch in EDGES), default=len(piece))
+                parts.append(piece[:cut])
+            if CAUTION in flat(" ".join(parts)):
+                return True
+            col = line.find("CAUTION:", col + 1)
+    return False
 
 
 def caution_widget_text(app: CurveApp) -> str:

@@ -128,13 +128,6 @@ def test_caution_on_screen_over_the_open_command_palette_at_80x24(demo_path):
     drive(demo_path, steps, SMALL)
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="DetailsDialog (curvetui/app/dialogs/details.py, DEFAULT_CSS 'height: 90%', width "
-    "76) covers the caution: at 80x24 its first line is hidden (only 'design; they must be "
-    "checked by a qualified engineer before use.' shows), at 120x40 the middle of the first "
-    "line ('CAUTION: local road o' ... 'be checked by a') is under the dialog's border.",
-)
 @pytest.mark.parametrize("size", [SMALL, LARGE])
 def test_caution_on_screen_with_the_details_dialog(demo_path, size):
     async def steps(app, pilot):
@@ -573,6 +566,9 @@ def test_unknown_road_table_gives_a_message_not_a_traceback(tmp_path):
             assert "TABLE PROBLEM" in text
             bend = app.session.project.bends[0]
             assert "unknown road table 'no-such-table'" in app.session.state(bend).error
-            assert CAUTION in text
+            assert all(status_word(app, b.id) == "ERROR" for b in app.session.project.bends)
+            # readable on screen under the form
+            assert "unknown road table 'no-such-table'" in flat(region_text(app, "#field-error"))
+            assert caution_on_screen(app)
 
     asyncio.run(run())
