@@ -95,7 +95,9 @@ def test_a_save_killed_at_any_moment_leaves_one_whole_version(tmp_path):
     rng = random.Random(20261120)
     seen: list[str] = []
     rounds = 15
-    for _ in range(rounds):
+    # at least `rounds` kills, more (up to 40) until both versions have been seen, so a
+    # loaded machine slows the test rather than failing it
+    for round_no in range(40):
         child = subprocess.Popen(
             [
                 sys.executable,
@@ -127,6 +129,8 @@ def test_a_save_killed_at_any_moment_leaves_one_whole_version(tmp_path):
         seen.append(version)
         if bak.exists():
             assert bak.read_text(encoding="utf-8") in text.values()
+        if round_no + 1 >= rounds and set(seen) == {"A", "B"}:
+            break
 
     # both versions were seen, so the kills did land among saves that had completed
     assert set(seen) == {"A", "B"}, seen
