@@ -49,6 +49,35 @@ RAIL_INPUTS = (
     "spiral_out",
 )
 
+# The order a designer thinks in: speed, then the bend's shape, then the cross-section
+# and its limits, then transitions, then sight.
+ROAD_FIELD_ORDER = (
+    "speed",
+    "radius",
+    "deflection",
+    "pi_station",
+    "superelevation",
+    "emax",
+    "friction",
+    "spiral_in",
+    "spiral_out",
+    "obstruction_offset",
+    "grade",
+    "lane_width",
+)
+RAIL_FIELD_ORDER = (
+    "speed",
+    "low_speed",
+    "radius",
+    "deflection",
+    "pi_station",
+    "cant",
+    "gauge",
+    "spiral_in",
+    "spiral_out",
+)
+assert set(ROAD_FIELD_ORDER) == set(ROAD_INPUTS) and set(RAIL_FIELD_ORDER) == set(RAIL_INPUTS)
+
 GEOMETRY_KEYS = (
     "deflection",
     "pi_station",

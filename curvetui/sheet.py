@@ -15,6 +15,7 @@ from importlib import resources
 from pathlib import Path
 
 from curvetui import CAUTION, __version__
+from curvetui.bends import RAIL_FIELD_ORDER, ROAD_FIELD_ORDER
 from curvetui.core.circular import GeometryError
 from curvetui.inputs import InputError
 from curvetui.project.checking import Context, Outcome, evaluate_project, project_context
@@ -25,33 +26,7 @@ from curvetui.stations import format_station
 from curvetui.working import Step, rail_working, road_working
 
 PAPERS = ("a4", "letter")
-FIELD_ORDER = {
-    "road": (
-        "speed",
-        "radius",
-        "deflection",
-        "pi_station",
-        "superelevation",
-        "emax",
-        "friction",
-        "spiral_in",
-        "spiral_out",
-        "obstruction_offset",
-        "grade",
-        "lane_width",
-    ),
-    "rail": (
-        "speed",
-        "low_speed",
-        "radius",
-        "deflection",
-        "pi_station",
-        "cant",
-        "gauge",
-        "spiral_in",
-        "spiral_out",
-    ),
-}
+FIELD_ORDER = {"road": ROAD_FIELD_ORDER, "rail": RAIL_FIELD_ORDER}
 FIELD_NAMES = {
     "speed": "Design speed",
     "low_speed": "Slow train speed",

@@ -19,35 +19,6 @@ from curvetui.project.checking import (
 from curvetui.project.files import load_project, save_project
 from curvetui.project.model import Bend, Details, Project
 
-# The order a designer thinks in: speed, then the bend's shape, then the cross-section
-# and its limits, then transitions, then sight.
-ROAD_FIELD_ORDER = (
-    "speed",
-    "radius",
-    "deflection",
-    "pi_station",
-    "superelevation",
-    "emax",
-    "friction",
-    "spiral_in",
-    "spiral_out",
-    "obstruction_offset",
-    "grade",
-    "lane_width",
-)
-RAIL_FIELD_ORDER = (
-    "speed",
-    "low_speed",
-    "radius",
-    "deflection",
-    "pi_station",
-    "cant",
-    "gauge",
-    "spiral_in",
-    "spiral_out",
-)
-assert set(ROAD_FIELD_ORDER) == set(ROAD_INPUTS) and set(RAIL_FIELD_ORDER) == set(RAIL_INPUTS)
-
 
 def field_label(key: str) -> str:
     """A field's name as shown in the app (the project-file key in words)."""

@@ -11,7 +11,8 @@ from textual.app import ComposeResult
 from textual.containers import Horizontal, VerticalScroll
 from textual.widgets import Input, Label, Select, Static
 
-from curvetui.app.session import RAIL_FIELD_ORDER, ROAD_FIELD_ORDER, field_label
+from curvetui.app.session import field_label
+from curvetui.bends import RAIL_FIELD_ORDER, ROAD_FIELD_ORDER
 from curvetui.core.units import UnitSystem
 from curvetui.results import RAIL_FIELDS, ROAD_FIELDS, unit_label
 
