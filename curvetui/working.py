@@ -201,7 +201,7 @@ def rail_working(record: dict, limits: RailLimits, units: UnitSystem) -> list[St
             "Uncompensated lateral acceleration",
             "a_q = g D / s",
             f"a_q = {G0} x {record['cant_deficiency']:.1f} / {s:g}",
-            f"{record['lateral_acceleration']:.3f} m/s^2",
+            f"{record['uncompensated_acceleration']:.3f} m/s^2",
             src,
         ),
         Step(

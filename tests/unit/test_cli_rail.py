@@ -13,7 +13,7 @@ KEYS = {
     "cant_excess",
     "max_speed",
     "min_speed",
-    "lateral_acceleration",
+    "uncompensated_acceleration",
     "status",
     "messages",
 }

@@ -89,7 +89,7 @@ SHORT = {
     "excess_limit": "excess limit",
     "rail_centres": "rail centres s",
 }
-SHORT["lateral_acceleration_rail"] = "a_q = g D/s"
+SHORT["uncompensated_acceleration"] = "a_q = g D/s"
 
 
 def field_unit(key: str, units: UnitSystem) -> str:
@@ -204,10 +204,7 @@ def results_renderable(
         value = record.get(key)
         if value is None:
             continue
-        label = SHORT.get(
-            key + ("_rail" if key == "lateral_acceleration" and record["kind"] == "rail" else ""),
-            label,
-        )
+        label = SHORT.get(key, label)
         grid.add_row(
             label, f"{value:,.3f}" if abs(value) < 100 else f"{value:,.1f}", unit_label(kind, units)
         )
