@@ -8,9 +8,41 @@ from __future__ import annotations
 
 import math
 
+from curvetui.core import transitions as tr
 from curvetui.core.units import UnitSystem
 from curvetui.inputs import InputError
 from curvetui.results import fixed, rounded
+
+
+# (flag bits, text) of the transition objects, in the order they are listed
+ROAD_TRANSITION_NOTES: tuple[tuple[int, str], ...] = (
+    (
+        tr.FAIL_NO_SPIRAL_LENGTH,
+        "FAIL no spiral length satisfies both the minimum and the lateral-shift maximum",
+    ),
+    (tr.WARN_GRADIENT_INTERPOLATED, "NOTE relative gradient interpolated between table rows"),
+    (
+        tr.WARN_SPEED_BELOW_TABLE | tr.WARN_SPEED_ABOVE_TABLE,
+        "WARNING relative gradient extrapolated beyond the table",
+    ),
+    (tr.NOTE_NO_SUPERELEVATION, "NOTE no superelevation: no runoff"),
+)
+RAIL_TRANSITION_NOTES: tuple[tuple[int, str], ...] = (
+    *(
+        (bit, f"WARNING {name}: the limits set no value, not evaluated")
+        for bit, name in (
+            (tr.WARN_CANT_GRADIENT_NOT_EVALUATED, "cant gradient"),
+            (tr.WARN_CANT_RATE_NOT_EVALUATED, "rate of change of cant"),
+            (tr.WARN_DEFICIENCY_RATE_NOT_EVALUATED, "rate of change of cant deficiency"),
+        )
+    ),
+    (
+        tr.FAIL_NONE_EVALUATED,
+        "WARNING no transition criterion could be evaluated: the limits "
+        "file sets no cant gradient or rates; size the transition by the "
+        "authority's rules",
+    ),
+)
 
 
 def geometry_json(
@@ -74,8 +106,6 @@ def geometry_json(
 
 def road_transition_json(table, speed, radius, superelevation, width, units) -> dict:
     """The `transition` object of a road check: each criterion's length and the governing one."""
-    from curvetui.core import transitions as tr
-
     t = tr.road_transition(table, speed, radius, superelevation, lane_width=width)
 
     def length(x):
@@ -95,23 +125,12 @@ def road_transition_json(table, speed, radius, superelevation, width, units) -> 
         "messages": [],
     }
     flags = int(t.flags)
-    if flags & tr.FAIL_NO_SPIRAL_LENGTH:
-        out["messages"].append(
-            "FAIL no spiral length satisfies both the minimum and the lateral-shift maximum"
-        )
-    if flags & tr.WARN_GRADIENT_INTERPOLATED:
-        out["messages"].append("NOTE relative gradient interpolated between table rows")
-    if flags & (tr.WARN_SPEED_BELOW_TABLE | tr.WARN_SPEED_ABOVE_TABLE):
-        out["messages"].append("WARNING relative gradient extrapolated beyond the table")
-    if flags & tr.NOTE_NO_SUPERELEVATION:
-        out["messages"].append("NOTE no superelevation: no runoff")
+    out["messages"] = [text for bit, text in ROAD_TRANSITION_NOTES if flags & bit]
     return out
 
 
 def rail_transition_json(limits, cant, deficiency, speed, units) -> dict:
     """The `transition` object of a rail check."""
-    from curvetui.core import transitions as tr
-
     t = tr.rail_transition_for(limits, cant, deficiency, speed)
 
     def length(x):
@@ -127,22 +146,11 @@ def rail_transition_json(limits, cant, deficiency, speed, units) -> dict:
         "messages": [],
     }
     flags = int(t.flags)
-    for bit, name in (
-        (tr.WARN_CANT_GRADIENT_NOT_EVALUATED, "cant gradient"),
-        (tr.WARN_CANT_RATE_NOT_EVALUATED, "rate of change of cant"),
-        (tr.WARN_DEFICIENCY_RATE_NOT_EVALUATED, "rate of change of cant deficiency"),
-    ):
-        if flags & bit:
-            out["messages"].append(f"WARNING {name}: the limits set no value, not evaluated")
+    out["messages"] = [text for bit, text in RAIL_TRANSITION_NOTES if flags & bit]
     if flags & tr.FAIL_NONE_EVALUATED:
         # The limits file sets no transition limits (49 CFR 213 does not): say so, loudly,
         # but an unknown is not a failed check of the curve.
         out["status"] = "not evaluated"
-        out["messages"].append(
-            "WARNING no transition criterion could be evaluated: the limits "
-            "file sets no cant gradient or rates; size the transition by the "
-            "authority's rules"
-        )
     return out
 
 
@@ -201,6 +209,33 @@ def sight_json(speed, radius, sight: dict, curve_length, width, units) -> dict:
     return out
 
 
+def road_spiral_messages(
+    name: str, given: float, lo, hi, governing: str, units: UnitSystem
+) -> list[str]:
+    """FAIL lines for a road spiral of ``given`` length (user units) outside [lo, hi]."""
+    out = []
+    label = units.length_label
+    if lo is not None and given < lo - 1e-9:
+        out.append(
+            f"FAIL {name} {given:g} {label} is shorter than the minimum "
+            f"{lo:.1f} {label} ({governing} governs)"
+        )
+    if hi is not None and given > hi + 1e-9:
+        out.append(
+            f"FAIL {name} {given:g} {label} is longer than the lateral-shift "
+            f"maximum {hi:.1f} {label}"
+        )
+    return out
+
+
+def rail_spiral_message(name: str, given: float, need: float, governing: str, label: str) -> str:
+    """The FAIL line for a rail transition of ``given`` length shorter than ``need``."""
+    return (
+        f"FAIL {name} {given:g} {label} is shorter than the {need:.1f} {label} the "
+        f"{governing} needs"
+    )
+
+
 def check_spiral_lengths(transition: dict, geometry: dict, units: UnitSystem) -> None:
     """Fail a transition whose given spiral is shorter than the governing minimum or longer
     than the lateral-shift maximum (a road check)."""
@@ -208,16 +243,21 @@ def check_spiral_lengths(transition: dict, geometry: dict, units: UnitSystem) ->
     for name, ls in (("spiral in", geometry["ls_in"]), ("spiral out", geometry["ls_out"])):
         if ls <= 0:
             continue
+        lines = road_spiral_messages(
+            name, units.length_from_si(ls), lo, hi, transition["governing"], units
+        )
+        if lines:
+            transition["status"] = "fail"
+            transition["messages"] += lines
+
+
+def check_rail_spiral_lengths(transition: dict, geometry: dict, units: UnitSystem) -> None:
+    """Fail a rail transition whose given spiral is shorter than the governing length."""
+    need = transition["length"]
+    for name, ls in (("spiral in", geometry["ls_in"]), ("spiral out", geometry["ls_out"])):
         given = units.length_from_si(ls)
-        if lo is not None and given < lo - 1e-9:
+        if ls > 0 and need is not None and given < need - 1e-9:
             transition["status"] = "fail"
             transition["messages"].append(
-                f"FAIL {name} {given:g} {units.length_label} is shorter than the minimum "
-                f"{lo:.1f} {units.length_label} ({transition['governing']} governs)"
-            )
-        if hi is not None and given > hi + 1e-9:
-            transition["status"] = "fail"
-            transition["messages"].append(
-                f"FAIL {name} {given:g} {units.length_label} is longer than the lateral-shift "
-                f"maximum {hi:.1f} {units.length_label}"
+                rail_spiral_message(name, given, need, transition["governing"], units.length_label)
             )

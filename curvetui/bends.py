@@ -318,16 +318,7 @@ def evaluate_rail(
         record["geometry"] = bend_parts.geometry_json(
             float(check.radius), geometry, units, name("spiral_in")
         )
-        for label, ls in (("spiral in", geometry["ls_in"]), ("spiral out", geometry["ls_out"])):
-            need = t["length"]
-            given = units.length_from_si(ls)
-            if ls > 0 and need is not None and given < need - 1e-9:
-                t["status"] = "fail"
-                t["messages"].append(
-                    f"FAIL {label} {given:g} {units.length_label} is shorter "
-                    f"than the {need:.1f} {units.length_label} the "
-                    f"{t['governing']} needs"
-                )
+        bend_parts.check_rail_spiral_lengths(t, geometry, units)
     _fold_parts(record, ("transition",))
     return record
 

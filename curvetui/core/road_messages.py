@@ -1,82 +1,126 @@
-"""Plain-language reasons for a road check's flags, in the user's units (pure strings)."""
+"""Plain-language reasons for a road check's flags, in the user's units (pure strings).
+
+Each flag has one builder, ``builder(check, i, table, units) -> str`` for element ``i`` of
+the check's arrays (``()`` for a scalar check). A one-bend check calls them for the flags
+it has; batch mode calls each for the rows that carry its flag, so both say the same words.
+Builders marked constant give the same text for every row of one table.
+"""
 
 from __future__ import annotations
+
+from collections.abc import Callable
 
 from curvetui.core import road
 from curvetui.core.road import RoadCheck
 from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem
 
+Builder = Callable[[RoadCheck, object, RoadTable, UnitSystem], str]
+
+
+def _spd(units: UnitSystem, v) -> str:
+    return f"{units.speed_from_si(float(v)):.1f} {units.speed_label}"
+
+
+def _lng(units: UnitSystem, x) -> str:
+    return f"{units.length_from_si(float(x)):.1f} {units.length_label}"
+
+
+def _table_range(table: RoadTable) -> str:
+    tu = "km/h" if table.units == "metric" else "mph"
+    return f"{float(table.speeds[0]):g}-{float(table.speeds[-1]):g} {tu}"
+
+
+def _radius(c: RoadCheck, i, t: RoadTable, u: UnitSystem) -> str:
+    return (
+        f"FAIL radius {_lng(u, c.radius[i])} is below the minimum radius "
+        f"{_lng(u, c.min_radius[i])} for {_spd(u, c.speed[i])} at e_max "
+        f"{100 * float(c.e_max[i]):.1f} %"
+    )
+
+
+def _friction(c: RoadCheck, i, t: RoadTable, u: UnitSystem) -> str:
+    return (
+        f"FAIL side friction demand {float(c.side_friction_demand[i]):.3f} exceeds "
+        f"f_max {float(c.side_friction_max[i]):.3f}; safe speed is "
+        f"{_spd(u, c.safe_speed[i])}"
+    )
+
+
+def _superelevation(c: RoadCheck, i, t: RoadTable, u: UnitSystem) -> str:
+    return (
+        f"FAIL superelevation {100 * float(c.superelevation[i]):.1f} % exceeds e_max "
+        f"{100 * float(c.e_max[i]):.1f} %"
+    )
+
+
+def _below(c, i, t: RoadTable, u) -> str:
+    return f"WARNING design speed is below the table ({_table_range(t)}): f_max extrapolated"
+
+
+def _above(c, i, t: RoadTable, u) -> str:
+    return f"WARNING design speed is above the table ({_table_range(t)}): f_max extrapolated"
+
+
+def _interpolated(c, i, t, u) -> str:
+    return "NOTE design speed falls between table rows: f_max and running speed interpolated"
+
+
+def _emax(c: RoadCheck, i, t: RoadTable, u) -> str:
+    tab = ", ".join(f"{100 * e:g}" for e in t.emax_tabulated)
+    return (
+        f"WARNING e_max {100 * float(c.e_max[i]):.1f} % is not one the source "
+        f"tabulates ({tab} %): computed by its method, not read from a printed table"
+    )
+
+
+def _normal_crown(c, i, t: RoadTable, u) -> str:
+    return (
+        f"NOTE design e below {100 * t.normal_crown_limit:.1f} %: normal crown kept; "
+        f"friction checked on the outside lane at the adverse -{100 * t.normal_crown:.1f} %"
+    )
+
+
+def _remove_crown(c, i, t: RoadTable, u) -> str:
+    return (
+        f"NOTE remove adverse crown: superelevate at the normal cross slope "
+        f"{100 * t.normal_crown:.1f} %"
+    )
+
+
+def _safe_extrapolated(c, i, t: RoadTable, u) -> str:
+    return f"WARNING safe speed lies outside the table ({_table_range(t)}): f_max extrapolated"
+
+
+def _friction_given(c, i, t, u) -> str:
+    return "NOTE side friction given by the user replaces the table's f_max"
+
+
+def _below_design(c: RoadCheck, i, t, u) -> str:
+    return (
+        f"WARNING superelevation given is below the design value "
+        f"{100 * float(c.superelevation_design[i]):.1f} %"
+    )
+
+
+# (flag, builder, constant): in the order the messages are listed
+ROAD_MESSAGES: tuple[tuple[int, Builder, bool], ...] = (
+    (road.FAIL_RADIUS, _radius, False),
+    (road.FAIL_FRICTION, _friction, False),
+    (road.FAIL_SUPERELEVATION, _superelevation, False),
+    (road.WARN_SPEED_BELOW_TABLE, _below, True),
+    (road.WARN_SPEED_ABOVE_TABLE, _above, True),
+    (road.WARN_INTERPOLATED, _interpolated, True),
+    (road.WARN_EMAX_NOT_TABULATED, _emax, False),
+    (road.NOTE_NORMAL_CROWN, _normal_crown, True),
+    (road.NOTE_REMOVE_CROWN, _remove_crown, True),
+    (road.WARN_SAFE_SPEED_EXTRAPOLATED, _safe_extrapolated, True),
+    (road.NOTE_FRICTION_GIVEN, _friction_given, True),
+    (road.WARN_BELOW_DESIGN_E, _below_design, False),
+)
+
 
 def road_messages(check: RoadCheck, index, table: RoadTable, units: UnitSystem) -> list[str]:
     """Messages for one bend (``index`` into the check's arrays; ``()`` for a scalar check)."""
     flags = int(check.flags[index])
-    sp, ln = units.speed_label, units.length_label
-
-    def spd(v):
-        return f"{units.speed_from_si(float(v)):.1f} {sp}"
-
-    def lng(x):
-        return f"{units.length_from_si(float(x)):.1f} {ln}"
-
-    lo = float(table.speeds[0])
-    hi = float(table.speeds[-1])
-    tu = "km/h" if table.units == "metric" else "mph"
-    out: list[str] = []
-    if flags & road.FAIL_RADIUS:
-        out.append(
-            f"FAIL radius {lng(check.radius[index])} is below the minimum radius "
-            f"{lng(check.min_radius[index])} for {spd(check.speed[index])} at e_max "
-            f"{100 * float(check.e_max[index]):.1f} %"
-        )
-    if flags & road.FAIL_FRICTION:
-        out.append(
-            f"FAIL side friction demand {float(check.side_friction_demand[index]):.3f} exceeds "
-            f"f_max {float(check.side_friction_max[index]):.3f}; safe speed is "
-            f"{spd(check.safe_speed[index])}"
-        )
-    if flags & road.FAIL_SUPERELEVATION:
-        out.append(
-            f"FAIL superelevation {100 * float(check.superelevation[index]):.1f} % exceeds e_max "
-            f"{100 * float(check.e_max[index]):.1f} %"
-        )
-    if flags & road.WARN_SPEED_BELOW_TABLE:
-        out.append(
-            f"WARNING design speed is below the table ({lo:g}-{hi:g} {tu}): f_max extrapolated"
-        )
-    if flags & road.WARN_SPEED_ABOVE_TABLE:
-        out.append(
-            f"WARNING design speed is above the table ({lo:g}-{hi:g} {tu}): f_max extrapolated"
-        )
-    if flags & road.WARN_INTERPOLATED:
-        out.append(
-            "NOTE design speed falls between table rows: f_max and running speed interpolated"
-        )
-    if flags & road.WARN_EMAX_NOT_TABULATED:
-        tab = ", ".join(f"{100 * e:g}" for e in table.emax_tabulated)
-        out.append(
-            f"WARNING e_max {100 * float(check.e_max[index]):.1f} % is not one the source "
-            f"tabulates ({tab} %): computed by its method, not read from a printed table"
-        )
-    if flags & road.NOTE_NORMAL_CROWN:
-        out.append(
-            f"NOTE design e below {100 * table.normal_crown_limit:.1f} %: normal crown kept; "
-            f"friction checked on the outside lane at the adverse -{100 * table.normal_crown:.1f} %"
-        )
-    if flags & road.NOTE_REMOVE_CROWN:
-        out.append(
-            f"NOTE remove adverse crown: superelevate at the normal cross slope "
-            f"{100 * table.normal_crown:.1f} %"
-        )
-    if flags & road.WARN_SAFE_SPEED_EXTRAPOLATED:
-        out.append(
-            f"WARNING safe speed lies outside the table ({lo:g}-{hi:g} {tu}): f_max extrapolated"
-        )
-    if flags & road.NOTE_FRICTION_GIVEN:
-        out.append("NOTE side friction given by the user replaces the table's f_max")
-    if flags & road.WARN_BELOW_DESIGN_E:
-        out.append(
-            f"WARNING superelevation given is below the design value "
-            f"{100 * float(check.superelevation_design[index]):.1f} %"
-        )
-    return out
+    return [build(check, index, table, units) for bit, build, _ in ROAD_MESSAGES if flags & bit]
