@@ -13,7 +13,6 @@ from curvetui.core.units import UnitSystem
 from curvetui.inputs import InputError
 from curvetui.results import fixed, rounded
 
-
 # (flag bits, text) of the transition objects, in the order they are listed
 ROAD_TRANSITION_NOTES: tuple[tuple[int, str], ...] = (
     (

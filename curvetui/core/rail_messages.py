@@ -25,8 +25,7 @@ def _spd(u: UnitSystem, x) -> str:
 
 def _over_cant(c: RailCheck, i, lim, u) -> str:
     return (
-        f"FAIL applied cant {_cant(u, c.cant[i])} exceeds the maximum "
-        f"{_cant(u, c.cant_limit[i])}"
+        f"FAIL applied cant {_cant(u, c.cant[i])} exceeds the maximum {_cant(u, c.cant_limit[i])}"
     )
 
 
