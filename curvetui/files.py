@@ -2,14 +2,19 @@
 
 from __future__ import annotations
 
+import contextlib
 import os
 import shutil
 import tempfile
+from collections.abc import Iterator
 from pathlib import Path
+from typing import BinaryIO
 
 
-def atomic_write_text(path: str | Path, text: str, backup: bool = False) -> None:
-    """Replace ``path`` with ``text`` so that a crash leaves the old or the new file whole.
+@contextlib.contextmanager
+def atomic_binary(path: str | Path, backup: bool = False) -> Iterator[BinaryIO]:
+    """A binary file to write that replaces ``path`` only when the block ends normally, so
+    a crash or an error leaves the old file or the new one whole, never a part.
 
     With ``backup`` the previous file is kept as ``path + '.bak'`` (by a hard link or copy made
     before the rename, so the old contents are never missing).
@@ -27,8 +32,8 @@ def atomic_write_text(path: str | Path, text: str, backup: bool = False) -> None
             umask = os.umask(0)
             os.umask(umask)
             os.chmod(tmp, 0o666 & ~umask)
-        with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
-            fh.write(text)
+        with os.fdopen(fd, "wb") as fh:
+            yield fh
             fh.flush()
             os.fsync(fh.fileno())
         if backup and target.exists():
@@ -54,3 +59,10 @@ def atomic_write_text(path: str | Path, text: str, backup: bool = False) -> None
             if os.path.exists(leftover):
                 os.unlink(leftover)
         raise
+
+
+def atomic_write_text(path: str | Path, text: str, backup: bool = False) -> None:
+    """Replace ``path`` with ``text`` (UTF-8) so that a crash leaves the old or the new file
+    whole (see atomic_binary)."""
+    with atomic_binary(path, backup) as fh:
+        fh.write(text.encode("utf-8"))

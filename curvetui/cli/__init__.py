@@ -21,6 +21,7 @@ class _Parser(argparse.ArgumentParser):
 
 def build_parser() -> argparse.ArgumentParser:
     from curvetui.cli import (
+        batch_cmd,
         project_cmd,
         rail_cmd,
         road_cmd,
@@ -47,6 +48,7 @@ def build_parser() -> argparse.ArgumentParser:
     project_cmd.add_open_parser(sub)
     project_cmd.add_new_parser(sub)
     sheet_cmd.add_parser(sub)
+    batch_cmd.add_parser(sub)
     return parser
 
 

@@ -21,7 +21,18 @@ from curvetui.project.files import ProjectError, load_project, save_project
 from curvetui.project.model import Details, Project
 from curvetui.stations import format_station
 
-COMMANDS = {"check", "tables", "open", "setout", "new", "sheet", "-h", "--help", "--version"}
+COMMANDS = {
+    "check",
+    "tables",
+    "open",
+    "setout",
+    "new",
+    "sheet",
+    "batch",
+    "-h",
+    "--help",
+    "--version",
+}
 
 
 def add_check_project(check: argparse.ArgumentParser) -> None:

@@ -1,0 +1,102 @@
+"""Text columns to checked numbers, a whole column at a time, and numbers rounded for output.
+
+A column arrives as text (pyarrow strings). Blank cells are absent; other cells must be a
+finite number (with a decimal comma too in a semicolon-separated file). Cells that are not
+numbers or lie outside the allowed range are reported with the same words as the command
+line's ``parse_number`` gives, built only for the cells at fault.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pyarrow as pa
+import pyarrow.compute as pc
+
+from curvetui.inputs import InputError, parse_number
+
+_NUMBER = r"^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$"
+
+
+def _to_float(text: pa.Array) -> np.ndarray:
+    """Float values of a text column (nulls and non-numbers become NaN)."""
+    try:
+        return pc.cast(text, pa.float64()).to_numpy(zero_copy_only=False)
+    except (pa.ArrowInvalid, pa.ArrowNotImplementedError):
+        pass
+    ok = pc.match_substring_regex(text, _NUMBER)
+    plain = pc.replace_substring_regex(pc.if_else(ok, text, None), r"^\+", "")
+    try:
+        return pc.cast(plain, pa.float64()).to_numpy(zero_copy_only=False)
+    except (pa.ArrowInvalid, pa.ArrowNotImplementedError):
+        out = np.full(len(text), np.nan)
+        for i, cell in enumerate(plain.to_pylist()):
+            if cell is not None:
+                out[i] = float(cell)
+        return out
+
+
+class NumberColumn:
+    """One input column as numbers: ``value`` (NaN where blank or bad), ``present`` (a cell
+    holds text), ``text`` (the trimmed cells) and ``bad`` (text that is not a finite number)."""
+
+    def __init__(self, cells: pa.Array | None, n: int, decimal_comma: bool = False):
+        if cells is None:
+            self.text = None
+            self.value = np.full(n, np.nan)
+            self.present = np.zeros(n, dtype=bool)
+            self.bad = np.zeros(n, dtype=bool)
+            return
+        text = pc.utf8_trim_whitespace(cells)
+        if decimal_comma:
+            text = pc.replace_substring(text, ",", ".")
+        present = pc.not_equal(text, "")
+        self.text = text
+        self.present = present.to_numpy(zero_copy_only=False)
+        value = _to_float(pc.if_else(present, text, None))
+        with np.errstate(invalid="ignore"):
+            finite = np.isfinite(value)
+        self.bad = self.present & ~finite
+        self.value = np.where(finite, value, np.nan)
+
+    def cell(self, i: int) -> str:
+        return "" if self.text is None else self.text[i].as_py()
+
+    def outside(self, rows: np.ndarray, lo, hi, lo_open: bool = False) -> np.ndarray:
+        """Mask of ``rows`` whose number lies outside [lo, hi] ((lo, hi] with lo_open);
+        lo and hi may be arrays over all rows."""
+        v = self.value
+        lo = np.broadcast_to(np.asarray(lo, dtype=float), v.shape)
+        hi = np.broadcast_to(np.asarray(hi, dtype=float), v.shape)
+        with np.errstate(invalid="ignore"):
+            out = (v < lo) | (v > hi) | ((v == lo) if lo_open else False)
+        return rows & self.present & ~self.bad & out
+
+    def message(self, i: int, field: str, lo: float, hi: float, unit: str, lo_open=False) -> str:
+        """The command line's words for cell ``i`` (not a number, or out of range)."""
+        try:
+            parse_number(field, self.cell(i), lo, hi, unit, lo_open=lo_open)
+        except InputError as exc:
+            return str(exc)
+        return f"{field}: cannot be used, got {self.cell(i)!r}"  # pragma: no cover
+
+
+def round_significant(x, digits: int = 6) -> np.ndarray:
+    """Each value rounded to ``digits`` significant figures, as float(f"{x:.{digits}g}") does
+    (what a one-bend check prints); NaN and infinities pass through."""
+    x = np.asarray(x, dtype=float)
+    out = x.copy()
+    with np.errstate(invalid="ignore"):
+        keep = np.isfinite(x) & (x != 0)
+    a = np.abs(x[keep])
+    e = np.floor(np.log10(a)).astype(np.int64)
+    k = digits - 1 - e
+    scale = 10.0 ** np.abs(k).astype(float)
+    up = k >= 0
+    m = np.where(up, np.rint(a * scale), np.rint(a / scale))
+    out[keep] = np.copysign(np.where(up, m / scale, m * scale), x[keep])
+    return out
+
+
+def round_places(x, places: int = 6) -> np.ndarray:
+    """Values rounded to ``places`` decimals (lengths and stations in a check's geometry)."""
+    return np.round(np.asarray(x, dtype=float), places)

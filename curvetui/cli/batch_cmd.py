@@ -1,0 +1,129 @@
+"""``curvetui batch``: check every bend of a CSV file and write the results beside them."""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+from pathlib import Path
+
+from rich.console import Console
+from rich.progress import BarColumn, Progress, TextColumn, TimeElapsedColumn
+from rich.table import Table
+
+from curvetui import CAUTION
+from curvetui.batch import columns as cols
+from curvetui.batch.stream import BatchFileError, Summary, run_batch
+from curvetui.cli.common import add_units_option
+from curvetui.core.units import unit_system
+from curvetui.files import atomic_binary
+from curvetui.tables import rail_limits, road_table
+
+
+def add_parser(sub) -> None:
+    p = sub.add_parser(
+        "batch",
+        help="check every bend of a CSV file",
+        description="Check every road bend and rail curve of a CSV file. Columns (any case, "
+        "any order): " + ", ".join(cols.INPUTS) + "; other columns are carried through. "
+        "Writes every input column, the results, row, status and messages. Exit code 0 when "
+        "every bend passes, 1 when any fails or has an error, 2 when the file cannot be used.",
+    )
+    p.add_argument("input", help="CSV file to check, or - for standard input")
+    p.add_argument(
+        "-o",
+        "--output",
+        help="where to write the results, or - for standard output "
+        "(default: INPUT.checked.csv beside the input; standard output for standard input)",
+    )
+    add_units_option(p)
+    p.add_argument("--table", help="road design table by name or .toml path")
+    p.add_argument("--limits", help="rail limits by name or .toml path")
+    p.set_defaults(run=run)
+
+
+def _output_path(args) -> str:
+    if args.output:
+        return args.output
+    if args.input == "-":
+        return "-"
+    path = Path(args.input)
+    return str(path.with_name(path.stem + ".checked.csv"))
+
+
+def run(args: argparse.Namespace) -> int:
+    units = unit_system(args.units)
+    table = road_table(args.table, units.name)
+    limits = rail_limits(args.limits, units.name)
+    err = Console(stderr=True, highlight=False)
+    out_path = _output_path(args)
+    if args.input != "-" and out_path != "-":
+        if os.path.exists(out_path) and os.path.samefile(args.input, out_path):
+            err.print(f"curvetui: error: {out_path}: the output would overwrite the input")
+            return 2
+    source = sys.stdin.buffer if args.input == "-" else args.input
+    progress = Progress(
+        TextColumn("checking"),
+        BarColumn(),
+        TextColumn("{task.percentage:>3.0f} %  {task.fields[rows]:,} rows"),
+        TimeElapsedColumn(),
+        console=err,
+        transient=True,
+        disable=not err.is_terminal,
+    )
+    task = progress.add_task("batch", total=None, rows=0)
+
+    def tick(done: int, total: int | None, rows: int) -> None:
+        progress.update(task, completed=done, total=total, rows=rows)
+
+    try:
+        with progress:
+            if out_path == "-":
+                summary = run_batch(source, sys.stdout.buffer, units, table, limits, tick)
+                sys.stdout.buffer.flush()
+            else:
+                with atomic_binary(out_path) as sink:
+                    summary = run_batch(source, sink, units, table, limits, tick)
+    except BatchFileError as exc:
+        name = "standard input" if args.input == "-" else args.input
+        err.print(f"curvetui: error: {name}: {exc}", markup=False)
+        return 2
+    print_summary(err, summary, out_path, table, limits)
+    return summary.exit_code
+
+
+def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> None:
+    """Counts, the worst bends, the first errors, what was used, and the caution."""
+    grid = Table(title="Batch check", show_header=False)
+    grid.add_column("what")
+    grid.add_column("count", justify="right")
+    grid.add_row("bends", f"{s.rows:,}")
+    grid.add_row("[green]pass[/]", f"{s.passed:,}")
+    grid.add_row("[bold red]fail[/]", f"{s.failed:,}")
+    grid.add_row("[bold magenta]error[/]", f"{s.errors:,}")
+    if s.blank:
+        grid.add_row("blank rows skipped", f"{s.blank:,}")
+    err.print(grid)
+    if s.rows == 0:
+        err.print("[yellow]The file has a header but no bends.[/]")
+    if s.worst:
+        worst = Table(title=f"Worst failing bends (of {s.failed:,})")
+        for name in ("row", "id", "kind", "demand / limit", "first reason"):
+            worst.add_column(name, overflow="fold")
+        for w in s.worst:
+            ratio = f"{100 * w.utilisation:.0f} %" if w.utilisation > 0 else "-"
+            worst.add_row(str(w.row), w.id, w.kind, ratio, w.message)
+        err.print(worst)
+    if s.first_errors:
+        errors = Table(title=f"Rows with errors (first {len(s.first_errors)} of {s.errors:,})")
+        errors.add_column("row")
+        errors.add_column("id")
+        errors.add_column("message", overflow="fold")
+        for w in s.first_errors:
+            errors.add_row(str(w.row), w.id, w.message)
+        err.print(errors)
+    err.print(f"road table: {table.name} ({table.source})", markup=False)
+    err.print(f"rail limits: {limits.name} ({limits.source})", markup=False)
+    if out_path != "-":
+        err.print(f"results written to {out_path}", markup=False)
+    err.print(f"[bold yellow]{CAUTION}[/]")
