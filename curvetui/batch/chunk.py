@@ -33,7 +33,6 @@ from curvetui.core.rail_messages import RAIL_MESSAGES
 from curvetui.core.road_messages import ROAD_MESSAGES
 from curvetui.core.road_table import RoadTable
 from curvetui.core.units import FOOT, UnitSystem
-from curvetui.inputs import InputError
 from curvetui.results import CROSS_SECTION_NAMES, rail_columns, road_columns
 
 PASS, FAIL, ERROR = 0, 1, 2
@@ -150,10 +149,14 @@ class _Errors:
 
 def _check_range(errors: _Errors, col: NumberColumn, key: str, rows, lo, hi, unit, lo_open=False):
     """Report cells of ``rows`` that are not numbers or lie outside [lo, hi]."""
-    for i in np.nonzero(rows & col.bad)[0]:
-        errors.add(i, col.message(i, errors.name(i, key), lo, hi, unit, lo_open))
-    for i in np.nonzero(col.outside(rows, lo, hi, lo_open))[0]:
-        errors.add(i, col.message(i, errors.name(i, key), lo, hi, unit, lo_open))
+    lo_at = np.broadcast_to(np.asarray(lo, dtype=float), rows.shape)
+    hi_at = np.broadcast_to(np.asarray(hi, dtype=float), rows.shape)
+    wrong = (rows & col.bad) | col.outside(rows, lo, hi, lo_open)
+    for i in np.nonzero(wrong)[0]:
+        errors.add(
+            i,
+            col.message(i, errors.name(i, key), float(lo_at[i]), float(hi_at[i]), unit, lo_open),
+        )
 
 
 def _require(errors: _Errors, col: NumberColumn, key: str, rows, why: str = "required"):
@@ -329,7 +332,21 @@ def _flag_messages(builders, check, flags, rows, n, ctx_obj, units, msgs: _Messa
             msgs.constant(_spread(n, rows, hit), build(check, int(np.argmax(hit)), ctx_obj, units))
         else:
             where = np.nonzero(hit)[0]
-            msgs.per_row(rows[where], [build(check, int(j), ctx_obj, units) for j in where])
+            view = _ListView(check, where)
+            msgs.per_row(rows[where], [build(view, j, ctx_obj, units) for j in range(len(where))])
+
+
+class _ListView:
+    """The check's arrays at some rows, as Python lists (fast to index one by one)."""
+
+    def __init__(self, check, where: np.ndarray):
+        self._check = check
+        self._where = where
+
+    def __getattr__(self, name: str):
+        values = np.asarray(getattr(self._check, name))[self._where].tolist()
+        setattr(self, name, values)
+        return values
 
 
 def _road(rows, num, ctx: BatchContext, out: _Outputs, status, util, msgs, later, errors) -> None:
@@ -428,24 +445,16 @@ def _geometry(rows, has_defl, ls, num, ctx: BatchContext, out: _Outputs, errors,
             out.put(f"geometry.{key}", at, length(getattr(c, key)))
     spir = np.nonzero(has_defl & (ls > 0))[0]
     if len(spir):
-        from curvetui.core.spiral import spiral_curve
+        from curvetui.core.spiral import overlap_message, spiral_curve
 
         ls_si = units.length_to_si(ls[spir])
         s = spiral_curve(r_si[spir], d_all[spir], ls_si, ls_si)
         overlap = np.asarray(s.overlap)
         at = rows[spir]
         for j in np.nonzero(overlap)[0]:
-            i = int(at[j])
-            geo = {
-                "deflection": float(d_all[spir[j]]),
-                "pi_station": 0.0,
-                "ls_in": float(ls_si[j]),
-                "ls_out": float(ls_si[j]),
-            }
-            try:
-                bend_parts.geometry_json(float(r_si[spir[j]]), geo, units, errors.name(i, "spiral"))
-            except InputError as exc:
-                errors.add(i, str(exc))
+            i, k = int(at[j]), spir[j]
+            text = overlap_message(float(r_si[k]), float(d_all[k]), ls_si[j], ls_si[j])
+            errors.add(i, f"{errors.name(i, 'spiral')}: {text}")
         ok = ~overlap
         at = at[ok]
         out.texts["geometry.type"].set(at, 1)

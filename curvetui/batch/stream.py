@@ -12,10 +12,14 @@ with status ``error`` in its place.
 
 from __future__ import annotations
 
+import collections
 import csv
+import dataclasses
 import heapq
 import io
 import os
+import shutil
+import tempfile
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -238,10 +242,16 @@ def run_batch(
     progress: Progress | None = None,
     on_table: Callable[[pa.Table], None] | None = None,
     block_size: int = BLOCK_SIZE,
+    workers: int | None = None,
 ) -> Summary:
     """Check every row of ``source`` (a path or a binary stream) and write the rows with
     their results to ``sink`` as CSV (the input's separator); ``on_table`` gets each output
-    chunk as a pyarrow table too. Raises BatchFileError when the file cannot be used."""
+    chunk as a pyarrow table too. Raises BatchFileError when the file cannot be used.
+
+    A file longer than one block is checked by ``workers`` processes (default: one per
+    core), each taking whole chunks; their output is written in the input's order."""
+    if workers is None:
+        workers = os.cpu_count() or 1
     if isinstance(source, str | Path):
         raw: BinaryIO = open(source, "rb")  # noqa: SIM115 - closed below
         total: int | None = os.fstat(raw.fileno()).st_size
@@ -261,13 +271,16 @@ def run_batch(
             progress,
             on_table,
             block_size,
+            workers,
         )
     finally:
         if isinstance(source, str | Path):
             raw.close()
 
 
-def _run(header, stream, total, sink, units, table, limits, progress, on_table, block_size):
+def _run(
+    header, stream, total, sink, units, table, limits, progress, on_table, block_size, workers
+):
     width = len(header.names)
     names = [f"c{i}" for i in range(width)]
     numbering = _Numbering()
@@ -303,23 +316,32 @@ def _run(header, stream, total, sink, units, table, limits, progress, on_table, 
         reader = None
 
     summary = Summary(delimiter=header.delimiter, columns=tuple(schema.names))
-    writer = None
+    job = _Job(header, schema, ctx, want_bytes=sink is not None and on_table is None)
+    options = pcsv.WriteOptions(delimiter=header.delimiter, quoting_style="needed")
     if sink is not None:
-        writer = pcsv.CSVWriter(
-            sink,
-            schema,
-            write_options=pcsv.WriteOptions(delimiter=header.delimiter, quoting_style="needed"),
-        )
+        pcsv.write_csv(schema.empty_table(), sink, options)  # the header row
     worst: list[tuple[float, int, str, str, str]] = []
-    id_pos = header.known.get("id")
+    pool = None
+    pending: collections.deque = collections.deque()
 
-    def emit(tbl: pa.Table) -> None:
-        if writer is not None:
-            writer.write_table(tbl)
-        if on_table is not None:
-            on_table(tbl)
+    def take(part: _Part) -> None:
+        if part.data is not None:
+            sink.write(part.data)
+        if part.path:
+            with open(part.path, "rb") as fh:
+                shutil.copyfileobj(fh, sink, 1 << 20)
+            os.unlink(part.path)
+        if part.table is not None:
+            if sink is not None:
+                pcsv.write_csv(part.table, sink, _no_header(options))
+            if on_table is not None:
+                on_table(part.table)
+        _merge(summary, part, worst)
+        if progress is not None:
+            progress(stream.count, total, summary.rows)
 
     try:
+        first = True
         while True:
             try:
                 batch = reader.read_next_batch()
@@ -332,28 +354,33 @@ def _run(header, stream, total, sink, units, table, limits, progress, on_table, 
             if keep is not None:
                 summary.blank += int(np.sum(~keep))
                 batch, rows = batch.filter(pa.array(keep)), rows[keep]
-            cells = {key: batch.column(pos) for key, pos in header.known.items()}
-            result = evaluate_chunk(cells, rows, ctx)
-            arrays = [batch.column(i) for i in range(width)]
-            arrays += [result.columns[name] for name in cols.RESULT_NAMES]
-            tbl = pa.Table.from_arrays(arrays, schema=schema)
-            _tally(summary, result, rows, batch, id_pos, worst)
-            if numbering.bad:
-                extra = _bad_rows_table(numbering.bad, header, schema)
-                _tally_bad(summary, numbering.bad, header)
-                numbering.bad = []
-                tbl = pa.concat_tables([tbl, extra])
-                tbl = tbl.take(pc.sort_indices(tbl.column(width + cols.RESULT_NAMES.index("row"))))
-            emit(tbl)
-            if progress is not None:
-                progress(stream.count, total, summary.rows)
+            bad, numbering.bad = numbering.bad, []
+            if not job.want_bytes or workers < 2 or (first and batch.num_rows < 1000):
+                # small files and the app run here; a file of more than a block goes to
+                # worker processes, one chunk each, written back in order
+                if pool is None:
+                    take(_process(job, batch, rows, bad))
+                    first = False
+                    continue
+            if pool is None:
+                spool = tempfile.mkdtemp(prefix="curvetui-batch-")
+                job = dataclasses.replace(job, spool=spool)
+                pool = _start_pool(job, workers)
+            pending.append(pool.submit(_work, batch, rows, bad))
+            first = False
+            while len(pending) > workers + 1 or (pending and pending[0].done()):
+                take(pending.popleft().result())
+        while pending:
+            take(pending.popleft().result())
         if numbering.bad:
-            emit(_bad_rows_table(numbering.bad, header, schema))
-            _tally_bad(summary, numbering.bad, header)
+            take(_process(job, _empty_batch(names), np.zeros(0, np.int64), numbering.bad))
             numbering.bad = []
     finally:
-        if writer is not None:
-            writer.close()
+        for f in pending:
+            f.cancel()
+        if pool is not None:
+            pool.shutdown(wait=True, cancel_futures=True)
+            shutil.rmtree(job.spool, ignore_errors=True)
     summary.first_errors.sort(key=lambda w: w.row)
     del summary.first_errors[WORST_SHOWN:]
     summary.worst = [
@@ -362,6 +389,124 @@ def _run(header, stream, total, sink, units, table, limits, progress, on_table, 
     if progress is not None:
         progress(stream.count, total, summary.rows)
     return summary
+
+
+def _no_header(options: pcsv.WriteOptions) -> pcsv.WriteOptions:
+    return pcsv.WriteOptions(
+        include_header=False, delimiter=options.delimiter, quoting_style="needed"
+    )
+
+
+def _empty_batch(names: list[str]) -> pa.RecordBatch:
+    return pa.RecordBatch.from_arrays([pa.array([], pa.string()) for _ in names], names=names)
+
+
+@dataclass
+class _Job:
+    """What a worker needs for every chunk of one file (sent once, when it starts)."""
+
+    header: Header
+    schema: pa.Schema
+    ctx: BatchContext
+    want_bytes: bool
+    spool: str = ""  # folder for the workers' chunk files
+
+
+@dataclass
+class _Part:
+    """One chunk's output (CSV bytes from a worker, or a table) and its share of the summary."""
+
+    table: pa.Table | None
+    data: bytes | None
+    rows: int
+    passed: int
+    failed: int
+    errors: int
+    worst: list[tuple[float, int, str, str, str]]
+    first_errors: list[Worst]
+    path: str = ""  # a worker's chunk file, to be copied to the output and removed
+
+
+_WORKER_JOB: _Job | None = None
+
+
+def _init_worker(job: _Job) -> None:
+    global _WORKER_JOB
+    _WORKER_JOB = job
+
+
+def _work(batch, rows, bad) -> _Part:
+    assert _WORKER_JOB is not None
+    return _process(_WORKER_JOB, batch, rows, bad)
+
+
+def _start_pool(job: _Job, workers: int):
+    import multiprocessing
+    from concurrent.futures import ProcessPoolExecutor
+
+    return ProcessPoolExecutor(
+        max_workers=workers,
+        mp_context=multiprocessing.get_context("spawn"),
+        initializer=_init_worker,
+        initargs=(job,),
+    )
+
+
+def _process(job: _Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> _Part:
+    """Check one chunk and build its output rows (in row order, malformed rows included)."""
+    header, schema = job.header, job.schema
+    width = len(header.names)
+    id_pos = header.known.get("id")
+    part = _Part(None, None, 0, 0, 0, 0, [], [])
+    tables = []
+    if batch.num_rows:
+        cells = {key: batch.column(pos) for key, pos in header.known.items()}
+        result = evaluate_chunk(cells, rows, job.ctx)
+        arrays = [batch.column(i) for i in range(width)]
+        arrays += [result.columns[name] for name in cols.RESULT_NAMES]
+        tables.append(pa.Table.from_arrays(arrays, schema=schema))
+        _tally(part, result, rows, batch, id_pos)
+    if bad:
+        tables.append(_bad_rows_table(bad, header, schema))
+        _tally_bad(part, bad, header)
+    if not tables:
+        tbl = schema.empty_table()
+    elif len(tables) == 1:
+        tbl = tables[0]
+    else:
+        tbl = pa.concat_tables(tables)
+        tbl = tbl.take(pc.sort_indices(tbl.column(width + cols.RESULT_NAMES.index("row"))))
+    if job.want_bytes:
+        options = pcsv.WriteOptions(
+            include_header=False, delimiter=header.delimiter, quoting_style="needed"
+        )
+        if job.spool:
+            # a worker writes its chunk to a file of its own; the parent copies it across
+            fd, path = tempfile.mkstemp(dir=job.spool, suffix=".csv")
+            with os.fdopen(fd, "wb") as fh:
+                pcsv.write_csv(tbl, fh, options)
+            part.path = path
+        else:
+            buf = io.BytesIO()
+            pcsv.write_csv(tbl, buf, options)
+            part.data = buf.getvalue()
+    else:
+        part.table = tbl
+    return part
+
+
+def _merge(summary: Summary, part: _Part, worst: list) -> None:
+    summary.rows += part.rows
+    summary.passed += part.passed
+    summary.failed += part.failed
+    summary.errors += part.errors
+    for item in part.worst:
+        if len(worst) < WORST_SHOWN:
+            heapq.heappush(worst, item)
+        elif item[0] > worst[0][0]:
+            heapq.heapreplace(worst, item)
+    room = WORST_SHOWN - len(summary.first_errors)
+    summary.first_errors += part.first_errors[: max(room, 0)]
 
 
 def _not_blank(batch: pa.RecordBatch, kind_pos: int) -> np.ndarray | None:
@@ -382,12 +527,12 @@ def _arrow_words(exc: Exception) -> str:
     return f"cannot read the file as CSV: {text}"
 
 
-def _tally(summary: Summary, result, rows, batch, id_pos, worst) -> None:
+def _tally(part: _Part, result, rows, batch, id_pos) -> None:
     status = result.status
-    summary.rows += len(status)
-    summary.passed += int(np.sum(status == PASS))
-    summary.failed += int(np.sum(status == FAIL))
-    summary.errors += int(np.sum(status == ERROR))
+    part.rows += len(status)
+    part.passed += int(np.sum(status == PASS))
+    part.failed += int(np.sum(status == FAIL))
+    part.errors += int(np.sum(status == ERROR))
     messages = result.columns["messages"]
 
     def ident(i: int) -> str:
@@ -396,28 +541,24 @@ def _tally(summary: Summary, result, rows, batch, id_pos, worst) -> None:
     fails = np.nonzero(status == FAIL)[0]
     if len(fails):
         util = np.nan_to_num(result.utilisation[fails], nan=0.0)
-        pick = fails[np.argsort(-util, kind="stable")[:WORST_SHOWN]]
-        for i in pick:
+        for i in fails[np.argsort(-util, kind="stable")[:WORST_SHOWN]]:
             text = messages[int(i)].as_py() or ""
             first = next((m for m in text.split("; ") if "FAIL" in m), text)
-            item = (
-                float(np.nan_to_num(result.utilisation[i], nan=0.0)),
-                int(rows[i]),
-                ident(int(i)),
-                "rail" if result.is_rail[i] else "road",
-                first,
+            part.worst.append(
+                (
+                    float(np.nan_to_num(result.utilisation[i], nan=0.0)),
+                    int(rows[i]),
+                    ident(int(i)),
+                    "rail" if result.is_rail[i] else "road",
+                    first,
+                )
             )
-            if len(worst) < WORST_SHOWN:
-                heapq.heappush(worst, item)
-            elif item[0] > worst[0][0]:
-                heapq.heapreplace(worst, item)
-    if len(summary.first_errors) < WORST_SHOWN:
-        for i in np.nonzero(status == ERROR)[0][:WORST_SHOWN]:
-            text = messages[int(i)].as_py() or ""
-            summary.first_errors.append(Worst(np.nan, int(rows[i]), ident(int(i)), "", text))
+    for i in np.nonzero(status == ERROR)[0][:WORST_SHOWN]:
+        text = messages[int(i)].as_py() or ""
+        part.first_errors.append(Worst(np.nan, int(rows[i]), ident(int(i)), "", text))
 
 
-def _tally_bad(summary: Summary, bad, header: Header) -> None:
+def _tally_bad(summary: _Part, bad, header: Header) -> None:
     summary.rows += len(bad)
     summary.errors += len(bad)
     id_pos = header.known.get("id")

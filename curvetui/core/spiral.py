@@ -237,17 +237,24 @@ def require_spirals_fit(curve: SpiralCurve) -> SpiralCurve:
         return float(np.asarray(getattr(curve, field))[index])
 
     r, d, l1, l2 = at("radius"), at("deflection"), at("ls_in"), at("ls_out")
-    a, b, c = _angles_text(at("theta_in"), at("theta_out"), d)
+    where = ""
+    if overlap.ndim:
+        n = int(overlap.sum())
+        where = f" (element {index[0] if len(index) == 1 else index}; {n} of {overlap.size})"
+    raise GeometryError(overlap_message(r, d, l1, l2, where))
+
+
+def overlap_message(r: float, d: float, l1: float, l2: float, where: str = "") -> str:
+    """What to change when spirals of ``l1`` and ``l2`` [m] overlap on radius ``r`` [m] and
+    deflection ``d`` [rad]: shorter spirals (same ratio, rounded down to the centimetre), a
+    larger radius (rounded up) or a larger deflection."""
+    a, b, c = _angles_text(l1 / (2.0 * r), l2 / (2.0 * r), d)
     scale = 2.0 * r * d / (l1 + l2)
     fit1 = math.floor(l1 * scale * 100.0) / 100.0
     fit2 = math.floor(l2 * scale * 100.0) / 100.0
     lengths = f"{fit1:.2f} m each" if l1 == l2 else f"{fit1:.2f} m in and {fit2:.2f} m out"
     r_fit = math.ceil((l1 + l2) / (2.0 * d) * 100.0) / 100.0
-    where = ""
-    if overlap.ndim:
-        n = int(overlap.sum())
-        where = f" (element {index[0] if len(index) == 1 else index}; {n} of {overlap.size})"
-    raise GeometryError(
+    return (
         f"spirals overlap{where}: spiral angles {a}° + {b}° exceed the deflection {c}°; "
         f"shorten the spirals to at most {lengths}, use a radius of at least {r_fit:.2f} m, "
         "or increase the deflection"
