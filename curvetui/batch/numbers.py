@@ -80,9 +80,21 @@ class NumberColumn:
         return f"{field}: cannot be used, got {self.cell(i)!r}"  # pragma: no cover
 
 
+def _near_half(y: np.ndarray) -> np.ndarray:
+    """Where a scaled value sits so close to a rounding tie (x.5) that the error of the
+    scaling product may have moved it across: such cells are rounded by Python instead."""
+    frac = y - np.floor(y)
+    return np.abs(frac - 0.5) <= 4e-16 * np.maximum(np.abs(y), 1.0)
+
+
 def round_significant(x, digits: int = 6) -> np.ndarray:
     """Each value rounded to ``digits`` significant figures, as float(f"{x:.{digits}g}") does
-    (what a one-bend check prints); NaN and infinities pass through."""
+    (what a one-bend check prints); NaN and infinities pass through.
+
+    Scaled by an exact power of ten and rounded to an integer m, the value is m / 10**k,
+    which IEEE division rounds correctly; cells near a tie, or beyond 10**22 (no exact
+    power of ten), are formatted one by one by Python, the reference.
+    """
     x = np.asarray(x, dtype=float)
     out = x.copy()
     with np.errstate(invalid="ignore"):
@@ -92,11 +104,25 @@ def round_significant(x, digits: int = 6) -> np.ndarray:
     k = digits - 1 - e
     scale = 10.0 ** np.abs(k).astype(float)
     up = k >= 0
-    m = np.where(up, np.rint(a * scale), np.rint(a / scale))
-    out[keep] = np.copysign(np.where(up, m / scale, m * scale), x[keep])
+    y = np.where(up, a * scale, a / scale)
+    m = np.rint(y)
+    values = np.copysign(np.where(up, m / scale, m * scale), x[keep])
+    slow = (np.abs(k) > 22) | _near_half(y)
+    if slow.any():
+        values[slow] = [float(f"{v:.{digits}g}") for v in x[keep][slow]]
+    out[keep] = values
     return out
 
 
 def round_places(x, places: int = 6) -> np.ndarray:
-    """Values rounded to ``places`` decimals (lengths and stations in a check's geometry)."""
-    return np.round(np.asarray(x, dtype=float), places)
+    """Values rounded to ``places`` decimals as Python's round(x, places) does (lengths and
+    stations in a check's geometry); cells near a tie are rounded by Python itself."""
+    x = np.asarray(x, dtype=float)
+    scale = 10.0**places
+    with np.errstate(invalid="ignore"):
+        y = np.abs(x) * scale
+        out = np.copysign(np.rint(y) / scale, x)
+        slow = np.isfinite(x) & (_near_half(y) | (y > 2.0**52))
+    if slow.any():
+        out[slow] = [round(float(v), places) for v in x[slow]]
+    return out
