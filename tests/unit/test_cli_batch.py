@@ -1,0 +1,87 @@
+"""`curvetui batch`: exit codes, standard input and output, where results go, and that a
+file that cannot be used leaves an earlier output whole. Ids are invented."""
+
+from __future__ import annotations
+
+import csv
+import io
+import subprocess
+import sys
+
+from curvetui import CAUTION
+from curvetui.cli import main
+
+GOOD = "id,kind,speed,radius,cant\nQV-01,road,100,400,\nQV-09,rail,120,800,100\n"
+FAILING = GOOD + "QV-07,road,100,300,\n"
+
+
+def rows_of(text: str) -> list[dict]:
+    return list(csv.DictReader(io.StringIO(text)))
+
+
+def test_all_pass_exits_0_and_writes_beside_the_input(tmp_path, capsys):
+    src = tmp_path / "inventory.csv"
+    src.write_text(GOOD)
+    assert main(["batch", str(src)]) == 0
+    out = rows_of((tmp_path / "inventory.checked.csv").read_text())
+    assert [r["status"] for r in out] == ["pass", "pass"]
+    err = capsys.readouterr().err
+    assert "bends" in err and "results written to" in err
+    assert " ".join(CAUTION.split()) in " ".join(err.split())
+
+
+def test_a_failure_exits_1_and_is_in_the_summary(tmp_path, capsys):
+    src = tmp_path / "inventory.csv"
+    src.write_text(FAILING)
+    dest = tmp_path / "out.csv"
+    assert main(["batch", str(src), "-o", str(dest)]) == 1
+    assert [r["status"] for r in rows_of(dest.read_text())] == ["pass", "pass", "fail"]
+    err = " ".join(capsys.readouterr().err.split())
+    assert "QV-07" in err and "FAIL radius" in err
+
+
+def test_unusable_file_exits_2_and_keeps_the_old_output(tmp_path, capsys):
+    src = tmp_path / "inventory.csv"
+    src.write_text("id,speed\nQV-1,100\n")
+    dest = tmp_path / "out.csv"
+    dest.write_text("earlier results\n")
+    assert main(["batch", str(src), "-o", str(dest)]) == 2
+    assert dest.read_text() == "earlier results\n"
+    assert "required columns missing: kind, radius" in " ".join(capsys.readouterr().err.split())
+    assert not list(tmp_path.glob(".out.csv.*"))  # no temporary file left behind
+
+
+def test_missing_input_and_output_over_input(tmp_path, capsys):
+    assert main(["batch", str(tmp_path / "nowhere.csv")]) == 2
+    src = tmp_path / "inventory.csv"
+    src.write_text(GOOD)
+    assert main(["batch", str(src), "-o", str(src)]) == 2
+    assert src.read_text() == GOOD
+    assert "overwrite the input" in capsys.readouterr().err
+
+
+def test_standard_input_to_standard_output():
+    """`-` for both, as in a pipeline: results on stdout, the summary on stderr only."""
+    done = subprocess.run(
+        [sys.executable, "-m", "curvetui", "batch", "-", "-o", "-"],
+        input=FAILING.encode(),
+        capture_output=True,
+        timeout=120,
+    )
+    assert done.returncode == 1
+    out = rows_of(done.stdout.decode())
+    assert [r["id"] for r in out] == ["QV-01", "QV-09", "QV-07"]
+    assert b"Batch check" in done.stderr and b"Batch check" not in done.stdout
+
+
+def test_us_units_and_named_tables(tmp_path):
+    src = tmp_path / "inventory.csv"
+    src.write_text("kind,speed,radius,cant\nroad,60,1200,\nrail,60,2864.789,3\n")
+    dest = tmp_path / "out.csv"
+    code = main(
+        ["batch", str(src), "-o", str(dest), "--units", "us", "--limits", "49cfr213-class1-2"]
+    )
+    out = rows_of(dest.read_text())
+    assert code in (0, 1)
+    assert out[0]["units"] == "us" and out[0]["table"] == "aashto-2018-us"
+    assert out[1]["limits"] == "49cfr213-class1-2"
