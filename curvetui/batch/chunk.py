@@ -7,6 +7,7 @@ status ``error`` and a message naming its row and column; the other rows are una
 
 from __future__ import annotations
 
+import math
 from collections.abc import Mapping
 from dataclasses import dataclass
 
@@ -109,14 +110,23 @@ class _Messages:
         self.per_row(rows, ["; ".join(by_row[int(i)]) for i in rows])
 
     def array(self) -> pa.Array:
+        empty = pa.array(np.full(self.n, "", dtype=object), pa.string())
         if not self.parts:
-            return pa.array(np.full(self.n, "", dtype=object), pa.string())
-        # joined pairwise: pyarrow 26's null_handling="skip" drops rows that are null in
-        # every part instead of giving "" (seen with pyarrow 26.0.1)
-        acc = self.parts[0]
+            return empty
+        if len(self.parts) == 1:
+            return pc.fill_null(self.parts[0], "")
+        # Join only the rows that have a message: pyarrow 26.0.1's null_handling="skip"
+        # drops a row that is null in every part instead of giving "" (seen here).
+        has = pc.is_valid(self.parts[0])
         for part in self.parts[1:]:
-            acc = pc.coalesce(pc.binary_join_element_wise(acc, part, "; "), acc, part)
-        return pc.fill_null(acc, "")
+            has = pc.or_(has, pc.is_valid(part))
+        subset = [pc.filter(part, has) for part in self.parts]
+        joined = pc.binary_join_element_wise(*subset, "; ", null_handling="skip")
+        if len(joined) != len(subset[0]):  # pragma: no cover - a pyarrow that differs again
+            joined = subset[0]
+            for part in subset[1:]:
+                joined = pc.coalesce(pc.binary_join_element_wise(joined, part, "; "), joined, part)
+        return pc.replace_with_mask(empty, has, joined)
 
 
 def _spread(n: int, rows: np.ndarray, hit: np.ndarray) -> np.ndarray:
@@ -396,17 +406,21 @@ def _road(rows, num, ctx: BatchContext, out: _Outputs, status, util, msgs, later
         lo = rounded["spiral_length_min"][with_spiral]
         hi = rounded["spiral_length_max"][with_spiral]
         with np.errstate(invalid="ignore"):
-            off = (given < lo - 1e-9) | (given > hi + 1e-9)
-        for j in np.nonzero(off)[0]:
-            pos = with_spiral[j]
-            lo_j = None if np.isnan(lo[j]) else float(lo[j])
-            hi_j = None if np.isnan(hi[j]) else float(hi[j])
-            gov = tr.ROAD_GOVERNING[int(t.governing[pos])]
-            lines = []
-            for name in ("spiral in", "spiral out"):
-                lines += bend_parts.road_spiral_messages(
-                    name, float(given[j]), lo_j, hi_j, gov, units
-                )
+            off = np.nonzero((given < lo - 1e-9) | (given > hi + 1e-9))[0]
+        positions = with_spiral[off]
+        for pos, g, lo_j, hi_j, gov in zip(
+            positions.tolist(),
+            given[off].tolist(),
+            lo[off].tolist(),
+            hi[off].tolist(),
+            np.asarray(t.governing)[positions].tolist(),
+            strict=True,
+        ):
+            lo_j = None if math.isnan(lo_j) else lo_j
+            hi_j = None if math.isnan(hi_j) else hi_j
+            name = tr.ROAD_GOVERNING[gov]
+            lines = bend_parts.road_spiral_messages("spiral in", g, lo_j, hi_j, name, units)
+            lines += bend_parts.road_spiral_messages("spiral out", g, lo_j, hi_j, name, units)
             if lines:
                 spiral_lines[int(rows[pos])] = lines
                 t_failed[pos] = True

@@ -14,12 +14,9 @@ from __future__ import annotations
 
 import collections
 import csv
-import dataclasses
 import heapq
 import io
 import os
-import shutil
-import tempfile
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -37,7 +34,9 @@ from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem
 
 HEAD_BYTES = 1 << 16
-BLOCK_SIZE = 1 << 23  # bytes per parsed block (about 100 000 rows of a typical file)
+# bytes per parsed block: about 15 000 rows of a typical file; two chunks in flight on two
+# threads keep a whole run near 300 MB (measured: benchmarks/batch_speed.py)
+BLOCK_SIZE = 1 << 20
 WORST_SHOWN = 10
 
 
@@ -248,8 +247,8 @@ def run_batch(
     their results to ``sink`` as CSV (the input's separator); ``on_table`` gets each output
     chunk as a pyarrow table too. Raises BatchFileError when the file cannot be used.
 
-    A file longer than one block is checked by ``workers`` processes (default: one per
-    core), each taking whole chunks; their output is written in the input's order."""
+    Chunks are checked on ``workers`` threads (default: one per core), each taking whole
+    chunks; their output is written in the input's order."""
     if workers is None:
         workers = os.cpu_count() or 1
     if isinstance(source, str | Path):
@@ -327,10 +326,6 @@ def _run(
     def take(part: _Part) -> None:
         if part.data is not None:
             sink.write(part.data)
-        if part.path:
-            with open(part.path, "rb") as fh:
-                shutil.copyfileobj(fh, sink, 1 << 20)
-            os.unlink(part.path)
         if part.table is not None:
             if sink is not None:
                 pcsv.write_csv(part.table, sink, _no_header(options))
@@ -341,7 +336,6 @@ def _run(
             progress(stream.count, total, summary.rows)
 
     try:
-        first = True
         while True:
             try:
                 batch = reader.read_next_batch()
@@ -355,19 +349,14 @@ def _run(
                 summary.blank += int(np.sum(~keep))
                 batch, rows = batch.filter(pa.array(keep)), rows[keep]
             bad, numbering.bad = numbering.bad, []
-            if not job.want_bytes or workers < 2 or (first and batch.num_rows < 1000):
-                # small files and the app run here; a file of more than a block goes to
-                # worker processes, one chunk each, written back in order
-                if pool is None:
-                    take(_process(job, batch, rows, bad))
-                    first = False
-                    continue
+            if not job.want_bytes or workers < 2:
+                take(_process(job, batch, rows, bad))  # in order, here (the app, one core)
+                continue
+            # chunks are checked on ``workers`` threads (the engine's numpy and pyarrow
+            # work runs outside the GIL) and written back in the input's order
             if pool is None:
-                spool = tempfile.mkdtemp(prefix="curvetui-batch-")
-                job = dataclasses.replace(job, spool=spool)
-                pool = _start_pool(job, workers)
-            pending.append(pool.submit(_work, batch, rows, bad))
-            first = False
+                pool = _start_pool(workers)
+            pending.append(pool.submit(_process, job, batch, rows, bad))
             while len(pending) > workers + 1 or (pending and pending[0].done()):
                 take(pending.popleft().result())
         while pending:
@@ -380,7 +369,6 @@ def _run(
             f.cancel()
         if pool is not None:
             pool.shutdown(wait=True, cancel_futures=True)
-            shutil.rmtree(job.spool, ignore_errors=True)
     summary.first_errors.sort(key=lambda w: w.row)
     del summary.first_errors[WORST_SHOWN:]
     summary.worst = [
@@ -403,18 +391,17 @@ def _empty_batch(names: list[str]) -> pa.RecordBatch:
 
 @dataclass
 class _Job:
-    """What a worker needs for every chunk of one file (sent once, when it starts)."""
+    """What every chunk of one file needs."""
 
     header: Header
     schema: pa.Schema
     ctx: BatchContext
     want_bytes: bool
-    spool: str = ""  # folder for the workers' chunk files
 
 
 @dataclass
 class _Part:
-    """One chunk's output (CSV bytes from a worker, or a table) and its share of the summary."""
+    """One chunk's output (CSV bytes, or a table for the app) and its share of the summary."""
 
     table: pa.Table | None
     data: bytes | None
@@ -424,32 +411,12 @@ class _Part:
     errors: int
     worst: list[tuple[float, int, str, str, str]]
     first_errors: list[Worst]
-    path: str = ""  # a worker's chunk file, to be copied to the output and removed
 
 
-_WORKER_JOB: _Job | None = None
+def _start_pool(workers: int):
+    from concurrent.futures import ThreadPoolExecutor
 
-
-def _init_worker(job: _Job) -> None:
-    global _WORKER_JOB
-    _WORKER_JOB = job
-
-
-def _work(batch, rows, bad) -> _Part:
-    assert _WORKER_JOB is not None
-    return _process(_WORKER_JOB, batch, rows, bad)
-
-
-def _start_pool(job: _Job, workers: int):
-    import multiprocessing
-    from concurrent.futures import ProcessPoolExecutor
-
-    return ProcessPoolExecutor(
-        max_workers=workers,
-        mp_context=multiprocessing.get_context("spawn"),
-        initializer=_init_worker,
-        initargs=(job,),
-    )
+    return ThreadPoolExecutor(max_workers=workers, thread_name_prefix="curvetui-batch")
 
 
 def _process(job: _Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> _Part:
@@ -480,16 +447,9 @@ def _process(job: _Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> _Part:
         options = pcsv.WriteOptions(
             include_header=False, delimiter=header.delimiter, quoting_style="needed"
         )
-        if job.spool:
-            # a worker writes its chunk to a file of its own; the parent copies it across
-            fd, path = tempfile.mkstemp(dir=job.spool, suffix=".csv")
-            with os.fdopen(fd, "wb") as fh:
-                pcsv.write_csv(tbl, fh, options)
-            part.path = path
-        else:
-            buf = io.BytesIO()
-            pcsv.write_csv(tbl, buf, options)
-            part.data = buf.getvalue()
+        buf = io.BytesIO()
+        pcsv.write_csv(tbl, buf, options)
+        part.data = buf.getvalue()
     else:
         part.table = tbl
     return part
