@@ -85,3 +85,12 @@ def test_us_units_and_named_tables(tmp_path):
     assert code in (0, 1)
     assert out[0]["units"] == "us" and out[0]["table"] == "aashto-2018-us"
     assert out[1]["limits"] == "49cfr213-class1-2"
+
+
+def test_a_file_that_is_not_utf8_exits_2(tmp_path, capsys):
+    src = tmp_path / "inventory.csv"
+    src.write_bytes(b"id,kind,speed,radius,note\nQV-1,road,80,300,caf\xe9\n")
+    dest = tmp_path / "out.csv"
+    assert main(["batch", str(src), "-o", str(dest)]) == 2
+    assert not dest.exists()
+    assert "not UTF-8" in capsys.readouterr().err
