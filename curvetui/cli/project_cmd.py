@@ -54,10 +54,27 @@ def add_new_parser(sub) -> None:
     p.set_defaults(run=_run_new)
 
 
+CSV_SUFFIXES = (".csv", ".tsv")
+
+
 def add_open_parser(sub) -> None:
-    p = sub.add_parser("open", help="open a project file (created when absent)")
+    p = sub.add_parser(
+        "open",
+        help="open a project file (created when absent) or a CSV file of bends",
+        description="Open a project file in the terminal app (created when absent), or a CSV "
+        "file of bends (.csv or .tsv, the columns of `curvetui batch`) on its checked "
+        "results. Without a terminal, or with --print, print the checks instead.",
+    )
     p.add_argument("file")
     p.add_argument("--print", action="store_true", help="print the checks instead of the app")
+    p.add_argument(
+        "--units",
+        choices=("metric", "us"),
+        help="CSV files only: metric (km/h, m) or us customary (mph, ft); default metric "
+        "(a project file names its own units)",
+    )
+    p.add_argument("--table", help="CSV files only: road design table by name or .toml path")
+    p.add_argument("--limits", help="CSV files only: rail limits by name or .toml path")
     p.set_defaults(run=_run_open)
 
 
@@ -82,6 +99,14 @@ def _run_open(args) -> int:
     """Open a project in the terminal app (created when absent). Without a terminal (a pipe,
     CI), print its checks instead."""
     path = Path(args.file)
+    if path.suffix.lower() in CSV_SUFFIXES:
+        return _open_csv(path, args)
+    given = [f"--{k}" for k in ("units", "table", "limits") if getattr(args, k, None)]
+    if given:
+        raise InputError(
+            f"{', '.join(given)}: for CSV files only; a project file names its own units, "
+            "road table and rail limits (F2 in the app)"
+        )
     if not path.exists():
         save_project(Project(Details(name=path.stem)), path)
         console().print(f"Created {path}.", markup=False)
@@ -98,6 +123,41 @@ def _run_open(args) -> int:
     except ProjectError as exc:
         return report_problems(exc)
     app.run()
+    return 0
+
+
+def _open_csv(path: Path, args) -> int:
+    """A CSV file of bends: its checked results in the app, or (without a terminal, or with
+    --print) the batch summary. A file that cannot be used is refused before the app starts
+    (exit code 2), as a bad project file is."""
+    from curvetui.app.batch_results import open_source
+    from curvetui.batch.stream import BatchFileError, run_batch
+    from curvetui.cli.batch_cmd import print_summary
+    from curvetui.core.units import unit_system
+    from curvetui.tables import rail_limits, road_table
+
+    units = unit_system(args.units or "metric")
+    table = road_table(args.table, units.name)
+    limits = rail_limits(args.limits, units.name)
+    if not path.exists():
+        raise InputError(f"{path}: no such file (a CSV file is never created by opening it)")
+    try:
+        source = open_source(path, units, table, limits)
+        if args.print or not (sys.stdin.isatty() and sys.stdout.isatty()):
+            summary = run_batch(path, None, units, table, limits, workers=1)
+            out = console()
+            out.print(
+                f"{path}: checked (`curvetui batch {path}` writes every row with its results)",
+                markup=False,
+            )
+            print_summary(out, summary, "-", table, limits)
+            return 0
+    except BatchFileError as exc:
+        sys.stderr.write(f"curvetui: error: {path}: cannot use this CSV file: {exc}\n")
+        return 2
+    from curvetui.app.batch_view import BatchApp
+
+    BatchApp(source).run()
     return 0
 
 
