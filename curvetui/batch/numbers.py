@@ -83,8 +83,9 @@ class NumberColumn:
 def _near_half(y: np.ndarray) -> np.ndarray:
     """Where a scaled value sits so close to a rounding tie (x.5) that the error of the
     scaling product may have moved it across: such cells are rounded by Python instead."""
-    frac = y - np.floor(y)
-    return np.abs(frac - 0.5) <= 4e-16 * np.maximum(np.abs(y), 1.0)
+    with np.errstate(invalid="ignore"):
+        frac = y - np.floor(y)
+        return np.abs(frac - 0.5) <= 4e-16 * np.maximum(np.abs(y), 1.0)
 
 
 def round_significant(x, digits: int = 6) -> np.ndarray:
