@@ -103,11 +103,12 @@ def round_significant(x, digits: int = 6) -> np.ndarray:
     a = np.abs(x[keep])
     e = np.floor(np.log10(a)).astype(np.int64)
     k = digits - 1 - e
-    scale = 10.0 ** np.abs(k).astype(float)
-    up = k >= 0
-    y = np.where(up, a * scale, a / scale)
-    m = np.rint(y)
-    values = np.copysign(np.where(up, m / scale, m * scale), x[keep])
+    with np.errstate(over="ignore", invalid="ignore"):  # far cells are redone below
+        scale = 10.0 ** np.abs(k).astype(float)
+        up = k >= 0
+        y = np.where(up, a * scale, a / scale)
+        m = np.rint(y)
+        values = np.copysign(np.where(up, m / scale, m * scale), x[keep])
     slow = (np.abs(k) > 22) | _near_half(y)
     if slow.any():
         values[slow] = [float(f"{v:.{digits}g}") for v in x[keep][slow]]
