@@ -17,22 +17,26 @@ from curvetui.inputs import InputError, parse_number
 _NUMBER = r"^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$"
 
 
-def _to_float(text: pa.Array) -> np.ndarray:
-    """Float values of a text column (nulls and non-numbers become NaN)."""
+def _cast(text: pa.Array) -> np.ndarray | None:
+    """pyarrow's own text-to-float cast, or None when a cell is not a number it reads."""
     try:
         return pc.cast(text, pa.float64()).to_numpy(zero_copy_only=False)
     except (pa.ArrowInvalid, pa.ArrowNotImplementedError):
-        pass
+        return None
+
+
+def _to_float(text: pa.Array) -> np.ndarray:
+    """Float values of a text column (nulls and non-numbers become NaN): the fast cast
+    first; if a cell spoils it, only cells of the number pattern, and last cell by cell."""
+    values = _cast(text)
+    if values is not None:
+        return values
     ok = pc.match_substring_regex(text, _NUMBER)
     plain = pc.replace_substring_regex(pc.if_else(ok, text, None), r"^\+", "")
-    try:
-        return pc.cast(plain, pa.float64()).to_numpy(zero_copy_only=False)
-    except (pa.ArrowInvalid, pa.ArrowNotImplementedError):
-        out = np.full(len(text), np.nan)
-        for i, cell in enumerate(plain.to_pylist()):
-            if cell is not None:
-                out[i] = float(cell)
-        return out
+    values = _cast(plain)
+    if values is not None:
+        return values
+    return np.array([np.nan if c is None else float(c) for c in plain.to_pylist()], dtype=float)
 
 
 class NumberColumn:

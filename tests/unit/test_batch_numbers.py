@@ -1,5 +1,10 @@
 """Whole-column rounding and number parsing of batch mode, against Python's own decimal
-formatting and float() (the language's correctly rounded conversions are the reference)."""
+formatting and float() (the language's correctly rounded conversions are the reference).
+
+Source of the expected values: the Python 3 standard library itself, not this project:
+``format(x, ".6g")`` (Format Specification Mini-Language, correctly rounded per IEEE 754),
+built-in ``round(x, 6)`` and ``float(text)`` (Python docs, Built-in Functions).
+"""
 
 from __future__ import annotations
 
