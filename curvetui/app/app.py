@@ -417,9 +417,9 @@ class CurveApp(App):
         self.notify(f"Saved {path} (previous version kept as {path.name}.bak).")
 
     def action_print_sheet(self) -> None:
-        """Write the worksheets of the project next to its file (see curvetui.sheet)."""
+        """Write the worksheets of the project next to its file (see curvetui.reports.sheet)."""
         try:
-            from curvetui.sheet import write_sheets
+            from curvetui.reports.sheet import write_sheets
         except ImportError:
             self.notify("Printing worksheets is not available in this build.", severity="error")
             return

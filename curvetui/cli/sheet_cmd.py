@@ -34,7 +34,7 @@ def add_parser(sub) -> None:
 
 
 def _run_sheet(args) -> int:
-    from curvetui.sheet import RENDERERS, atomic_write_bytes, sheets_path
+    from curvetui.reports.sheet import RENDERERS, atomic_write_bytes, sheets_path
 
     fmt = args.format
     if fmt is None:  # from the output's name, else PDF

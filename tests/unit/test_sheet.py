@@ -1,4 +1,4 @@
-"""Printable bend worksheets (curvetui.sheet and `curvetui sheet`).
+"""Printable bend worksheets (curvetui.reports.sheet and `curvetui sheet`).
 
 The project used here, projects/quillmere-valley-road.json, is an invented demonstration
 scenario: its names and numbers are made up and only the worksheet's output is under test.
@@ -23,7 +23,13 @@ from curvetui.cli import main
 from curvetui.inputs import InputError
 from curvetui.project.files import load_project
 from curvetui.project.model import Bend, Details, Project
-from curvetui.sheet import render_markdown, render_pdf, render_text, sheets_path, write_sheets
+from curvetui.reports.sheet import (
+    render_markdown,
+    render_pdf,
+    render_text,
+    sheets_path,
+    write_sheets,
+)
 
 DEMO = Path(__file__).resolve().parents[2] / "projects" / "quillmere-valley-road.json"
 DEMO_IDS = ["QV-01", "QV-02", "QV-03", "QV-04", "QV-05", "QV-06", "QS-01", "QS-02"]

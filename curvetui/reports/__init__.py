@@ -1,0 +1,1 @@
+"""Printable output: the bend worksheets."""
