@@ -291,8 +291,9 @@ COLUMN_OF = {key: col for col, key in INPUT_KEYS.items()}
 
 def per_row_loop(src: Path, out: Path, limit: int) -> tuple[float, int, list[str]]:
     """(seconds, rows done, statuses) for the first ``limit`` rows (0 = all)."""
-    from curvetui.batch import columns as cols
     from curvetui.bends import evaluate_bend
+
+    from curvetui.batch import columns as cols
     from curvetui.core.units import unit_system
     from curvetui.inputs import InputError
     from curvetui.tables import rail_limits, road_table

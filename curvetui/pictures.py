@@ -368,17 +368,18 @@ def rail_chart(
 
 # --------------------------------------------------------------------------- from inputs
 # The faces hold a bend as its inputs (user units, as typed or stored); these parse them the
-# way curvetui.bends does, so a picture shows exactly the bend that was checked.
+# way curvetui.bend.service does, so a picture shows exactly the bend that was checked.
 
 
 def plan_for_inputs(raw, units, radius, direction=+1, step=None, name=None) -> PlanShape | None:
-    """The plan of a bend from its inputs (``curvetui.bends`` names, user units) and its
+    """The plan of a bend from its inputs (``curvetui.bend.service`` names, user units) and its
     radius [m]; None when no deflection is given. Raises InputError for bad inputs and
     GeometryError for overlapping spirals. ``name`` names fields in messages (default: the
     command-line names)."""
-    from curvetui.bends import cli_name, parse_geometry
+    from curvetui.bend.fields import cli_name
+    from curvetui.bend.service import geometry_inputs
 
-    geometry = parse_geometry(raw, units, name or cli_name)
+    geometry = geometry_inputs(raw, units, name or cli_name)
     if geometry is None:
         return None
     return plan_points(
@@ -403,14 +404,14 @@ def station_texts(shape: PlanShape, units) -> dict[str, str]:
 
 
 def road_chart_for_inputs(raw, units, table: RoadTable) -> RoadChart:
-    """``road_chart`` for a road bend's inputs, parsed as ``curvetui.bends`` parses them."""
-    from curvetui.bends import parse_road
+    """``road_chart`` for a road bend's inputs, parsed as ``curvetui.bend.service`` parses them."""
+    from curvetui.bend.service import si_inputs
 
-    si = parse_road(raw, units, table)
+    si = si_inputs("road", raw, units, table)
     return road_chart(
         table,
         si["speed"],
-        si.get("e_max", table.emax_default),
+        si.get("emax", table.emax_default),
         si["radius"],
         f_max=si.get("friction"),
         superelevation=si.get("superelevation"),
@@ -418,15 +419,18 @@ def road_chart_for_inputs(raw, units, table: RoadTable) -> RoadChart:
 
 
 def rail_chart_for_inputs(raw, units, limits: RailLimits) -> RailChart:
-    """``rail_chart`` for a rail curve's inputs, parsed as ``curvetui.bends`` parses them."""
-    from curvetui.bends import parse_rail
+    """``rail_chart`` for a rail curve's inputs, parsed as ``curvetui.bend.service`` parses them."""
+    from curvetui.bend.service import si_inputs
+    from curvetui.core.rail import rail_centres_for_gauge
+    from curvetui.tables import road_table
 
-    si = parse_rail(raw, units)
+    si = si_inputs("rail", raw, units, road_table(None, units.name))
+    gauge = si.get("gauge")
     return rail_chart(
         limits,
         si["radius"],
         si["cant"],
-        si.get("rail_centres"),
+        None if gauge is None else rail_centres_for_gauge(gauge),
         si["speed"],
         si.get("low_speed"),
     )

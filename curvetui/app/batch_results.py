@@ -18,7 +18,7 @@ import pyarrow.compute as pc
 
 from curvetui.batch import columns as cols
 from curvetui.batch.stream import HEAD_BYTES, BatchFileError, Header, Summary, read_header
-from curvetui.bends import evaluate_bend
+from curvetui.bend.service import evaluate_bend
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem

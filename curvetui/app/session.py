@@ -7,7 +7,7 @@ import copy
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from curvetui.bends import RAIL_INPUTS, ROAD_INPUTS, cli_name
+from curvetui.bend.fields import FIELDS, cli_name
 from curvetui.inputs import InputError
 from curvetui.project.checking import (
     Context,
@@ -214,7 +214,7 @@ class _Outcome:
 def _field_of(message: str) -> str | None:
     """The input named at the start of an engine message ('speed: ...' or '--speed: ...')."""
     head = message.split(":", 1)[0].strip()
-    for key in set(ROAD_INPUTS) | set(RAIL_INPUTS):
+    for key in (f.key for f in FIELDS):
         if head in (key, cli_name(key)) or head.endswith("." + key):
             return key
     return None

@@ -1,40 +1,40 @@
-"""Options and JSON shared by `check road` and `check rail` for a bend's geometry and sight."""
+"""Options of `check road` and `check rail`, made from the field list, and their shared run."""
 
 from __future__ import annotations
 
 import argparse
 
+from curvetui.bend.fields import fields_for
 
-def add_geometry_options(p: argparse.ArgumentParser, sight: bool = True) -> None:
-    g = p.add_argument_group("geometry")
-    g.add_argument("--deflection", help="deflection angle at the PI, degrees (0 to 179)")
-    g.add_argument("--pi-station", help="station of the PI (2+710.5 or 2710.5; default 0)")
-    g.add_argument("--spiral", help="clothoid transition length, in and out (m or ft)")
-    g.add_argument("--spiral-out", help="length of the outgoing spiral when unequal (m or ft)")
-    if sight:
-        g.add_argument(
-            "--obstruction-offset",
-            help="clear offset from the inside lane centre to the obstruction (m/ft)",
+
+def add_field_options(p: argparse.ArgumentParser, kind: str, keys: tuple = ()) -> None:
+    """One option per input of ``kind`` (``curvetui.bend.fields``), or only ``keys``: its
+    help says the unit and what a blank means; required inputs are required options."""
+    groups = {}
+    for f in fields_for(kind):
+        if keys and f.key not in keys:
+            continue
+        unit = {"speed": "km/h or mph", "length": "m or ft", "station": "m or ft",
+                "cant": "mm, or in with --units us"}.get(f.unit, "")
+        bits = [f.help] + ([f"({unit})"] if unit else [])
+        if f.default:
+            bits.append(f"[default: {f.default}]")
+        target = p if f.key in ("speed", "radius", "cant", "low_speed", "gauge", "superelevation",
+                                "emax", "friction") else groups.setdefault(
+            "geometry", p.add_argument_group("geometry and sight"))
+        target.add_argument(
+            f.cli_option,
+            dest=f.key,
+            required=kind in f.required and not keys,
+            help=" ".join(bits),
         )
-        g.add_argument(
-            "--grade",
-            help="approach grade for stopping sight distance, percent (+ up, - down; default 0)",
-        )
 
 
-def add_sight_lane_option(p: argparse.ArgumentParser) -> None:
-    p.add_argument(
-        "--lane-width",
-        help="lane width (m or ft; default 3.6 m / 12 ft): the sight "
-        "line is taken on the centre of the inside lane, and runoff rotates one lane",
-    )
-
-
-def run_check(args: argparse.Namespace, keys, evaluate, printer) -> int:
+def run_check(args: argparse.Namespace, kind: str, evaluate, printer) -> int:
     """Shared body of `check road` and `check rail`: evaluate, print, exit 1 on a failure."""
     from curvetui.cli.common import print_json
 
-    record = evaluate(raw_inputs(args, keys))
+    record = evaluate(raw_inputs(args, kind))
     if args.json:
         print_json(record)
     else:
@@ -42,12 +42,7 @@ def run_check(args: argparse.Namespace, keys, evaluate, printer) -> int:
     return 1 if record["status"] == "fail" else 0
 
 
-def raw_inputs(args: argparse.Namespace, keys) -> dict:
-    """The options given, under the project file's input names (spiral -> spiral_in)."""
-    names = {"spiral_in": "spiral"}
-    out = {}
-    for key in keys:
-        value = getattr(args, names.get(key, key), None)
-        if value is not None:
-            out[key] = value
-    return out
+def raw_inputs(args: argparse.Namespace, kind: str | tuple) -> dict:
+    """The options given, under the field list's input names."""
+    keys = [f.key for f in fields_for(kind)] if isinstance(kind, str) else kind
+    return {k: getattr(args, k) for k in keys if getattr(args, k, None) is not None}

@@ -9,6 +9,7 @@ from pathlib import Path
 from rich import box
 from rich.table import Table
 
+from curvetui.bend.messages import message_line
 from curvetui.cli.common import console, print_caution, print_json
 from curvetui.inputs import InputError
 from curvetui.project.checking import (
@@ -250,7 +251,7 @@ def print_outcomes(project, ctx, outcomes, notes) -> None:
             safe,
             f"[bold {colour}]{r['status'].upper()}[/]",
         )
-        lines += [f"{b.id}: {m}" for m in r["messages"]]
+        lines += [f"{b.id}: {message_line(m)}" for m in r["messages"]]
     out.print(grid)
     for line in lines + notes:
         out.print(f"  - {line}", markup=False)

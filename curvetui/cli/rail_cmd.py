@@ -6,7 +6,7 @@ import argparse
 
 from rich.table import Table
 
-from curvetui.bends import RAIL_INPUTS, evaluate_rail
+from curvetui.bend.service import evaluate_bend
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution
 from curvetui.core.units import UnitSystem, unit_system
@@ -15,15 +15,10 @@ from curvetui.tables import rail_limits
 
 def add_parser(check_sub) -> None:
     p = check_sub.add_parser("rail", help="check one rail-track curve")
-    p.add_argument("--speed", required=True, help="speed of the fastest train (km/h or mph)")
-    p.add_argument("--radius", required=True, help="radius (m or ft)")
-    p.add_argument("--cant", required=True, help="applied cant (mm, or in with --units us)")
-    p.add_argument("--low-speed", help="speed of the slowest train, for cant excess")
-    p.add_argument("--gauge", help="track gauge in mm (1435, 1520, 1600, 1668, 1067, 1000 ...)")
+    geo.add_field_options(p, "rail")
     p.add_argument("--limits", help="rail limits by name or .toml path (see `curvetui tables`)")
     add_units_option(p)
     p.add_argument("--json", action="store_true", help="print one JSON object")
-    geo.add_geometry_options(p, sight=False)
     p.set_defaults(run=run)
 
 
@@ -32,8 +27,8 @@ def run(args: argparse.Namespace) -> int:
     limits = rail_limits(args.limits, units.name)
     return geo.run_check(
         args,
-        RAIL_INPUTS,
-        lambda raw: evaluate_rail(raw, units, limits),
+        "rail",
+        lambda raw: evaluate_bend("rail", raw, units, None, limits),
         lambda r: print_rail(r, units),
     )
 
@@ -56,11 +51,10 @@ def print_rail(record: dict, units: UnitSystem) -> None:
         shown = "-" if value is None else f"{value:,.2f}" if abs(value) < 100 else f"{value:,.1f}"
         grid.add_row(label, shown, unit_label(kind, units))
     out.print(grid)
-    from curvetui.cli.road_cmd import print_parts
+    from curvetui.cli.road_cmd import print_messages, print_parts
 
     print_parts(out, record, units)
     colour = "red" if record["status"] == "fail" else "green"
     out.print(f"Status: [bold {colour}]{record['status'].upper()}[/]")
-    for message in record["messages"]:
-        out.print(f"  - {message}", markup=False)
+    print_messages(out, record)
     print_caution(out)

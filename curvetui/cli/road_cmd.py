@@ -6,7 +6,7 @@ import argparse
 
 from rich.table import Table
 
-from curvetui.bends import ROAD_INPUTS, evaluate_road
+from curvetui.bend.service import evaluate_bend
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution
 from curvetui.core.units import UnitSystem, unit_system
@@ -16,18 +16,12 @@ from curvetui.tables import road_table
 
 def add_parser(check_sub) -> None:
     p = check_sub.add_parser("road", help="check one road bend")
-    p.add_argument("--speed", required=True, help="design speed (km/h or mph)")
-    p.add_argument("--radius", required=True, help="radius (m or ft)")
-    p.add_argument("--superelevation", help="built superelevation, percent (default: design value)")
-    p.add_argument("--emax", help="maximum superelevation, percent (default: the table's)")
-    p.add_argument("--friction", help="side friction factor to use instead of the table's f_max")
+    geo.add_field_options(p, "road")
     add_units_option(p)
     p.add_argument(
         "--table", help="road design table by name or .toml path (see `curvetui tables`)"
     )
     p.add_argument("--json", action="store_true", help="print one JSON object")
-    geo.add_geometry_options(p)
-    geo.add_sight_lane_option(p)
     p.set_defaults(run=run)
 
 
@@ -36,8 +30,8 @@ def run(args: argparse.Namespace) -> int:
     table = road_table(args.table, units.name)
     return geo.run_check(
         args,
-        ROAD_INPUTS,
-        lambda raw: evaluate_road(raw, units, table),
+        "road",
+        lambda raw: evaluate_bend("road", raw, units, table, None),
         lambda r: print_road(r, units),
     )
 
@@ -61,8 +55,7 @@ def print_road(record: dict, units: UnitSystem) -> None:
     print_parts(out, record, units)
     colour = "red" if record["status"] == "fail" else "green"
     out.print(f"Status: [bold {colour}]{record['status'].upper()}[/]")
-    for message in record["messages"]:
-        out.print(f"  - {message}", markup=False)
+    print_messages(out, record)
     print_caution(out)
 
 
@@ -85,7 +78,7 @@ def print_parts(out, record: dict, units: UnitSystem) -> None:
         grid.add_column("Quantity")
         grid.add_column("Value", justify="right")
         for key, value in obj.items():
-            if key == "messages" or value is None:
+            if value is None:
                 continue
             if key in ("pi", "pc", "pt", "ts", "sc", "cs", "st"):
                 value = format_station(value, units.name)
@@ -93,5 +86,11 @@ def print_parts(out, record: dict, units: UnitSystem) -> None:
                 value = f"{value:,.3f}"
             grid.add_row(key.replace("_", " "), str(value))
         out.print(grid)
-        for m in obj.get("messages", []):
-            out.print(f"  - {m}", markup=False)
+
+
+
+def print_messages(out, record: dict) -> None:
+    from curvetui.bend.messages import message_line
+
+    for m in record["messages"]:
+        out.print(f"  - {message_line(m)}", markup=False)

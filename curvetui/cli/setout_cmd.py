@@ -11,7 +11,8 @@ from rich import box
 from rich.table import Table
 
 from curvetui import CAUTION
-from curvetui.bends import GEOMETRY_KEYS, cli_name, parse_geometry
+from curvetui.bend.fields import cli_name
+from curvetui.bend.service import GEOMETRY_KEYS, geometry_inputs
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution
 from curvetui.core.units import UnitSystem, unit_system
@@ -40,7 +41,7 @@ def add_parser(sub) -> None:
     p.add_argument("--versine-chord", help="also give track versines on this chord (m or ft)")
     p.add_argument("--csv", metavar="FILE", help="write the table as CSV to FILE ('-' stdout)")
     add_units_option(p)
-    geo.add_geometry_options(p, sight=False)
+    geo.add_field_options(p, "road", GEOMETRY_KEYS)
     p.set_defaults(run=run)
 
 
@@ -52,7 +53,7 @@ def run(args: argparse.Namespace) -> int:
     units = unit_system(args.units)
     if args.deflection is None:
         raise InputError("--deflection: needed for setting out (degrees, 0 to 179)")
-    g = parse_geometry(geo.raw_inputs(args, GEOMETRY_KEYS), units, cli_name)
+    g = geometry_inputs(geo.raw_inputs(args, GEOMETRY_KEYS), units, cli_name)
     radius = units.length_to_si(parse_number("--radius", args.radius, 1, 1e5, units.length_label))
     big = 1e8
     e = units.length_to_si(parse_number("--pi-easting", args.pi_easting, -big, big))

@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from curvetui.bends import evaluate_bend, path_namer
+from curvetui.bend.service import evaluate_bend, path_namer
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
 from curvetui.project.model import Bend, Project
@@ -78,8 +78,9 @@ def stored_form(record: dict) -> dict:
 def differences(stored: dict, fresh: dict, prefix: str = "") -> list[str]:
     """Where stored results differ from freshly computed ones (numbers to 1e-6 relative)."""
     out: list[str] = []
+    # "checks" is new in this format: files saved before it hold none
     for key in sorted(set(stored) | set(fresh)):
-        if key in UNSTORED or key == "messages":
+        if key in UNSTORED or key == "messages" or (key == "checks" and key not in stored):
             continue
         a, b = stored.get(key), fresh.get(key)
         name = f"{prefix}{key}"

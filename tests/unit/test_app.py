@@ -505,11 +505,13 @@ def test_plan_view_spiralled_bend_labels_and_a_bend_without_deflection(demo_path
 def test_plan_view_message_uses_the_app_field_names(demo_path):
     async def steps(app, pilot):
         await go_to(app, pilot, "QV-04")
-        await set_box(pilot, app, "deflection", "")
-        assert app.session.state(app.current).error == "pi_station: needs deflection as well"
+        await set_box(pilot, app, "deflection", "200")
+        assert app.session.state(app.current).error == (
+            "deflection: must be a number greater than 0 to 179 degrees, got 200"
+        )
         await show_view(app, pilot, "plan")
         text = flat(screen_text(app))
-        assert "needs" in text and "deflection" in text
+        assert "179" in text and "deflection" in text
         assert "--" not in text
 
     drive(demo_path, steps, LARGE)

@@ -1,7 +1,7 @@
 """Batch mode: a CSV of bends in, the same numbers and words as `curvetui check` out.
 
 Most checks here compare the batch row by row with the one-bend service
-(curvetui.bends.evaluate_bend, itself checked against the Green Book, EN 13803 and
+(curvetui.bend.service.evaluate_bend, itself checked against the Green Book, EN 13803 and
 49 CFR 213 elsewhere); two tie the batch to outside sources directly. Ids and notes are
 invented.
 """
@@ -17,7 +17,8 @@ import pytest
 
 from curvetui.batch import columns as cols
 from curvetui.batch.stream import BatchFileError, batch_bytes
-from curvetui.bends import evaluate_bend
+from curvetui.bend.messages import message_line
+from curvetui.bend.service import evaluate_bend
 from curvetui.core.units import METRIC, US
 from curvetui.inputs import InputError
 from curvetui.tables import rail_limits, road_table
@@ -67,11 +68,8 @@ def flat_value(record: dict, column: str):
 
 
 def expected_messages(record: dict) -> list[str]:
-    """check's messages, then the transition's other notes (the batch lists those too)."""
-    notes = [
-        f"transition: {m}" for m in record["transition"]["messages"] if not m.startswith("FAIL")
-    ]
-    return record["messages"] + notes
+    """check's typed messages, each as the one line the batch writes."""
+    return [message_line(m) for m in record["messages"]]
 
 
 def assert_agrees(text: str, units: str, delimiter: str = ",") -> int:
@@ -228,7 +226,7 @@ def test_mixed_file_with_bad_rows_keeps_checking():
         "ERROR row 6, column radius: must be a number from 1 to 100000 m"
         in (by_id["QV-05"]["messages"])
     )
-    assert by_id["QV-06"]["messages"] == "ERROR row 7, column cant: required for a rail bend"
+    assert by_id["QV-06"]["messages"] == "ERROR row 7, column cant: required"
     assert by_id["QV-08"]["messages"].startswith("ERROR row 9: 3 fields where the header has 5")
     for key in ("QV-02", "QV-03", "QV-04", "QV-05", "QV-06", "QV-08"):
         assert by_id[key]["status"] == "error"
@@ -370,7 +368,11 @@ def test_spiral_needs_a_deflection_and_must_fit():
         "QV-32,road,80,300,5,80\n"  # 2 x 80/(2 x 300) rad = 15.3 deg > 5 deg: overlap
     )
     _, rows = parse(data)
-    assert rows[0]["messages"] == "ERROR row 2, column spiral: needs column deflection as well"
+    # a spiral without a deflection: checked (its length against the transition range), the
+    # geometry skipped with a note (issue 12, item 6)
+    assert rows[0]["status"] != "error"
+    assert "geometry: NOTE spiral or PI station given without a deflection" in rows[0]["messages"]
+    assert rows[0]["geometry.type"] == ""
     record, refusal = expected_record("road", rows[1], "metric", 3)
     assert record is None and rows[1]["messages"] == refusal
     assert "spirals overlap" in refusal

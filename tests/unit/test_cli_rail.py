@@ -81,7 +81,9 @@ def test_failure_exit_1(capsys):
     code = main(["check", "rail", "--speed", "160", "--radius", "600", "--cant", "150", "--json"])
     out = json.loads(capsys.readouterr().out)
     assert code == 1 and out["status"] == "fail"
-    assert any(m.startswith("FAIL cant deficiency") for m in out["messages"])
+    assert any(
+        m["severity"] == "fail" and m["text"].startswith("cant deficiency") for m in out["messages"]
+    )
 
 
 @pytest.mark.parametrize(

@@ -60,8 +60,10 @@ def test_given_superelevation_and_failure(capsys):
     assert code == 1 and out["status"] == "fail"
     assert out["superelevation"] == 6.0
     assert out["side_friction_demand"] == pytest.approx(6400 / (127 * 160) - 0.06, abs=1e-5)
-    assert any(m.startswith("FAIL radius") for m in out["messages"])
-    assert any(m.startswith("FAIL side friction") for m in out["messages"])
+    fails = [m["text"] for m in out["messages"] if m["severity"] == "fail"]
+    assert any(m.startswith("radius") for m in fails)
+    assert any(m.startswith("side friction") for m in fails)
+    assert out["checks"]["radius"] == "fail" and out["checks"]["friction"] == "fail"
 
 
 def test_us_customary_units(capsys):

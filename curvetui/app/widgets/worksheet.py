@@ -12,7 +12,8 @@ from textual.containers import Horizontal, VerticalScroll
 from textual.widgets import Input, Label, Select, Static
 
 from curvetui.app.session import field_label
-from curvetui.bends import RAIL_FIELD_ORDER, ROAD_FIELD_ORDER
+from curvetui.bend.fields import input_keys
+from curvetui.bend.messages import message_line
 from curvetui.core.units import UnitSystem
 from curvetui.results import RAIL_FIELDS, ROAD_FIELDS, unit_label
 
@@ -137,7 +138,7 @@ class Worksheet(Horizontal):
             yield Static("", id="results-body")
 
     def show_fields(self, kind: str, units: UnitSystem) -> None:
-        wanted = set(ROAD_FIELD_ORDER if kind == "road" else RAIL_FIELD_ORDER)
+        wanted = set(input_keys(kind))
         for key in ALL_FIELDS:
             self.query_one(f"#row-{key}").display = key in wanted
             unit = field_unit(key, units)
@@ -235,10 +236,7 @@ def results_renderable(
         )
     msgs = Text()
     for m in record["messages"]:
-        style = (
-            "bold red"
-            if m.startswith("FAIL") or ": FAIL" in m
-            else ("yellow" if "WARNING" in m else "")
-        )
-        msgs.append(f"- {m}\n", style=style)
+        style = {"fail": "bold red", "error": "bold red", "warning": "yellow"}
+        style = style.get(m["severity"], "")
+        msgs.append(f"- {message_line(m)}\n", style=style)
     return Group(head, Text(""), grid, Text(""), msgs)

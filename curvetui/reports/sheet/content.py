@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from curvetui.bend.messages import message_line
 from curvetui.core.circular import GeometryError
 from curvetui.inputs import InputError
 from curvetui.project.checking import Context, Outcome, evaluate_project, project_context
@@ -202,7 +203,7 @@ def build(project_or_path, bend_ids=None) -> SheetSet:
             blanks=_blanks(bend),
             standard=_standard(outcome, ctx, units),
             steps=steps,
-            messages=list(rec.get("messages", [])) if rec else [],
+            messages=[message_line(m) for m in rec.get("messages", [])] if rec else [],
             error=outcome.error,
         )
         _plan(outcome, units, sheet)

@@ -1,0 +1,1 @@
+"""The bend layer: fields, parse, evaluate (the verdict), record and messages."""

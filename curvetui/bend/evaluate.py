@@ -1,0 +1,395 @@
+"""Checked inputs of n bends through the engine, and the verdict decided once.
+
+The second step of the one path (parse -> evaluate -> record). Every result is kept
+unrounded, in the user's units, under its key from ``curvetui.bend.outputs``; each check
+a bend must pass is a typed flag in ``checks`` (PASS, FAIL or NOT_APPLICABLE per row),
+decided here on the unrounded numbers. Rounding happens only when a record is written.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from curvetui.bend.outputs import OUTPUTS, TEXT
+from curvetui.bend.parse import Issue, Parsed
+from curvetui.core import transitions as tr
+from curvetui.core.circular import circular_curve
+from curvetui.core.rail import RailLimits, check_rail, rail_centres_for_gauge
+from curvetui.core.road import check_road
+from curvetui.core.road_table import RoadTable
+from curvetui.core.units import FOOT, UnitSystem
+from curvetui.results import CROSS_SECTION_NAMES, rail_columns, road_columns
+
+PASS, FAIL, ERROR = 0, 1, 2
+STATUS_NAMES = ("pass", "fail", "error")
+NOT_APPLICABLE = -1
+
+# flags the bend layer adds to the engine's own
+SPIRAL_IN_SHORT = 1 << 0  # given spiral in below the minimum (road) or the needed length (rail)
+SPIRAL_IN_LONG = 1 << 1  # given spiral in above the lateral-shift maximum (road)
+SPIRAL_OUT_SHORT = 1 << 2
+SPIRAL_OUT_LONG = 1 << 3
+GEOMETRY_SKIPPED = 1 << 4  # spiral or PI station given without a deflection
+SPIRAL_FAIL_MASK = SPIRAL_IN_SHORT | SPIRAL_IN_LONG | SPIRAL_OUT_SHORT | SPIRAL_OUT_LONG
+
+ROAD_CHECKS = ("radius", "friction", "superelevation", "transition", "sight")
+RAIL_CHECKS = ("cant", "deficiency", "excess", "balance", "transition")
+DEFAULT_LANE_WIDTH = {"metric": 3.6, "us": 12.0 * FOOT}  # [m], the Green Book's usual lane
+
+
+@dataclass(frozen=True)
+class Context:
+    """What every bend of one evaluation shares."""
+
+    units: UnitSystem
+    table: RoadTable
+    limits: RailLimits
+
+
+@dataclass
+class Evaluation:
+    """Results of n bends: unrounded values by output key, typed checks, status per row.
+
+    ``road``/``rail`` hold the engine's checks of the road and rail rows (positions
+    ``road_rows``/``rail_rows``); the message builders read them.
+    """
+
+    parsed: Parsed
+    ctx: Context
+    values: dict[str, np.ndarray]
+    texts: dict[str, np.ndarray]
+    checks: dict[str, np.ndarray]
+    status: np.ndarray
+    bend_flags: np.ndarray
+    issues: list[Issue]
+    road_rows: np.ndarray
+    rail_rows: np.ndarray
+    parts: dict[str, object] = field(default_factory=dict)  # engine results by name
+    part_rows: dict[str, np.ndarray] = field(default_factory=dict)
+
+    @property
+    def n(self) -> int:
+        return self.parsed.n
+
+    def values_si_spiral(self, key: str, i: int) -> float:
+        """The spiral length [m] row ``i`` gives at one end (spiral out defaults to in)."""
+        si, present = self.parsed.si, self.parsed.present
+        if key == "spiral_out" and present["spiral_out"][i]:
+            return float(si["spiral_out"][i])
+        return float(si["spiral_in"][i]) if present["spiral_in"][i] else 0.0
+
+    def utilisation(self) -> np.ndarray:
+        """Largest demand / limit of each row's main check (NaN for errors): for ranking."""
+        v = self.values
+        with np.errstate(invalid="ignore", divide="ignore"):
+            road = np.fmax(
+                np.fmax(
+                    v["min_radius"] / v["radius"],
+                    v["side_friction_demand"] / v["side_friction_max"],
+                ),
+                np.where(
+                    self.parsed.present["superelevation"], v["superelevation"] / v["e_max"], np.nan
+                ),
+            )
+            rail = np.fmax(
+                np.fmax(v["cant_deficiency"] / v["deficiency_limit"], v["cant"] / v["cant_limit"]),
+                v["cant_excess"] / v["excess_limit"],
+            )
+        out = np.where(self.parsed.is_rail, rail, road)
+        out[self.status == ERROR] = np.nan
+        return out
+
+
+def evaluate(parsed: Parsed, ctx: Context) -> Evaluation:
+    """Evaluate every row of ``parsed`` without an input issue; decide each verdict."""
+    n = parsed.n
+    ev = Evaluation(
+        parsed=parsed,
+        ctx=ctx,
+        values={o.key: np.full(n, np.nan) for o in OUTPUTS if o.rounding != TEXT},
+        texts={o.key: np.full(n, None, dtype=object) for o in OUTPUTS if o.rounding == TEXT},
+        checks={k: np.full(n, NOT_APPLICABLE, np.int8) for k in (*ROAD_CHECKS, *RAIL_CHECKS)},
+        status=np.full(n, PASS, np.int8),
+        bend_flags=np.zeros(n, np.int64),
+        issues=list(parsed.issues),
+        road_rows=np.zeros(0, np.int64),
+        rail_rows=np.zeros(0, np.int64),
+    )
+    bad = parsed.error_mask()
+    ev.road_rows = np.nonzero(parsed.is_road & ~bad)[0]
+    ev.rail_rows = np.nonzero(parsed.is_rail & ~bad)[0]
+    if len(ev.road_rows):
+        _road(ev, ev.road_rows)
+    if len(ev.rail_rows):
+        _rail(ev, ev.rail_rows)
+    _verdict(ev)
+    return ev
+
+
+def _put(ev: Evaluation, key: str, rows, values) -> None:
+    ev.values[key][rows] = values
+
+
+def _check(ev: Evaluation, name: str, rows, failed) -> None:
+    ev.checks[name][rows] = np.where(failed, FAIL, PASS)
+
+
+def _road(ev: Evaluation, rows: np.ndarray) -> None:
+    units, table, si = ev.ctx.units, ev.ctx.table, ev.parsed.si
+    v, r = si["speed"][rows], si["radius"][rows]
+    e_max = np.where(ev.parsed.present["emax"][rows], si["emax"][rows], table.emax_default)
+    check = check_road(table, v, r, e_max, si["superelevation"][rows], si["friction"][rows])
+    ev.parts["road"], ev.part_rows["road"] = check, rows
+    for key, values in road_columns(check, units).items():
+        _put(ev, key, rows, values)
+    _put(ev, "speed", rows, units.speed_from_si(v))
+    _put(ev, "radius", rows, units.length_from_si(r))
+    _put(ev, "e_max", rows, 100 * check.e_max)
+    names = np.array([CROSS_SECTION_NAMES[k] for k in sorted(CROSS_SECTION_NAMES)], object)
+    ev.texts["cross_section"][rows] = names[np.asarray(check.cross_section, int)]
+    flags = np.asarray(check.flags)
+    from curvetui.core import road as road_engine
+
+    _check(ev, "radius", rows, (flags & road_engine.FAIL_RADIUS) != 0)
+    _check(ev, "friction", rows, (flags & road_engine.FAIL_FRICTION) != 0)
+    given_e = ev.parsed.present["superelevation"][rows]
+    over_e = (flags[given_e] & road_engine.FAIL_SUPERELEVATION) != 0
+    _check(ev, "superelevation", rows[given_e], over_e)
+
+    width = np.where(
+        ev.parsed.present["lane_width"][rows],
+        si["lane_width"][rows],
+        DEFAULT_LANE_WIDTH[units.name],
+    )
+    t = tr.road_transition(table, v, r, check.superelevation, lane_width=width)
+    ev.parts["road_transition"], ev.part_rows["road_transition"] = t, rows
+    for key in (
+        "spiral_length_min",
+        "spiral_length_max",
+        "length_comfort",
+        "length_shift_min",
+        "length_shift_max",
+        "runoff",
+        "runout",
+    ):
+        _put(ev, f"transition.{key}", rows, units.length_from_si(getattr(t, key)))
+    _put(ev, "transition.relative_gradient", rows, 100 * t.relative_gradient)
+    ev.texts["transition.governing"][rows] = np.asarray(tr.ROAD_GOVERNING, object)[t.governing]
+    curve_length = _geometry(ev, rows, r)
+    t_failed = np.asarray(t.failed).copy()
+    t_failed |= _road_spirals(ev, rows, t)
+    _check(ev, "transition", rows, t_failed)
+    ev.texts["transition.status"][rows] = np.where(t_failed, "fail", "pass")
+    _sight(ev, rows, v, r, width, curve_length)
+
+
+def _road_spirals(ev: Evaluation, rows, t) -> np.ndarray:
+    """Flag given spirals outside [minimum, lateral-shift maximum], on unrounded lengths."""
+    failed = np.zeros(len(rows), bool)
+    lo, hi = t.spiral_length_min, t.spiral_length_max
+    for key, short, long in (
+        ("spiral_in", SPIRAL_IN_SHORT, SPIRAL_IN_LONG),
+        ("spiral_out", SPIRAL_OUT_SHORT, SPIRAL_OUT_LONG),
+    ):
+        ls = _spiral(ev, key, rows)
+        with np.errstate(invalid="ignore"):
+            is_short = (ls > 0) & (ls < lo * (1 - 1e-12))
+            is_long = (ls > 0) & (ls > hi * (1 + 1e-12))
+        ev.bend_flags[rows] |= np.where(is_short, short, 0) | np.where(is_long, long, 0)
+        failed |= is_short | is_long
+    return failed
+
+
+def _spiral(ev: Evaluation, key: str, rows) -> np.ndarray:
+    """Spiral length [m] of each row, 0 without one; spiral out defaults to spiral in."""
+    si, present = ev.parsed.si, ev.parsed.present
+    ls_in = np.where(present["spiral_in"][rows], si["spiral_in"][rows], 0.0)
+    if key == "spiral_in":
+        return ls_in
+    return np.where(present["spiral_out"][rows], si["spiral_out"][rows], ls_in)
+
+
+def _geometry(ev: Evaluation, rows, r) -> np.ndarray:
+    """Circular or spiral geometry of the rows with a deflection; the curve length [m]
+    (NaN without). Spirals that overlap are an input issue of the row."""
+    from curvetui.core.spiral import overlap_message, spiral_curve
+
+    units, si, present = ev.ctx.units, ev.parsed.si, ev.parsed.present
+    length = np.full(len(rows), np.nan)
+    has_d = present["deflection"][rows]
+    given = present["spiral_in"][rows] | present["spiral_out"][rows] | present["pi_station"][rows]
+    ev.bend_flags[rows[~has_d & given]] |= GEOMETRY_SKIPPED
+    d = si["deflection"][rows]
+    pi = np.where(present["pi_station"][rows], si["pi_station"][rows], 0.0)
+    l1, l2 = _spiral(ev, "spiral_in", rows), _spiral(ev, "spiral_out", rows)
+
+    def put(key, at, values, angle=False):
+        _put(
+            ev,
+            f"geometry.{key}",
+            rows[at],
+            np.degrees(values) if angle else units.length_from_si(np.asarray(values)),
+        )
+
+    circ = np.nonzero(has_d & (l1 <= 0) & (l2 <= 0))[0]
+    if len(circ):
+        c = circular_curve(r[circ], np.radians(d[circ]), pi[circ])
+        ev.texts["geometry.type"][rows[circ]] = "circular"
+        put("deflection", circ, np.radians(d[circ]), angle=True)
+        for key in ("tangent", "length", "external", "middle_ordinate", "long_chord"):
+            put(key, circ, getattr(c, key))
+        for key in ("pi", "pc", "pt"):
+            put(key, circ, getattr(c, key))
+        length[circ] = c.length
+    spir = np.nonzero(has_d & ((l1 > 0) | (l2 > 0)))[0]
+    if len(spir):
+        with np.errstate(all="ignore"):
+            s = spiral_curve(r[spir], np.radians(d[spir]), l1[spir], l2[spir], pi[spir])
+        overlap = np.asarray(s.overlap) | ~np.isfinite(s.total_length)
+        for j in np.nonzero(overlap)[0]:
+            k = spir[j]
+            text = overlap_message(float(r[k]), float(np.radians(d[k])), float(l1[k]), float(l2[k]))
+            ev.issues.append(Issue(int(rows[k]), "spiral_in", text))
+        ok = np.nonzero(~overlap)[0]
+        at = spir[ok]
+        ev.texts["geometry.type"][rows[at]] = "spiral-curve-spiral"
+        put("deflection", at, np.radians(d[at]), angle=True)
+        put("spiral_angle", at, s.theta_in[ok], angle=True)
+        for key, name in (
+            ("xs", "xs_in"),
+            ("ys", "ys_in"),
+            ("p", "p_in"),
+            ("k", "k_in"),
+            ("total_tangent", "tangent_in"),
+            ("external", "external"),
+            ("circular_length", "circular_length"),
+            ("total_length", "total_length"),
+        ):
+            put(key, at, np.asarray(getattr(s, name))[ok])
+        unequal = ok[l1[at] != l2[at]]
+        if len(unequal):
+            put("spiral_angle_out", spir[unequal], s.theta_out[unequal], angle=True)
+            for key, name in (
+                ("xs_out", "xs_out"),
+                ("ys_out", "ys_out"),
+                ("p_out", "p_out"),
+                ("k_out", "k_out"),
+                ("total_tangent_out", "tangent_out"),
+            ):
+                put(key, spir[unequal], np.asarray(getattr(s, name))[unequal])
+        for key in ("pi", "ts", "sc", "cs", "st"):
+            put(key, at, np.asarray(getattr(s, key))[ok])
+        length[at] = np.asarray(s.total_length)[ok]
+    return length
+
+
+def _sight(ev: Evaluation, rows, v, r, width, curve_length) -> None:
+    from curvetui.core import sight as sd
+
+    units, si, present = ev.ctx.units, ev.parsed.si, ev.parsed.present
+    has = np.nonzero(present["obstruction_offset"][rows])[0]
+    if not len(has):
+        return
+    at = rows[has]
+    r_lane = r[has] - width[has] / 2.0
+    grade = np.where(present["grade"][at], si["grade"][at], 0.0)
+    with np.errstate(all="ignore"):
+        c = sd.sight_check(
+            v[has],
+            r_lane,
+            si["obstruction_offset"][at],
+            curve_length=curve_length[has],
+            units=units.name,
+            grade=grade,
+        )
+    ev.parts["sight"], ev.part_rows["sight"] = c, at
+    lane = np.full(ev.n, np.nan)
+    lane[at] = width[has]
+    ev.parts["lane_width"] = lane
+    for key in (
+        "stopping_sight_distance",
+        "sightline_offset_required",
+        "offset_available",
+        "sight_distance_available",
+        "offset_that_passes",
+    ):
+        _put(ev, f"sight.{key}", at, units.length_from_si(getattr(c, key)))
+    _put(ev, "sight.sightline_radius", at, units.length_from_si(r_lane))
+    _put(ev, "sight.speed_that_passes", at, units.speed_from_si(c.speed_that_passes))
+    failed = ~np.asarray(c.status, bool)
+    ev.texts["sight.status"][at] = np.where(failed, "fail", "pass")
+    _check(ev, "sight", at, failed)
+
+
+def _rail(ev: Evaluation, rows: np.ndarray) -> None:
+    units, limits, si, present = ev.ctx.units, ev.ctx.limits, ev.parsed.si, ev.parsed.present
+    v, r, ea, low = si["speed"][rows], si["radius"][rows], si["cant"][rows], si["low_speed"][rows]
+    s = np.full(len(rows), limits.rail_centres)
+    given = present["gauge"][rows]
+    if given.any():
+        uniq, inverse = np.unique(si["gauge"][rows][given], return_inverse=True)
+        s[given] = np.array([rail_centres_for_gauge(float(g)) for g in uniq])[inverse]
+    check = check_rail(limits, v, r, ea, low, s)
+    ev.parts["rail"], ev.part_rows["rail"] = check, rows
+    for key, values in rail_columns(check, units).items():
+        _put(ev, key, rows, values)
+    _put(ev, "speed", rows, units.speed_from_si(v))
+    _put(ev, "radius", rows, units.length_from_si(r))
+    _put(ev, "cant", rows, ea / units.cant)
+    if units.name == "us":
+        r_ft = r / FOOT
+        _put(ev, "degree_of_curve_arc", rows, 5729.5779513 / r_ft)
+        with np.errstate(invalid="ignore"):
+            _put(ev, "degree_of_curve_chord", rows, 2 * np.degrees(np.arcsin(50.0 / r_ft)))
+    from curvetui.core import rail as rail_engine
+
+    flags = np.asarray(check.flags)
+    has_low = present["low_speed"][rows]
+    _check(ev, "cant", rows, (flags & rail_engine.FAIL_CANT) != 0)
+    _check(ev, "deficiency", rows, (flags & rail_engine.FAIL_DEFICIENCY) != 0)
+    excess_known = has_low & np.isfinite(check.excess_limit)
+    _check(ev, "excess", rows[excess_known], (flags[excess_known] & rail_engine.FAIL_EXCESS) != 0)
+    _check(ev, "balance", rows[has_low], (flags[has_low] & rail_engine.FAIL_NO_BALANCE) != 0)
+
+    t = tr.rail_transition_for(limits, check.cant, check.cant_deficiency, check.speed)
+    ev.parts["rail_transition"], ev.part_rows["rail_transition"] = t, rows
+    for key in ("length", "length_cant_gradient", "length_cant_rate", "length_deficiency_rate"):
+        _put(ev, f"transition.{key}", rows, units.length_from_si(getattr(t, key)))
+    gov = np.asarray(t.governing)
+    names = np.asarray((*tr.RAIL_GOVERNING, "none evaluated"), object)
+    ev.texts["transition.governing"][rows] = names[np.where(gov < 0, -1, gov)]
+    _geometry(ev, rows, r)
+    need = np.asarray(t.length)
+    t_failed = np.zeros(len(rows), bool)
+    for key, short in (("spiral_in", SPIRAL_IN_SHORT), ("spiral_out", SPIRAL_OUT_SHORT)):
+        ls = _spiral(ev, key, rows)
+        with np.errstate(invalid="ignore"):
+            is_short = (ls > 0) & (ls < need * (1 - 1e-12))
+        ev.bend_flags[rows] |= np.where(is_short, short, 0)
+        t_failed |= is_short
+    none = (np.asarray(t.flags) & tr.FAIL_NONE_EVALUATED) != 0
+    _check(ev, "transition", rows[~none | t_failed], t_failed[~none | t_failed])
+    ev.texts["transition.status"][rows] = np.where(
+        t_failed, "fail", np.where(none, "not evaluated", "pass")
+    )
+
+
+def _verdict(ev: Evaluation) -> None:
+    """Fail a row on any failed check; an input issue makes it an error (results cleared)."""
+    failed = np.zeros(ev.n, bool)
+    for values in ev.checks.values():
+        failed |= values == FAIL
+    ev.status[:] = np.where(failed, FAIL, PASS)
+    bad = np.zeros(ev.n, bool)
+    if ev.issues:
+        ev.issues.sort(key=lambda x: x.row)
+        bad[[i.row for i in ev.issues]] = True
+    ev.status[bad] = ERROR
+    for values in ev.values.values():
+        values[bad] = np.nan
+    for texts in ev.texts.values():
+        texts[bad] = None
+    for values in ev.checks.values():
+        values[bad] = NOT_APPLICABLE

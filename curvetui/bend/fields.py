@@ -1,0 +1,298 @@
+"""Every input of a bend, declared once: name, label, unit, range, kinds, help.
+
+The command line's options, the app's form, the worksheet's labels, the batch's columns,
+the project file's validation and the README's input table all read ``FIELDS``. Adding an
+input is one entry here plus its use in the evaluation.
+
+Ranges are in the user's units (``metric``: km/h, m, mm of cant; ``us``: mph, ft, in).
+Lengths are declared in metres and shown converted, rounded as the messages print them.
+Two ranges depend on something else: e_max on the road table, and the slow train's
+speed on the fast one (see ``curvetui.bend.parse``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from curvetui.core.units import UnitSystem
+
+ROAD, RAIL = "road", "rail"
+BOTH = (ROAD, RAIL)
+
+# unit kinds: how a field's number is shown and converted to SI
+SPEED, LENGTH, CANT, PERCENT, DEGREES, FACTOR, MILLIMETRE, STATION = (
+    "speed",
+    "length",
+    "cant",
+    "percent",
+    "degrees",
+    "factor",
+    "mm",
+    "station",
+)
+
+
+@dataclass(frozen=True)
+class Field:
+    """One input of a bend.
+
+    ``ranges`` maps a kind ("road"/"rail") to (lo, hi): in metres for LENGTH and STATION
+    fields (converted for US units), else per unit system as {"metric": (lo, hi), "us": ...}
+    or the same pair for both. ``lo_open`` excludes lo itself. ``needs`` names a field
+    that must be given too. ``aliases`` are other batch column names for the field.
+    """
+
+    key: str
+    label: str
+    unit: str
+    kinds: tuple[str, ...]
+    help: str
+    ranges: dict
+    required: tuple[str, ...] = ()
+    lo_open: bool = False
+    needs: str = ""
+    option: str = ""
+    aliases: tuple[str, ...] = ()
+    default: str = ""
+
+    @property
+    def cli_option(self) -> str:
+        """The command-line option: ``--pi-station`` for ``pi_station`` unless named."""
+        return self.option or "--" + self.key.replace("_", "-")
+
+    def unit_label(self, units: UnitSystem) -> str:
+        return {
+            SPEED: units.speed_label,
+            LENGTH: units.length_label,
+            STATION: units.length_label,
+            CANT: units.cant_label,
+            PERCENT: "%",
+            DEGREES: "degrees",
+            FACTOR: "",
+            MILLIMETRE: "mm",
+        }[self.unit]
+
+    def to_si(self, value, units: UnitSystem):
+        """A number in the user's unit to SI (m, m/s, fraction, radians kept in degrees)."""
+        if self.unit == SPEED:
+            return units.speed_to_si(value)
+        if self.unit in (LENGTH, STATION):
+            return units.length_to_si(value)
+        if self.unit == CANT:
+            return value * units.cant
+        if self.unit == PERCENT:
+            return value / 100.0
+        return value
+
+    def allowed(self, kind: str, units: UnitSystem) -> tuple[float, float] | None:
+        """(lo, hi) in the user's units for ``kind``, None where the range is dynamic."""
+        spec = self.ranges.get(kind)
+        if spec is None:
+            return None
+        if isinstance(spec, dict):
+            return spec[units.name]
+        lo, hi = spec
+        if self.unit in (LENGTH, STATION):
+            return round(units.length_from_si(lo), 1), round(units.length_from_si(hi))
+        return lo, hi
+
+
+def _f(key, label, unit, kinds, help, ranges, **kw) -> Field:
+    return Field(key, label, unit, kinds, help, ranges, **kw)
+
+
+# In the order a designer thinks: speed, the bend's shape, the cross-section and its
+# limits, transitions, then sight. Filtered by kind this is each form's order.
+FIELDS: tuple[Field, ...] = (
+    _f(
+        "speed",
+        "Design speed",
+        SPEED,
+        BOTH,
+        "design speed; on rail the fastest train",
+        {
+            ROAD: {"metric": (1.0, 200.0), "us": (1.0, 125.0)},
+            RAIL: {"metric": (1.0, 400.0), "us": (1.0, 250.0)},
+        },
+        required=BOTH,
+    ),
+    _f(
+        "low_speed",
+        "Slowest train speed",
+        SPEED,
+        (RAIL,),
+        "speed of the slowest train, for cant excess (0 up to the fast speed)",
+        {},
+    ),
+    _f(
+        "radius",
+        "Radius",
+        LENGTH,
+        BOTH,
+        "radius of the circular arc",
+        {ROAD: (1.0, 100_000.0), RAIL: (20.0, 100_000.0)},
+        required=BOTH,
+    ),
+    _f(
+        "deflection",
+        "Deflection angle",
+        DEGREES,
+        BOTH,
+        "deflection angle at the PI (0 to 179 degrees)",
+        {ROAD: (0.0, 179.0), RAIL: (0.0, 179.0)},
+        lo_open=True,
+    ),
+    _f(
+        "pi_station",
+        "PI station",
+        STATION,
+        BOTH,
+        "station of the PI (2+710.5 or 2710.5; default 0)",
+        {ROAD: (-1e7, 1e7), RAIL: (-1e7, 1e7)},
+        default="0",
+    ),
+    _f(
+        "superelevation",
+        "Superelevation built",
+        PERCENT,
+        (ROAD,),
+        "built superelevation, percent (default: the design value from the table)",
+        {ROAD: (-10.0, 20.0)},
+        default="design value",
+    ),
+    _f(
+        "emax",
+        "Maximum superelevation e_max",
+        PERCENT,
+        (ROAD,),
+        "maximum superelevation, percent (default: the table's)",
+        {},
+        default="table's",
+    ),
+    _f(
+        "friction",
+        "Side friction factor",
+        FACTOR,
+        (ROAD,),
+        "side friction factor to use instead of the table's f_max",
+        {ROAD: (0.01, 1.0)},
+        default="table's f_max",
+    ),
+    _f(
+        "cant",
+        "Applied cant",
+        CANT,
+        (RAIL,),
+        "applied cant (mm or in)",
+        {RAIL: {"metric": (0.0, 300.0), "us": (0.0, 12.0)}},
+        required=(RAIL,),
+    ),
+    _f(
+        "gauge",
+        "Track gauge",
+        MILLIMETRE,
+        (RAIL,),
+        "track gauge in mm, for another gauge's rail centres (default: the limits')",
+        {RAIL: (600.0, 1700.0)},
+        default="limits'",
+    ),
+    _f(
+        "spiral_in",
+        "Spiral in",
+        LENGTH,
+        BOTH,
+        "clothoid transition length, in (and out unless given)",
+        {ROAD: (0.0, 5000.0), RAIL: (0.0, 5000.0)},
+        option="--spiral",
+        aliases=("spiral",),
+        default="none",
+    ),
+    _f(
+        "spiral_out",
+        "Spiral out",
+        LENGTH,
+        BOTH,
+        "length of the outgoing spiral when unequal",
+        {ROAD: (0.0, 5000.0), RAIL: (0.0, 5000.0)},
+        default="= spiral in",
+    ),
+    _f(
+        "obstruction_offset",
+        "Obstruction offset",
+        LENGTH,
+        (ROAD,),
+        "clear offset from the inside lane centre to the obstruction",
+        {ROAD: (0.0, 200.0)},
+        lo_open=True,
+        default="no sight check",
+    ),
+    _f(
+        "grade",
+        "Approach grade",
+        PERCENT,
+        (ROAD,),
+        "approach grade for stopping sight distance, percent (+ up, - down)",
+        {ROAD: (-15.0, 15.0)},
+        needs="obstruction_offset",
+        default="0",
+    ),
+    _f(
+        "lane_width",
+        "Lane width",
+        LENGTH,
+        (ROAD,),
+        "lane width: the sight line is on the inside lane's centre and runoff rotates one lane",
+        {ROAD: {"metric": (2.0, 6.0), "us": (6.5, 19.7)}},
+        default="3.6 m / 12 ft",
+    ),
+)
+
+BY_KEY: dict[str, Field] = {f.key: f for f in FIELDS}
+
+
+def fields_for(kind: str) -> tuple[Field, ...]:
+    """The fields of a road or rail bend, in the designer's order."""
+    return tuple(f for f in FIELDS if kind in f.kinds)
+
+
+def input_keys(kind: str) -> tuple[str, ...]:
+    return tuple(f.key for f in fields_for(kind))
+
+
+def cli_name(key: str) -> str:
+    """The command-line option of an input (``--spiral`` for spiral_in)."""
+    field = BY_KEY.get(key)
+    return field.cli_option if field else "--" + key.replace("_", "-")
+
+
+def column_names() -> dict[str, str]:
+    """Batch column name (lower case) -> field key, aliases included."""
+    out = {}
+    for f in FIELDS:
+        out[f.key] = f.key
+        for alias in f.aliases:
+            out[alias] = f.key
+    return out
+
+
+def docs_table() -> str:
+    """The README's input table (Markdown), from the field list."""
+    rows = [
+        "| input | option | applies to | unit (metric / US) | allowed | default |",
+        "|---|---|---|---|---|---|",
+    ]
+    from curvetui.core.units import METRIC, US
+
+    for f in FIELDS:
+        ranges = []
+        for units in (METRIC, US):
+            kind = f.kinds[0]
+            r = f.allowed(kind, units)
+            ranges.append("see note" if r is None else f"{r[0]:g} to {r[1]:g}")
+        allowed = ranges[0] if ranges[0] == ranges[1] else " / ".join(ranges)
+        units_txt = f"{f.unit_label(METRIC) or '-'} / {f.unit_label(US) or '-'}"
+        rows.append(
+            f"| `{f.key}` | `{f.cli_option}` | {', '.join(f.kinds)} | {units_txt} | "
+            f"{allowed} | {f.default or ('required' if f.required else '')} |"
+        )
+    return "\n".join(rows)
