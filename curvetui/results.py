@@ -90,15 +90,6 @@ def fixed(value: float, places: int = 6) -> float | None:
     return round(value, places) if np.isfinite(value) else None
 
 
-def road_record(check: RoadCheck, index, units: UnitSystem) -> dict:
-    """One bend's results as a JSON-ready dict (status and messages added by the caller)."""
-    cols = road_columns(check, units)
-    record = {key: rounded(np.asarray(col)[index]) for key, col in cols.items()}
-    record["cross_section"] = CROSS_SECTION_NAMES[int(np.asarray(check.cross_section)[index])]
-    record["status"] = "fail" if bool(np.asarray(check.failed)[index]) else "pass"
-    return record
-
-
 def rail_columns(check: RailCheck, units: UnitSystem) -> dict[str, np.ndarray]:
     """Rail results in the user's units: cant in mm or in, speeds km/h or mph, and the
     accelerations in m/s^2 in both systems (the quantity the limits are usually quoted in)."""
@@ -119,11 +110,3 @@ def rail_columns(check: RailCheck, units: UnitSystem) -> dict[str, np.ndarray]:
         "rail_centres": check.rail_centres / c,
         "low_speed": units.speed_from_si(check.low_speed),
     }
-
-
-def rail_record(check: RailCheck, index, units: UnitSystem) -> dict:
-    """One curve's results as a JSON-ready dict (NaN becomes null)."""
-    cols = rail_columns(check, units)
-    record = {key: rounded(np.asarray(col)[index]) for key, col in cols.items()}
-    record["status"] = "fail" if bool(np.asarray(check.failed)[index]) else "pass"
-    return record
