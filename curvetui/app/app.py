@@ -176,7 +176,7 @@ class CurveApp(App):
         self.refresh_pictures(bend, st.record)
 
     def _working_steps(self, bend: Bend, record: dict | None):
-        from curvetui.working import rail_working, road_working
+        from curvetui.reports.working import rail_working, road_working
 
         if record is None:
             return None
@@ -190,8 +190,8 @@ class CurveApp(App):
 
     def refresh_pictures(self, bend: Bend, record: dict | None) -> None:
         """Plan sketch and chart of the current bend, drawn from its valid inputs."""
-        from curvetui import pictures
         from curvetui.core.spiral import GeometryError
+        from curvetui.reports import pictures
 
         if self.query_one("#views", TabbedContent).active not in ("plan", "chart"):
             return  # drawn when the view is shown: typing stays quick

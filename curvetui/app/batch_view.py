@@ -461,7 +461,7 @@ class RowScreen(Screen):
         self.query_one("#working-view", WorkingView).show(self._working(record))
 
     def _working(self, record: dict):
-        from curvetui.working import rail_working, road_working
+        from curvetui.reports.working import rail_working, road_working
 
         s = self.source
         if self.sheet.kind == "road":

@@ -18,7 +18,7 @@ from textual.geometry import Region
 from curvetui.app.widgets.charts import RailChartView, RoadChartView
 from curvetui.app.widgets.plan_sketch import NO_GEOMETRY, PlanSketch
 from curvetui.core.units import KMH, METRIC
-from curvetui.pictures import plan_points, rail_chart, road_chart, station_texts
+from curvetui.reports.pictures import plan_points, rail_chart, road_chart, station_texts
 from curvetui.tables import rail_limits, road_table
 
 

@@ -1,4 +1,4 @@
-"""Picture data: the plan of a bend and the road and rail charts (curvetui.pictures).
+"""Picture data: the plan of a bend and the road and rail charts (curvetui.reports.pictures).
 
 Check values come from:
 - plane geometry: a simple curve's PC lies T = R tan(D/2) before the PI, its arc centre R
@@ -31,7 +31,7 @@ from curvetui.core.circular import GeometryError
 from curvetui.core.rail import check_rail
 from curvetui.core.spiral import spiral_curve
 from curvetui.core.units import FOOT, KMH, METRIC, MPH
-from curvetui.pictures import (
+from curvetui.reports.pictures import (
     ARC,
     SPIRAL_IN,
     SPIRAL_OUT,

@@ -18,7 +18,7 @@ from textual.widget import Widget
 from curvetui.app.canvas import BrailleCanvas, log_ticks, nice_ticks, short_number
 from curvetui.core.rail import FAIL_EXCESS
 from curvetui.core.units import METRIC, UnitSystem
-from curvetui.pictures import RailChart, RoadChart
+from curvetui.reports.pictures import RailChart, RoadChart
 
 NO_ROAD = "give a speed and a radius to see the chart"
 NO_RAIL = "give a speed, a radius and a cant to see the chart"

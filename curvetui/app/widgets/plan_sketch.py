@@ -14,7 +14,7 @@ from textual.widget import Widget
 
 from curvetui.app.canvas import BrailleCanvas, nice_step
 from curvetui.core.units import METRIC, UnitSystem
-from curvetui.pictures import ARC, SPIRAL_IN, SPIRAL_OUT, TANGENT, PlanShape
+from curvetui.reports.pictures import ARC, SPIRAL_IN, SPIRAL_OUT, TANGENT, PlanShape
 
 NO_GEOMETRY = "give a deflection to see the plan"
 

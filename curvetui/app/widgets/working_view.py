@@ -6,7 +6,7 @@ from rich.table import Table
 from rich.text import Text
 from textual.widgets import Static
 
-from curvetui.working import Step
+from curvetui.reports.working import Step
 
 
 class WorkingView(Static):

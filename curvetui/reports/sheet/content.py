@@ -11,9 +11,9 @@ from curvetui.project.checking import Context, Outcome, evaluate_project, projec
 from curvetui.project.files import load_project
 from curvetui.project.model import Project
 from curvetui.reports.sheet.labels import DEFAULTS, FIELD_NAMES, FIELD_ORDER, UNIT_KIND
+from curvetui.reports.working import Step, rail_working, road_working
 from curvetui.results import unit_label
 from curvetui.stations import format_station
-from curvetui.working import Step, rail_working, road_working
 
 
 @dataclass
@@ -142,7 +142,7 @@ def _standard(outcome: Outcome, ctx: Context, units) -> list[tuple[str, str]]:
 
 
 def _plan(outcome: Outcome, units, sheet: BendSheet) -> None:
-    from curvetui import pictures
+    from curvetui.reports import pictures
 
     if outcome.record is None:
         sheet.plan_note = "No plan: the inputs have an error."

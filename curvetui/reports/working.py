@@ -29,6 +29,12 @@ class Step:
     check: str = ""  # "pass", "fail" or "" (no check on this line)
 
 
+def _verdict(record: dict, check: str) -> str:
+    """A line's pass/fail, read from the record's checks (decided once, on unrounded values,
+    by curvetui.bend.evaluate); "" where the check does not apply."""
+    return record.get("checks", {}).get(check, "")
+
+
 def _f(x, digits=4) -> str:
     return f"{x:.{digits}g}" if abs(x) < 10**digits else f"{x:,.0f}"
 
@@ -94,7 +100,7 @@ def road_working(record: dict, table: RoadTable, units: UnitSystem) -> list[Step
                 f"R_min = {V:g}^2 / ({C:g} x ({emax:.3f} + {fmax:.3f}))",
                 f"{_f(rmin, 5)} {ln}, as the table rounds {record['min_radius_rounded']:g} {ln}",
                 f"{table.source.split(':')[0]}; Eq. 3-10",
-                "fail" if R < record["min_radius"] - 1e-9 else "pass",
+                _verdict(record, "radius"),
             )
         )
         demand = V**2 / (C * R) - e
@@ -108,7 +114,7 @@ def road_working(record: dict, table: RoadTable, units: UnitSystem) -> list[Step
                 f"k = {table.k_si:.4f} m/s^2 from the table's constant {C:g}",
                 f"{record['min_radius']:.5g} {ln}",
                 src,
-                "fail" if R < record["min_radius"] - 1e-9 else "pass",
+                _verdict(record, "radius"),
             )
         )
         demand = record["side_friction_demand"]
@@ -134,7 +140,7 @@ def road_working(record: dict, table: RoadTable, units: UnitSystem) -> list[Step
             friction_sub,
             f"f = {demand:.4f} against f_max {fmax:g}",
             src,
-            "fail" if demand > fmax + 1e-12 else "pass",
+            _verdict(record, "friction"),
         )
     )
     steps.append(
@@ -144,7 +150,7 @@ def road_working(record: dict, table: RoadTable, units: UnitSystem) -> list[Step
             "solved exactly on the table's piecewise-linear f_max",
             f"{record['safe_speed']:.1f} {sp}",
             src,
-            "fail" if record["safe_speed"] < V - 1e-9 else "pass",
+            _verdict(record, "friction"),
         )
     )
     steps += _transition_steps(record, units) + _sight_steps(record, units)
@@ -174,7 +180,7 @@ def rail_working(record: dict, limits: RailLimits, units: UnitSystem) -> list[St
             f"D = {record['equilibrium_cant']:.1f} - {record['cant']:g}",
             f"{record['cant_deficiency']:.1f} {cl} against {record['deficiency_limit']:g}",
             f"{limits.name}",
-            "fail" if record["cant_deficiency"] > record["deficiency_limit"] + 1e-9 else "pass",
+            _verdict(record, "deficiency"),
         ),
     ]
     if record.get("cant_excess") is not None:
@@ -190,10 +196,7 @@ def rail_working(record: dict, limits: RailLimits, units: UnitSystem) -> list[St
                     else ""
                 ),
                 limits.name,
-                "fail"
-                if record.get("excess_limit") is not None
-                and record["cant_excess"] > record["excess_limit"] + 1e-9
-                else "pass",
+                _verdict(record, "excess"),
             )
         )
     steps += [
@@ -210,7 +213,7 @@ def rail_working(record: dict, limits: RailLimits, units: UnitSystem) -> list[St
             f"sqrt({G0} x {_f(r)} x ({record['cant']:g} + {record['deficiency_limit']:g}) / {s:g})",
             f"{record['max_speed']:.1f} {sp}",
             limits.name,
-            "fail" if record["max_speed"] < V - 1e-9 else "pass",
+            _verdict(record, "deficiency"),
         ),
         Step(
             "Applied cant",
@@ -218,7 +221,7 @@ def rail_working(record: dict, limits: RailLimits, units: UnitSystem) -> list[St
             f"{record['cant']:g} <= {record['cant_limit']:g}",
             f"{record['cant']:g} {cl}",
             limits.name,
-            "fail" if record["cant"] > record["cant_limit"] + 1e-9 else "pass",
+            _verdict(record, "cant"),
         ),
     ]
     if record.get("min_speed") is not None:
