@@ -277,22 +277,34 @@ def column_names() -> dict[str, str]:
 
 def docs_table() -> str:
     """The README's input table (Markdown), from the field list."""
-    rows = [
-        "| input | option | applies to | unit (metric / US) | allowed | default |",
-        "|---|---|---|---|---|---|",
-    ]
     from curvetui.core.units import METRIC, US
 
+    dynamic = {"emax": "the road table's e_max range", "low_speed": "0 to the speed"}
+    rows = [
+        "| input | option | applies to | unit (metric / US) | allowed (metric / US) | blank means |",
+        "|---|---|---|---|---|---|",
+    ]
     for f in FIELDS:
-        ranges = []
-        for units in (METRIC, US):
-            kind = f.kinds[0]
-            r = f.allowed(kind, units)
-            ranges.append("see note" if r is None else f"{r[0]:g} to {r[1]:g}")
-        allowed = ranges[0] if ranges[0] == ranges[1] else " / ".join(ranges)
+        texts = []
+        for kind in f.kinds:
+            pair = []
+            for units in (METRIC, US):
+                r = f.allowed(kind, units)
+                if r is not None:
+                    lo = f"more than {r[0]:g}" if f.lo_open else f"{r[0]:g}"
+                    pair.append(f"{lo} to {r[1]:g}")
+            if pair:
+                text = pair[0] if pair[0] == pair[1] else " / ".join(pair)
+                texts.append(f"{kind}: {text}" if len(f.kinds) > 1 else text)
+        allowed = "; ".join(dict.fromkeys(texts)) or dynamic.get(f.key, "")
+        if len(set(t.split(": ", 1)[-1] for t in texts)) == 1 and texts:
+            allowed = texts[0].split(": ", 1)[-1]
         units_txt = f"{f.unit_label(METRIC) or '-'} / {f.unit_label(US) or '-'}"
+        blank = "required" if f.required == f.kinds else f.default or "not used"
+        if f.required and f.required != f.kinds:
+            blank = f"required ({', '.join(f.required)})"
         rows.append(
             f"| `{f.key}` | `{f.cli_option}` | {', '.join(f.kinds)} | {units_txt} | "
-            f"{allowed} | {f.default or ('required' if f.required else '')} |"
+            f"{allowed} | {blank} |"
         )
     return "\n".join(rows)
