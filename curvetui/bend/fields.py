@@ -281,7 +281,8 @@ def docs_table() -> str:
 
     dynamic = {"emax": "the road table's e_max range", "low_speed": "0 to the speed"}
     rows = [
-        "| input | option | applies to | unit (metric / US) | allowed (metric / US) | blank means |",
+        "| input | option | applies to | unit (metric / US) | allowed (metric / US) "
+        "| blank means |",
         "|---|---|---|---|---|---|",
     ]
     for f in FIELDS:
