@@ -7,8 +7,9 @@ import sys
 
 from curvetui import __version__
 from curvetui.inputs import InputError
-from curvetui.project.files import ProjectError
-from curvetui.tables import TableError
+
+# Each sub-command's module imports what its run needs when it runs (the engine, Rich,
+# pyarrow, jsonschema, Textual), so building the parser below stays light.
 
 
 class _Parser(argparse.ArgumentParser):
@@ -65,6 +66,9 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "run", None):
         parser.print_help()
         return 0
+    from curvetui.project.files import ProjectError
+    from curvetui.tables import TableError
+
     try:
         return int(args.run(args))
     except ProjectError as exc:

@@ -6,18 +6,17 @@ import argparse
 import csv
 import math
 import sys
-
-from rich import box
-from rich.table import Table
+from typing import TYPE_CHECKING
 
 from curvetui import CAUTION
-from curvetui.bends import GEOMETRY_KEYS, cli_name, parse_geometry
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution
-from curvetui.core.units import UnitSystem, unit_system
-from curvetui.files import atomic_write_text
 from curvetui.inputs import InputError, parse_number
-from curvetui.stations import format_station
+
+if TYPE_CHECKING:
+    from curvetui.core.units import UnitSystem
+
+# The engine, file saving and Rich are imported in the functions that use them (see road_cmd).
 
 
 def add_parser(sub) -> None:
@@ -45,9 +44,11 @@ def add_parser(sub) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    from curvetui.bends import GEOMETRY_KEYS, cli_name, parse_geometry
     from curvetui.core.circular import circular_curve
     from curvetui.core.setout import setout_points, versines_along
     from curvetui.core.spiral import GeometryError, spiral_curve
+    from curvetui.core.units import unit_system
 
     units = unit_system(args.units)
     if args.deflection is None:
@@ -141,6 +142,8 @@ def write_csv(rows: list[dict], target: str) -> None:
         return
     import io
 
+    from curvetui.files import atomic_write_text
+
     buf = io.StringIO()
     w = csv.DictWriter(buf, fieldnames=fields, lineterminator="\n")
     w.writeheader()
@@ -153,6 +156,11 @@ ELEMENT_SHORT = {"tangent point": "tp", "spiral in": "sp-in", "arc": "arc", "spi
 
 
 def print_rows(rows: list[dict], units: UnitSystem, with_versine: bool) -> None:
+    from rich import box
+    from rich.table import Table
+
+    from curvetui.stations import format_station
+
     out = console()
     ln = units.length_label
     grid = Table(
