@@ -40,10 +40,23 @@ with contextlib.redirect_stdout(out):
     except SystemExit as exc:
         code = exc.code
 loaded = sorted({name.split(".")[0] for name in sys.modules})
-print(json.dumps({"code": code, "out": out.getvalue(), "loaded": loaded}))
+ours = sorted(name for name in sys.modules if name.startswith("curvetui."))
+print(json.dumps({"code": code, "out": out.getvalue(), "loaded": loaded, "ours": ours}))
 """
 
 NEVER_FOR_JSON = ("pyarrow", "jsonschema", "textual", "rich", "scipy", "fpdf")
+# curvetui's own modules that a one-bend check has no use for: the other sub-commands, the
+# batch, project files, the app, worksheets
+NOT_OURS_FOR_CHECK = (
+    "curvetui.cli.batch_cmd",
+    "curvetui.cli.setout_cmd",
+    "curvetui.cli.sheet_cmd",
+    "curvetui.cli.tables_cmd",
+    "curvetui.batch",
+    "curvetui.project",
+    "curvetui.app",
+    "curvetui.sheet",
+)
 
 
 def probe(*args: str) -> dict:
@@ -81,6 +94,22 @@ def test_check_json_imports_no_heavy_package(args, needed):
     assert "numpy" in result["loaded"]  # the engine ran (it is numpy throughout)
     heavy = sorted(set(NEVER_FOR_JSON) & set(result["loaded"]))
     assert heavy == [], f"`{' '.join(args)}` imported {heavy}"
+    assert f"curvetui.cli.{needed}_cmd" in result["ours"]
+    extra = [m for m in result["ours"] if m.startswith(NOT_OURS_FOR_CHECK)]
+    assert extra == [], f"`{' '.join(args)}` imported {extra}"
+
+
+def test_help_still_lists_every_sub_command(capsys):
+    """Without a sub-command first, the parser is built whole: the help names them all."""
+    from curvetui.cli import main
+
+    with pytest.raises(SystemExit) as stop:
+        main(["--help"])
+    assert stop.value.code == 0
+    text = capsys.readouterr().out
+    # every sub-command, in the order they were always listed
+    assert "{check,tables,setout,open,new,sheet,batch}" in text
+    assert "check every bend of a CSV file" in text  # batch's own help line was built
 
 
 def test_check_road_table_output_uses_rich_but_not_the_others():
