@@ -17,7 +17,7 @@ are not an engineering check of anything.
 Measured in one run, side by side:
 - batch: ``python -m curvetui batch IN -o OUT`` in a subprocess, wall time including
   start-up (the start-up alone is shown too, on a one-bend file);
-- (a) loop: csv.DictReader, curvetui.bends.evaluate_bend per row (InputError = error row),
+- (a) loop: csv.DictReader, curvetui.bend.service.evaluate_bend per row (InputError = error row),
   the record flattened to the batch's output columns, csv.DictWriter; timed in this process
   (imports excluded) on the first --loop-rows rows and extrapolated linearly to all rows;
   its statuses are compared with the batch's for the same rows;
@@ -291,9 +291,8 @@ COLUMN_OF = {key: col for col, key in INPUT_KEYS.items()}
 
 def per_row_loop(src: Path, out: Path, limit: int) -> tuple[float, int, list[str]]:
     """(seconds, rows done, statuses) for the first ``limit`` rows (0 = all)."""
-    from curvetui.bends import evaluate_bend
-
     from curvetui.batch import columns as cols
+    from curvetui.bend.service import evaluate_bend
     from curvetui.core.units import unit_system
     from curvetui.inputs import InputError
     from curvetui.tables import rail_limits, road_table

@@ -39,7 +39,7 @@ RESULT_KEYS = (
     "max_speed",
 )
 
-# CSV column (lower case) -> input name of curvetui.bends, per kind
+# CSV column (lower case) -> input name of curvetui.bend.fields, per kind
 ROAD_INPUT_COLUMNS = {
     "speed": "speed",
     "radius": "radius",
@@ -299,13 +299,13 @@ class RowSheet:
     """A row checked again as one bend: its record, or the reason it cannot be."""
 
     kind: str
-    inputs: dict[str, str]  # input name of curvetui.bends -> text
+    inputs: dict[str, str]  # input name of curvetui.bend.fields -> text
     record: dict | None = None
     error: str | None = None
 
 
 def bend_inputs(row: ResultRow, source: BatchSource) -> tuple[str, dict[str, str]]:
-    """The kind and the inputs of a row, as curvetui.bends names them (blank cells left out;
+    """The kind and the inputs of a row, as curvetui.bend.fields names them (blank cells left out;
     a decimal comma read as a point in a semicolon-separated file, as the batch does)."""
     kind = row.kind
     mapping = RAIL_INPUT_COLUMNS if kind == "rail" else ROAD_INPUT_COLUMNS
@@ -320,7 +320,7 @@ def bend_inputs(row: ResultRow, source: BatchSource) -> tuple[str, dict[str, str
 
 
 def evaluate_row(row: ResultRow, source: BatchSource) -> RowSheet:
-    """The row's full record from curvetui.bends.evaluate_bend; messages name the file's
+    """The row's full record from curvetui.bend.service.evaluate_bend; messages name the file's
     columns. A row the batch marked as an error is not evaluated: its messages stand."""
     kind, raw = bend_inputs(row, source)
     sheet = RowSheet(kind, raw)

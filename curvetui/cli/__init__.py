@@ -7,8 +7,10 @@ import sys
 
 from curvetui import __version__
 from curvetui.inputs import InputError
-from curvetui.project.files import ProjectError
-from curvetui.tables import TableError
+
+# Each sub-command's module imports what its run needs when it runs (the engine, Rich,
+# pyarrow, jsonschema, Textual), and main() builds only the sub-command given, so a start
+# imports that sub-command's module and not the others.
 
 
 class _Parser(argparse.ArgumentParser):
@@ -19,16 +21,13 @@ class _Parser(argparse.ArgumentParser):
         raise SystemExit(2)
 
 
-def build_parser() -> argparse.ArgumentParser:
-    from curvetui.cli import (
-        batch_cmd,
-        project_cmd,
-        rail_cmd,
-        road_cmd,
-        setout_cmd,
-        sheet_cmd,
-        tables_cmd,
-    )
+def build_parser(command: str | None = None) -> argparse.ArgumentParser:
+    """The parser of every sub-command; with ``command`` (a sub-command's name) only that
+    one's, so that only its module is imported."""
+    from curvetui.cli import project_cmd
+
+    def wanted(name: str) -> bool:
+        return command is None or command == name
 
     parser = _Parser(
         prog="curvetui",
@@ -38,18 +37,43 @@ def build_parser() -> argparse.ArgumentParser:
     )
     parser.add_argument("--version", action="version", version=f"curvetui {__version__}")
     sub = parser.add_subparsers(dest="command", parser_class=_Parser)
-    check = sub.add_parser("check", help="check one bend, or every bend of a project")
-    check_sub = check.add_subparsers(dest="kind", parser_class=_Parser)
-    road_cmd.add_parser(check_sub)
-    rail_cmd.add_parser(check_sub)
-    project_cmd.add_check_project(check)
-    tables_cmd.add_parser(sub)
-    setout_cmd.add_parser(sub)
-    project_cmd.add_open_parser(sub)
-    project_cmd.add_new_parser(sub)
-    sheet_cmd.add_parser(sub)
-    batch_cmd.add_parser(sub)
+    if wanted("check"):
+        from curvetui.cli import rail_cmd, road_cmd
+
+        check = sub.add_parser("check", help="check one bend, or every bend of a project")
+        check_sub = check.add_subparsers(dest="kind", parser_class=_Parser)
+        road_cmd.add_parser(check_sub)
+        rail_cmd.add_parser(check_sub)
+        project_cmd.add_check_project(check)
+    if wanted("tables"):
+        from curvetui.cli import tables_cmd
+
+        tables_cmd.add_parser(sub)
+    if wanted("setout"):
+        from curvetui.cli import setout_cmd
+
+        setout_cmd.add_parser(sub)
+    if wanted("open"):
+        project_cmd.add_open_parser(sub)
+    if wanted("new"):
+        project_cmd.add_new_parser(sub)
+    if wanted("sheet"):
+        from curvetui.cli import sheet_cmd
+
+        sheet_cmd.add_parser(sub)
+    if wanted("batch"):
+        from curvetui.cli import batch_cmd
+
+        batch_cmd.add_parser(sub)
     return parser
+
+
+def _project_error() -> type[Exception]:
+    """ProjectError. An except clause's class is looked up only when an exception reaches
+    it, so a command that reads no project file never imports the project modules."""
+    from curvetui.project.files import ProjectError
+
+    return ProjectError
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -60,14 +84,19 @@ def main(argv: list[str] | None = None) -> int:
     # `curvetui FILE` opens a project: route it before argparse sees an unknown command.
     if argv and not argv[0].startswith("-") and argv[0] not in project_cmd.COMMANDS:
         argv = ["open", *argv]
-    parser = build_parser()
+    # the sub-command named first is the only one built; with none (an option such as
+    # --help or --version first, or no words) every sub-command is, for the help and errors
+    command = argv[0] if argv and not argv[0].startswith("-") else None
+    parser = build_parser(command)
     args = parser.parse_args(argv)
     if not getattr(args, "run", None):
         parser.print_help()
         return 0
+    from curvetui.tables import TableError
+
     try:
         return int(args.run(args))
-    except ProjectError as exc:
+    except _project_error() as exc:
         sys.stderr.write(f"curvetui: error: {exc.path}: cannot use this project file:\n")
         for problem in exc.problems:
             sys.stderr.write(f"  {problem}\n")

@@ -6,18 +6,19 @@ import argparse
 import os
 import sys
 from pathlib import Path
-
-from rich.console import Console
-from rich.progress import BarColumn, Progress, TextColumn, TimeElapsedColumn
-from rich.table import Table
+from typing import TYPE_CHECKING
 
 from curvetui import CAUTION
 from curvetui.batch import columns as cols
-from curvetui.batch.stream import BatchFileError, Summary, run_batch
 from curvetui.cli.common import add_units_option
-from curvetui.core.units import unit_system
-from curvetui.files import atomic_binary
-from curvetui.tables import rail_limits, road_table
+
+if TYPE_CHECKING:
+    from rich.console import Console
+
+    from curvetui.batch.stream import Summary
+
+# pyarrow (batch.stream), the tables and Rich are imported in the functions that use them:
+# the parser of every sub-command is built on each start, and only `batch` needs them.
 
 
 def add_parser(sub) -> None:
@@ -52,6 +53,14 @@ def _output_path(args) -> str:
 
 
 def run(args: argparse.Namespace) -> int:
+    from rich.console import Console
+    from rich.progress import BarColumn, Progress, TextColumn, TimeElapsedColumn
+
+    from curvetui.batch.stream import BatchFileError, run_batch
+    from curvetui.core.units import unit_system
+    from curvetui.files import atomic_binary
+    from curvetui.tables import rail_limits, road_table
+
     units = unit_system(args.units)
     table = road_table(args.table, units.name)
     limits = rail_limits(args.limits, units.name)
@@ -94,6 +103,8 @@ def run(args: argparse.Namespace) -> int:
 
 def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> None:
     """Counts, the worst bends, the first errors, what was used, and the caution."""
+    from rich.table import Table
+
     grid = Table(title="Batch check", show_header=False)
     grid.add_column("what")
     grid.add_column("count", justify="right")

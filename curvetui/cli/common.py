@@ -4,10 +4,12 @@ from __future__ import annotations
 
 import json
 import sys
-
-from rich.console import Console
+from typing import TYPE_CHECKING
 
 from curvetui import CAUTION
+
+if TYPE_CHECKING:
+    from rich.console import Console
 
 
 def add_units_option(parser) -> None:
@@ -20,6 +22,8 @@ def add_units_option(parser) -> None:
 
 
 def console() -> Console:
+    from rich.console import Console  # here, not at the top: `--json` output needs no Rich
+
     return Console(highlight=False)
 
 

@@ -5,22 +5,17 @@ from __future__ import annotations
 import argparse
 import sys
 from pathlib import Path
-
-from rich import box
-from rich.table import Table
+from typing import TYPE_CHECKING
 
 from curvetui.bend.messages import message_line
 from curvetui.cli.common import console, print_caution, print_json
 from curvetui.inputs import InputError
-from curvetui.project.checking import (
-    evaluate_project,
-    project_context,
-    refresh_results,
-    stale_results,
-)
-from curvetui.project.files import ProjectError, load_project, save_project
-from curvetui.project.model import Details, Project
-from curvetui.stations import format_station
+
+if TYPE_CHECKING:
+    from curvetui.project.files import ProjectError
+
+# The project modules (the engine, the JSON Schema check) and Rich are imported in the
+# functions that use them: this module is imported on every start to build the parser.
 
 COMMANDS = {
     "check",
@@ -87,6 +82,9 @@ def report_problems(exc: ProjectError) -> int:
 
 
 def _run_new(args) -> int:
+    from curvetui.project.files import save_project
+    from curvetui.project.model import Details, Project
+
     path = Path(args.file)
     if path.exists():
         raise InputError(f"{path}: already exists; choose another name")
@@ -99,6 +97,9 @@ def _run_new(args) -> int:
 def _run_open(args) -> int:
     """Open a project in the terminal app (created when absent). Without a terminal (a pipe,
     CI), print its checks instead."""
+    from curvetui.project.files import ProjectError, save_project
+    from curvetui.project.model import Details, Project
+
     path = Path(args.file)
     if path.suffix.lower() in CSV_SUFFIXES:
         return _open_csv(path, args)
@@ -163,6 +164,8 @@ def _open_csv(path: Path, args) -> int:
 
 
 def _run_check_project(args) -> int:
+    from curvetui.project.files import ProjectError
+
     if not args.project:
         raise InputError("check: needs `road`, `rail` or --project FILE")
     try:
@@ -173,6 +176,14 @@ def _run_check_project(args) -> int:
 
 def check_project(path: str, save: bool = False, as_json: bool = False) -> int:
     """Check every bend; 1 when any fails or cannot be computed."""
+    from curvetui.project.checking import (
+        evaluate_project,
+        project_context,
+        refresh_results,
+        stale_results,
+    )
+    from curvetui.project.files import load_project, save_project
+
     project, notes = load_project(path)
     ctx = project_context(project)
     outcomes = evaluate_project(project, ctx)
@@ -205,6 +216,11 @@ def check_project(path: str, save: bool = False, as_json: bool = False) -> int:
 
 
 def print_outcomes(project, ctx, outcomes, notes) -> None:
+    from rich import box
+    from rich.table import Table
+
+    from curvetui.stations import format_station
+
     units = ctx.units
     out = console()
     d = project.details

@@ -3,14 +3,15 @@
 from __future__ import annotations
 
 import argparse
+from typing import TYPE_CHECKING
 
-from rich.table import Table
-
-from curvetui.bend.service import evaluate_bend
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution
-from curvetui.core.units import UnitSystem, unit_system
-from curvetui.tables import rail_limits
+
+if TYPE_CHECKING:
+    from curvetui.core.units import UnitSystem
+
+# The engine, the limits and Rich are imported in the functions that use them (see road_cmd).
 
 
 def add_parser(check_sub) -> None:
@@ -23,6 +24,10 @@ def add_parser(check_sub) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    from curvetui.bend.service import evaluate_bend
+    from curvetui.core.units import unit_system
+    from curvetui.tables import rail_limits
+
     units = unit_system(args.units)
     limits = rail_limits(args.limits, units.name)
     return geo.run_check(
@@ -34,6 +39,8 @@ def run(args: argparse.Namespace) -> int:
 
 
 def print_rail(record: dict, units: UnitSystem) -> None:
+    from rich.table import Table
+
     from curvetui.results import RAIL_FIELDS, unit_label
 
     out = console()

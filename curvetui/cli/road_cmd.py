@@ -3,15 +3,16 @@
 from __future__ import annotations
 
 import argparse
+from typing import TYPE_CHECKING
 
-from rich.table import Table
-
-from curvetui.bend.service import evaluate_bend
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution
-from curvetui.core.units import UnitSystem, unit_system
-from curvetui.results import ROAD_FIELDS, unit_label
-from curvetui.tables import road_table
+
+if TYPE_CHECKING:
+    from curvetui.core.units import UnitSystem
+
+# The engine, the tables and Rich are imported in the functions that use them, so that
+# building the command line's parser (every sub-command's options) stays light.
 
 
 def add_parser(check_sub) -> None:
@@ -26,6 +27,10 @@ def add_parser(check_sub) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    from curvetui.bend.service import evaluate_bend
+    from curvetui.core.units import unit_system
+    from curvetui.tables import road_table
+
     units = unit_system(args.units)
     table = road_table(args.table, units.name)
     return geo.run_check(
@@ -37,6 +42,10 @@ def run(args: argparse.Namespace) -> int:
 
 
 def print_road(record: dict, units: UnitSystem) -> None:
+    from rich.table import Table
+
+    from curvetui.results import ROAD_FIELDS, unit_label
+
     out = console()
     title = (
         f"Road bend: {record['speed']:g} {units.speed_label}, R {record['radius']:g} "
@@ -68,6 +77,8 @@ PART_TITLES = {
 
 def print_parts(out, record: dict, units: UnitSystem) -> None:
     """Print the geometry, transition and sight objects of a record as small tables."""
+    from rich.table import Table
+
     from curvetui.stations import format_station
 
     for part, title in PART_TITLES.items():

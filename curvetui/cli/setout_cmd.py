@@ -6,19 +6,17 @@ import argparse
 import csv
 import math
 import sys
-
-from rich import box
-from rich.table import Table
+from typing import TYPE_CHECKING
 
 from curvetui import CAUTION
-from curvetui.bend.fields import cli_name
-from curvetui.bend.service import GEOMETRY_KEYS, geometry_inputs
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution
-from curvetui.core.units import UnitSystem, unit_system
-from curvetui.files import atomic_write_text
 from curvetui.inputs import InputError, parse_number
-from curvetui.stations import format_station
+
+if TYPE_CHECKING:
+    from curvetui.core.units import UnitSystem
+
+# The engine, file saving and Rich are imported in the functions that use them (see road_cmd).
 
 
 def add_parser(sub) -> None:
@@ -41,14 +39,17 @@ def add_parser(sub) -> None:
     p.add_argument("--versine-chord", help="also give track versines on this chord (m or ft)")
     p.add_argument("--csv", metavar="FILE", help="write the table as CSV to FILE ('-' stdout)")
     add_units_option(p)
-    geo.add_field_options(p, "road", GEOMETRY_KEYS)
+    geo.add_field_options(p, "road", ("deflection", "pi_station", "spiral_in", "spiral_out"))
     p.set_defaults(run=run)
 
 
 def run(args: argparse.Namespace) -> int:
+    from curvetui.bend.fields import cli_name
+    from curvetui.bend.service import GEOMETRY_KEYS, geometry_inputs
     from curvetui.core.circular import circular_curve
     from curvetui.core.setout import setout_points, versines_along
     from curvetui.core.spiral import GeometryError, spiral_curve
+    from curvetui.core.units import unit_system
 
     units = unit_system(args.units)
     if args.deflection is None:
@@ -142,6 +143,8 @@ def write_csv(rows: list[dict], target: str) -> None:
         return
     import io
 
+    from curvetui.files import atomic_write_text
+
     buf = io.StringIO()
     w = csv.DictWriter(buf, fieldnames=fields, lineterminator="\n")
     w.writeheader()
@@ -154,6 +157,11 @@ ELEMENT_SHORT = {"tangent point": "tp", "spiral in": "sp-in", "arc": "arc", "spi
 
 
 def print_rows(rows: list[dict], units: UnitSystem, with_versine: bool) -> None:
+    from rich import box
+    from rich.table import Table
+
+    from curvetui.stations import format_station
+
     out = console()
     ln = units.length_label
     grid = Table(

@@ -4,8 +4,6 @@ from __future__ import annotations
 
 import sys
 
-from curvetui.files import atomic_write_text
-
 
 def add_parser(sub) -> None:
     p = sub.add_parser(
@@ -34,6 +32,7 @@ def add_parser(sub) -> None:
 
 
 def _run_sheet(args) -> int:
+    from curvetui.files import atomic_write_text
     from curvetui.reports.sheet import RENDERERS, atomic_write_bytes, sheets_path
 
     fmt = args.format

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 from curvetui.cli.common import console, print_caution, print_json
-from curvetui.tables import rail_limit_sets, road_tables, user_table_dirs
 
 
 def add_parser(sub) -> None:
@@ -13,6 +12,8 @@ def add_parser(sub) -> None:
 
 
 def run(args) -> int:
+    from curvetui.tables import rail_limit_sets, road_tables, user_table_dirs
+
     tables = road_tables()
     rows = [
         {

@@ -1,7 +1,7 @@
 """A bend's calculation written out step by step: formula, substituted values, answer and
 source, so a checker can follow it by hand. Shared by the terminal app and the worksheet.
 
-Pure text from a bend's record (the output of curvetui.bends); no computation of its own
+Pure text from a bend's record (curvetui.bend.record); no computation of its own
 beyond the arithmetic a checker would write beside each line.
 """
 

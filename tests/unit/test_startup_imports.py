@@ -1,0 +1,139 @@
+"""Start-up import boundaries: a command imports only the packages it needs.
+
+`check road --json` and `check rail --json` need numpy and the engine, never pyarrow (batch),
+jsonschema (project files), Textual (the app), Rich (tables on a terminal), scipy (Fresnel
+integrals of a spiral) or fpdf (PDF worksheets). Each case runs `python -m curvetui ...` in a
+fresh interpreter, through ``curvetui/__main__.py``, and reports ``sys.modules`` after the
+command finished. This is a boundary test, not a timing test: timing is in
+``benchmarks/startup.py``.
+
+The controls show the probe sees a lazy import when one happens: a spiral loads scipy, a
+project file loads jsonschema (it is validated against the shipped schema).
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+import curvetui
+
+ROOT = Path(curvetui.__file__).resolve().parents[1]
+PROJECT = ROOT / "projects" / "quillmere-valley-road.json"
+
+# Runs the command as `python -m curvetui ARGS` would, then prints one JSON line with the
+# exit code, the command's own output and the top-level packages that were imported.
+PROBE = """
+import contextlib, io, json, runpy, sys
+args = json.loads(sys.argv[1])
+sys.argv = ["curvetui", *args]
+out = io.StringIO()
+code = None
+with contextlib.redirect_stdout(out):
+    try:
+        runpy.run_module("curvetui", run_name="__main__", alter_sys=True)
+    except SystemExit as exc:
+        code = exc.code
+loaded = sorted({name.split(".")[0] for name in sys.modules})
+ours = sorted(name for name in sys.modules if name.startswith("curvetui."))
+print(json.dumps({"code": code, "out": out.getvalue(), "loaded": loaded, "ours": ours}))
+"""
+
+NEVER_FOR_JSON = ("pyarrow", "jsonschema", "textual", "rich", "scipy", "fpdf")
+# curvetui's own modules that a one-bend check has no use for: the other sub-commands, the
+# batch, project files, the app, worksheets
+NOT_OURS_FOR_CHECK = (
+    "curvetui.cli.batch_cmd",
+    "curvetui.cli.setout_cmd",
+    "curvetui.cli.sheet_cmd",
+    "curvetui.cli.tables_cmd",
+    "curvetui.batch",
+    "curvetui.project",
+    "curvetui.app",
+    "curvetui.reports.sheet",
+)
+
+
+def probe(*args: str) -> dict:
+    env = dict(os.environ, PYTHONPATH=str(ROOT))
+    proc = subprocess.run(
+        [sys.executable, "-c", PROBE, json.dumps(list(args))],
+        capture_output=True,
+        text=True,
+        env=env,
+        cwd=ROOT,
+        check=False,
+        timeout=60,
+    )
+    assert proc.returncode == 0, proc.stderr
+    return json.loads(proc.stdout.strip().splitlines()[-1])
+
+
+@pytest.mark.parametrize(
+    ("args", "needed"),
+    [
+        (("check", "road", "--speed", "100", "--radius", "400", "--emax", "8", "--json"), "road"),
+        (
+            ("check", "rail", "--speed", "120", "--radius", "1000", "--cant", "100", "--json"),
+            "rail",
+        ),
+    ],
+)
+def test_check_json_imports_no_heavy_package(args, needed):
+    result = probe(*args)
+    # the command really ran: exit code 0 and one JSON record of the right kind
+    assert result["code"] == 0
+    record = json.loads(result["out"])
+    assert record["kind"] == needed
+    assert record["status"] == "pass"
+    assert "numpy" in result["loaded"]  # the engine ran (it is numpy throughout)
+    heavy = sorted(set(NEVER_FOR_JSON) & set(result["loaded"]))
+    assert heavy == [], f"`{' '.join(args)}` imported {heavy}"
+    assert f"curvetui.cli.{needed}_cmd" in result["ours"]
+    extra = [m for m in result["ours"] if m.startswith(NOT_OURS_FOR_CHECK)]
+    assert extra == [], f"`{' '.join(args)}` imported {extra}"
+
+
+def test_help_still_lists_every_sub_command(capsys):
+    """Without a sub-command first, the parser is built whole: the help names them all."""
+    from curvetui.cli import main
+
+    with pytest.raises(SystemExit) as stop:
+        main(["--help"])
+    assert stop.value.code == 0
+    text = capsys.readouterr().out
+    # every sub-command, in the order they were always listed
+    assert "{check,tables,setout,open,new,sheet,batch}" in text
+    assert "check every bend of a CSV file" in text  # batch's own help line was built
+
+
+def test_check_road_table_output_uses_rich_but_not_the_others():
+    result = probe("check", "road", "--speed", "100", "--radius", "400", "--emax", "8")
+    assert result["code"] == 0
+    assert "Status: PASS" in result["out"]
+    assert "rich" in result["loaded"]
+    assert not {"pyarrow", "jsonschema", "textual", "scipy"} & set(result["loaded"])
+
+
+def test_control_a_spiral_loads_scipy():
+    result = probe(
+        "check", "road", "--speed", "100", "--radius", "400", "--emax", "8",
+        "--deflection", "40", "--spiral", "70", "--json",
+    )  # fmt: skip
+    assert result["code"] in (0, 1)
+    assert "geometry" in json.loads(result["out"])
+    assert "scipy" in result["loaded"]
+    assert not {"pyarrow", "jsonschema", "textual"} & set(result["loaded"])
+
+
+def test_control_a_project_file_loads_jsonschema():
+    result = probe("check", "--project", str(PROJECT), "--json")
+    assert result["code"] in (0, 1)
+    assert json.loads(result["out"])["bends"]
+    assert "jsonschema" in result["loaded"]
+    assert not {"pyarrow", "textual"} & set(result["loaded"])
