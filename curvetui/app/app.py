@@ -14,7 +14,7 @@ from rich.text import Text
 from textual import on
 from textual.app import App, ComposeResult, SystemCommand
 from textual.binding import Binding
-from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.containers import Horizontal, ScrollableContainer, Vertical, VerticalScroll
 from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Input, Select, Static, TabbedContent, TabPane
 
@@ -85,8 +85,22 @@ class CurveApp(App):
         yield Footer()
 
     def on_mount(self) -> None:
+        self.open_session(self.session)
+
+    def open_session(self, session: Session) -> None:
+        """Show ``session`` from its start: the first bend on the worksheet, the list
+        focused, every view scrolled to its top."""
+        self.session = session
+        self.current = session.project.bends[0] if session.project.bends else None
+        self.last_recompute_ms = 0.0
+        self.query_one("#views", TabbedContent).active = "sheet"
+        self.query_one("#kind", Select).expanded = False
+        for scroll in self.query(ScrollableContainer):
+            scroll.scroll_home(animate=False, immediate=True)
         self.refresh_all()
-        self.query_one(BendList).focus()
+        bends = self.query_one(BendList)
+        bends.scroll_home(animate=False, immediate=True)
+        bends.focus()
         # paint first, then run the engine (its first run imports scipy)
         self.call_after_refresh(self.first_compute)
 

@@ -149,8 +149,9 @@ class Worksheet(Horizontal):
     def show_results(
         self, record: dict | None, error: str | None, units: UnitSystem, stale: bool
     ) -> None:
-        # Skip unchanged content: every update of a Static re-lays the screen out.
-        shown = (error, id(record), stale, units.name)
+        # Skip unchanged content: every update of a Static re-lays the screen out. The record
+        # is compared by value (an id could be reused once the record it named is gone).
+        shown = (error, record, stale, units.name)
         if shown == getattr(self, "_shown", None):
             return
         self._shown = shown
