@@ -275,6 +275,29 @@ def test_switching_to_rail_shows_cant_and_hides_superelevation(demo_path):
     drive(demo_path, steps)
 
 
+def test_a_taken_bend_id_or_a_bad_station_says_why_until_it_is_fixed(demo_path):
+    async def steps(app, pilot):
+        await go_to(app, pilot, "QV-04")
+        await set_box(pilot, app, "bend_id", "QV-01")  # another bend's id
+        assert app.current.id == "QV-04"
+        message = str(app.query_one("#field-error").content)
+        assert message == "bend id: must be 1 to 40 characters and not used by another bend"
+        await set_box(pilot, app, "bend_id", "QV-04b")
+        assert app.current.id == "QV-04b"
+        assert str(app.query_one("#field-error").content) == ""
+        assert list_ids(app)[3] == "QV-04b"
+        await set_box(pilot, app, "station", "2+7x0")
+        message = str(app.query_one("#field-error").content)
+        assert message == "station: must be a station such as 2+710.5 or a number"
+        assert row_cells(app, "QV-04b")[5] == "2+710.0"  # the station kept
+        await set_box(pilot, app, "station", "2+720")
+        assert str(app.query_one("#field-error").content) == ""
+        assert row_cells(app, "QV-04b")[5] == "2+720.0"
+        assert "unsaved" in str(app.query_one("#topbar").content)
+
+    drive(demo_path, steps)
+
+
 # -- saving and quitting --------------------------------------------------------------------------
 
 
