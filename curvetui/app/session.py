@@ -1,13 +1,19 @@
 """The state behind the terminal app, with no Textual in it: the project, its file, the
-last good result of every bend, and the edits a designer makes."""
+last good result of every bend, the bend on screen, and the edits a designer makes.
+
+Every change goes through a method here; each one ends by telling the watchers (``watch``)
+what it touched (a ``Change``), and the app's views redraw themselves from the session.
+"""
 
 from __future__ import annotations
 
 import copy
+from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from curvetui.bend.fields import FIELDS, cli_name
+from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
 from curvetui.project.checking import (
     Context,
@@ -18,6 +24,12 @@ from curvetui.project.checking import (
 )
 from curvetui.project.files import load_project, save_project
 from curvetui.project.model import Bend, Details, Project
+from curvetui.stations import format_station, parse_station
+
+# the worksheet's fields that are not engine inputs
+FORM_FIELDS = ("bend_id", "station", "notes")
+ID_RULE = "bend id: must be 1 to 40 characters and not used by another bend"
+STATION_RULE = "station: must be a station such as 2+710.5 or a number"
 
 
 def field_label(key: str) -> str:
@@ -39,15 +51,37 @@ class BendState:
     record: dict | None = None
     error: str | None = None  # the message for the inputs as typed
     error_field: str | None = None
+    # bend id or station typed but not taken (the bend keeps the old one): field -> why
+    form_errors: dict[str, str] = field(default_factory=dict)
 
 
-@dataclass
+@dataclass(frozen=True)
+class Change:
+    """What the last change of a session touched: ``what`` is 'open', 'computed' (every
+    bend evaluated), 'select' (another bend on screen), 'field' (one field of ``bend``,
+    ``key``), 'kind', 'bends' (added, copied, deleted or moved), 'details' (names, units,
+    tables) or 'saved'."""
+
+    what: str
+    bend: Bend | None = None
+    key: str | None = None
+
+
+@dataclass(eq=False)
 class Session:
     project: Project
     path: Path | None = None
     dirty: bool = False
     notes: list[str] = field(default_factory=list)
     states: dict[int, BendState] = field(default_factory=dict)  # by id() of the Bend
+    current: Bend | None = None  # the bend on screen (the first one to start with)
+    revision: int = 0  # counts the changes
+    change: Change = field(default_factory=lambda: Change("open"))
+    _watchers: list[Callable[[Session], None]] = field(default_factory=list, repr=False)
+
+    def __post_init__(self) -> None:
+        if self.current is None and self.project.bends:
+            self.current = self.project.bends[0]
 
     @classmethod
     def open(cls, path: str | Path, compute: bool = True) -> Session:
@@ -74,11 +108,28 @@ class Session:
         """Evaluate every bend and note any whose stored results differ."""
         self.recompute_all()
         self.notes += stale_results([_Outcome(b, self.state(b).record) for b in self.project.bends])
+        self._changed("computed")
+
+    # -- watchers -----------------------------------------------------------------------
+    def watch(self, watcher: Callable[[Session], None]) -> Callable[[], None]:
+        """Call ``watcher(session)`` after every change; returns the call that stops it."""
+        self._watchers.append(watcher)
+        return lambda: self._watchers.remove(watcher) if watcher in self._watchers else None
+
+    def _changed(self, what: str, bend: Bend | None = None, key: str | None = None) -> None:
+        self.revision += 1
+        self.change = Change(what, bend, key)
+        for watcher in list(self._watchers):
+            watcher(self)
 
     # -- context and evaluation --------------------------------------------------------
     @property
     def context(self) -> Context:
         return project_context(self.project)
+
+    @property
+    def units(self) -> UnitSystem:
+        return unit_system(self.project.details.units)
 
     def state(self, bend: Bend) -> BendState:
         return self.states.setdefault(id(bend), BendState())
@@ -109,29 +160,93 @@ class Session:
         for b in self.project.bends:
             self.recompute(b, ctx)
 
+    # -- the bend on screen ---------------------------------------------------------------
+    def select(self, bend: Bend | None) -> None:
+        """Put ``bend`` on screen (its worksheet is filled from the model again)."""
+        if bend is not self.current:
+            self.current = bend
+            self._clear_form_errors()
+            self._changed("select", bend)
+
+    def _clear_form_errors(self) -> None:
+        for st in self.states.values():
+            st.form_errors.clear()
+
     # -- edits --------------------------------------------------------------------------
     def set_input(self, bend: Bend, key: str, text: str) -> BendState:
         """Set one input from typed text ('' clears it) and recompute."""
-        text = text.strip()
-        if text == "":
+        value = input_value(text)
+        if value is None:
             bend.inputs.pop(key, None)
         else:
-            try:
-                value: float | str = float(text)
-            except ValueError:
-                value = text  # kept as typed, so the engine's message names the field
-            bend.inputs[key] = value
+            bend.inputs[key] = value  # text that is no number is kept as typed: the
+            # engine's message then names the field
         self.dirty = True
-        return self.recompute(bend)
+        st = self.recompute(bend)
+        self._changed("field", bend, key)
+        return st
+
+    def edit_field(self, bend: Bend, key: str, text: str) -> BendState:
+        """One worksheet field as typed: an engine input, the bend id, station or notes."""
+        if key == "bend_id":
+            return self.rename(bend, text)
+        if key == "station":
+            return self.set_station(bend, text)
+        if key == "notes":
+            return self.set_notes(bend, text)
+        return self.set_input(bend, key, text)
+
+    def rename(self, bend: Bend, new_id: str) -> BendState:
+        """A new id (1 to 40 characters, not another bend's); refused: the old one stays."""
+        new_id = new_id.strip()
+        taken = {b.id for b in self.project.bends if b is not bend}
+        st = self.state(bend)
+        if not new_id or new_id in taken or len(new_id) > 40:
+            st.form_errors["bend_id"] = ID_RULE
+        else:
+            st.form_errors.pop("bend_id", None)
+            bend.id = new_id
+            self.dirty = True
+        self._changed("field", bend, "bend_id")
+        return st
+
+    def set_station(self, bend: Bend, text: str) -> BendState:
+        """The PI station from text such as 2+710.5 (blank: 0); refused: the old one stays."""
+        st = self.state(bend)
+        try:
+            bend.station = parse_station(text or "0", self.units.name)
+        except ValueError:
+            st.form_errors["station"] = STATION_RULE
+        else:
+            st.form_errors.pop("station", None)
+            self.dirty = True
+        self._changed("field", bend, "station")
+        return st
+
+    def set_notes(self, bend: Bend, text: str) -> BendState:
+        bend.notes = text
+        self.dirty = True
+        self._changed("field", bend, "notes")
+        return self.state(bend)
 
     def set_kind(self, bend: Bend, kind: str) -> BendState:
         if kind not in ("road", "rail"):
             raise InputError(f"kind: must be 'road' or 'rail', got {kind!r}")
         bend.kind = kind
         self.dirty = True
-        return self.recompute(bend)
+        st = self.recompute(bend)
+        self._changed("kind", bend)
+        return st
+
+    def switch_kind(self, bend: Bend, kind: str) -> BendState:
+        """``set_kind`` as the worksheet's kind box does it: a rail curve without a cant
+        starts with cant 0 (shown in its field, ready to be typed over)."""
+        if kind == "rail" and bend.kind != "rail" and "cant" not in bend.inputs:
+            bend.inputs["cant"] = 0.0
+        return self.set_kind(bend, kind)
 
     def add_bend(self, kind: str = "road", after: Bend | None = None) -> Bend:
+        """A new bend after ``after`` (default: at the end), put on screen."""
         inputs = (
             {"speed": 80.0, "radius": 400.0}
             if kind == "road"
@@ -144,21 +259,36 @@ class Session:
         self.project.bends.insert(pos, bend)
         self.dirty = True
         self.recompute(bend)
+        self._put_on_screen(bend)
         return bend
 
     def duplicate_bend(self, bend: Bend) -> Bend:
+        """A copy of ``bend`` (a new id, no stored results) after it, put on screen."""
         twin = copy.deepcopy(bend)
         twin.id = self.project.new_bend_id()
         twin.results = None
         self.project.bends.insert(self.project.bends.index(bend) + 1, twin)
         self.dirty = True
         self.recompute(twin)
+        self._put_on_screen(twin)
         return twin
 
+    def _put_on_screen(self, bend: Bend) -> None:
+        self.current = bend
+        self._clear_form_errors()
+        self._changed("bends", bend)
+
     def delete_bend(self, bend: Bend) -> None:
-        self.project.bends.remove(bend)
+        """Delete ``bend``; when it was on screen, the one now in its place is."""
+        bends = self.project.bends
+        i = bends.index(bend)
+        bends.remove(bend)
         self.states.pop(id(bend), None)
         self.dirty = True
+        if bend is self.current:
+            self.current = bends[min(i, len(bends) - 1)] if bends else None
+            self._clear_form_errors()
+        self._changed("bends", bend)
 
     def move_bend(self, bend: Bend, step: int) -> None:
         bends = self.project.bends
@@ -167,17 +297,32 @@ class Session:
         if i != j:
             bends.insert(j, bends.pop(i))
             self.dirty = True
+            self._changed("bends", bend)
 
     def set_detail(self, key: str, value: str) -> None:
-        if key == "units" and value not in ("metric", "us"):
-            raise InputError("units: must be 'metric' or 'us'")
-        setattr(
-            self.project.details,
-            key,
-            value or (None if key in ("road_table", "rail_limits") else ""),
-        )
+        """One project detail (the units: 'metric' or 'us'); every bend is recomputed."""
+        problems = self.set_details({key: value})
+        if problems:
+            raise InputError(problems[0])
+
+    def set_details(self, values: Mapping[str, str | None]) -> list[str]:
+        """Project details (as the details dialog gives them), every bend recomputed once;
+        returns the messages of the values refused (the others are taken)."""
+        problems = []
+        for key, value in values.items():
+            if key == "units" and value not in ("metric", "us"):
+                problems.append("units: must be 'metric' or 'us'")
+                continue
+            setattr(
+                self.project.details,
+                key,
+                value or (None if key in ("road_table", "rail_limits") else ""),
+            )
         self.dirty = True
         self.recompute_all()
+        self._clear_form_errors()
+        self._changed("details")
+        return problems
 
     # -- files --------------------------------------------------------------------------
     def save(self, path: str | Path | None = None) -> Path:
@@ -192,6 +337,7 @@ class Session:
         refresh_results(self.project, outcomes)
         save_project(self.project, target)
         self.path, self.dirty = target, False
+        self._changed("saved")
         return target
 
     # -- summary ------------------------------------------------------------------------
@@ -201,6 +347,30 @@ class Session:
         if st.error is not None:
             return "error"
         return st.record["status"] if st.record else "pending"
+
+    def field_text(self, bend: Bend, key: str) -> str:
+        """The text the worksheet shows for a field of the model."""
+        if key == "bend_id":
+            return bend.id
+        if key == "station":
+            return format_station(bend.station, self.units.name)
+        if key == "notes":
+            return bend.notes
+        value = bend.inputs.get(key)
+        if value is None:
+            return ""
+        return f"{value:g}" if isinstance(value, int | float) else str(value)
+
+
+def input_value(text: str) -> float | str | None:
+    """An input as ``set_input`` stores it: None when blank, a number, or the text itself."""
+    text = text.strip()
+    if text == "":
+        return None
+    try:
+        return float(text)
+    except ValueError:
+        return text
 
 
 @dataclass

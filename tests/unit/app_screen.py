@@ -2,6 +2,13 @@
 
 The project they run on is the bundled demo, an invented scenario, copied first; only the
 app's behaviour is under test.
+
+Starting the app (mounting its hundred-odd widgets) costs about as much as a whole test, so
+``drive`` keeps one running app per terminal size and hands it from test to test, put back
+first to what a fresh start shows (``start_afresh``: the test's own copy of the file opened
+anew, no dialog, the worksheet, the list focused, the dark theme);
+``test_app.py::test_a_shared_app_starts_as_a_fresh_one`` checks that. A test that closes the
+app, or fails, leaves the next one a new app.
 """
 
 from __future__ import annotations
@@ -19,6 +26,7 @@ from textual.widgets import Input, TabbedContent
 
 from curvetui import CAUTION
 from curvetui.app.app import CurveApp, build_app
+from curvetui.app.session import Session
 from curvetui.app.widgets.bend_list import BendList
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -39,15 +47,88 @@ def drive(
     size: tuple[int, int] = SMALL,
 ) -> CurveApp:
     """Run the app on ``path`` at ``size`` and let ``steps`` press keys and check."""
-    app = build_app(path)
+    if size not in _SHARED:
+        _SHARED[size] = SharedApp(size)
+    return _SHARED[size].run(path, steps)
 
-    async def run() -> None:
-        async with app.run_test(size=size) as pilot:
+
+class SharedApp:
+    """A running app at one terminal size, handed from test to test."""
+
+    def __init__(self, size: tuple[int, int]):
+        self.size = size
+        self.loop = asyncio.new_event_loop()
+        self.jobs: asyncio.Queue | None = None
+        self.host: asyncio.Task | None = None
+
+    def run(self, path: Path, steps: Callable[[CurveApp, Pilot], Awaitable[None]]) -> CurveApp:
+        if self.host is None or self.host.done():
+            self.jobs = asyncio.Queue()
+            self.host = self.loop.create_task(self._serve(path))
+        done = self.loop.create_future()
+        self.jobs.put_nowait((path, steps, done))
+        self.loop.run_until_complete(
+            asyncio.wait([done, self.host], return_when=asyncio.FIRST_COMPLETED)
+        )
+        if not done.done():  # the app itself broke down
+            self.host.result()
+            raise AssertionError("the app stopped before the test's steps ran")
+        return done.result()
+
+    async def _serve(self, path: Path) -> None:
+        app = build_app(path)
+        last: tuple[asyncio.Future, BaseException | None] | None = None
+        async with app.run_test(size=self.size) as pilot:
             await ready(app, pilot)
-            await steps(app, pilot)
+            theme = app.theme  # as a fresh start has it
+            while True:
+                path, steps, done = await self.jobs.get()
+                if steps is None:
+                    return
+                try:
+                    await start_afresh(app, pilot, path, theme)
+                    await steps(app, pilot)
+                except asyncio.CancelledError:
+                    raise
+                except BaseException as exc:  # a failed check: the next test gets a new app
+                    last = (done, exc)
+                    break
+                if not app.is_running or app.return_code is not None:
+                    # the test closed it, or a handler raised (run_test raises that on leaving)
+                    last = (done, None)
+                    break
+                done.set_result(app)
+        done, exc = last
+        if exc is None:
+            done.set_result(app)
+        else:
+            done.set_exception(exc)
 
-    asyncio.run(run())
-    return app
+    def close(self) -> None:
+        if self.host is not None and not self.host.done():
+            self.jobs.put_nowait((None, None, None))
+            self.loop.run_until_complete(self.host)
+        self.loop.close()
+
+
+_SHARED: dict[tuple[int, int], SharedApp] = {}
+
+
+def close_shared_apps() -> None:
+    """Shut the shared apps down (tests/conftest.py calls this at the end of the session)."""
+    while _SHARED:
+        _SHARED.popitem()[1].close()
+
+
+async def start_afresh(app: CurveApp, pilot: Pilot, path: Path, theme: str) -> None:
+    """Put a running app back to what a fresh start on ``path`` shows."""
+    while len(app.screen_stack) > 1:
+        await app.pop_screen()
+    app.theme = theme
+    app.clear_notifications()
+    app.open_session(Session.open(path))
+    await ready(app, pilot)
+    await pilot.wait_for_scheduled_animations()  # e.g. the tab underline sliding back
 
 
 async def ready(app: CurveApp, pilot: Pilot) -> None:

@@ -25,6 +25,7 @@ from app_screen import (
     go_to,
     list_ids,
     palette_settles,
+    ready,
     region_text,
     retype,
     row_cells,
@@ -42,6 +43,8 @@ from curvetui.app.dialogs.confirm import Confirm
 from curvetui.app.dialogs.details import DetailsDialog
 from curvetui.app.widgets.bend_list import BendList
 from curvetui.inputs import InputError
+
+pytestmark = pytest.mark.app  # starts Textual: `pytest -m "not app"` leaves it out
 
 
 @pytest.fixture
@@ -268,6 +271,29 @@ def test_switching_to_rail_shows_cant_and_hides_superelevation(demo_path):
         assert st.error is None and st.record["kind"] == "rail"
         assert row_cells(app, "QV-03")[4] == "rail"
         assert "rail bend, 80 km/h, R 2500 m" in screen_text(app)
+
+    drive(demo_path, steps)
+
+
+def test_a_taken_bend_id_or_a_bad_station_says_why_until_it_is_fixed(demo_path):
+    async def steps(app, pilot):
+        await go_to(app, pilot, "QV-04")
+        await set_box(pilot, app, "bend_id", "QV-01")  # another bend's id
+        assert app.current.id == "QV-04"
+        message = str(app.query_one("#field-error").content)
+        assert message == "bend id: must be 1 to 40 characters and not used by another bend"
+        await set_box(pilot, app, "bend_id", "QV-04b")
+        assert app.current.id == "QV-04b"
+        assert str(app.query_one("#field-error").content) == ""
+        assert list_ids(app)[3] == "QV-04b"
+        await set_box(pilot, app, "station", "2+7x0")
+        message = str(app.query_one("#field-error").content)
+        assert message == "station: must be a station such as 2+710.5 or a number"
+        assert row_cells(app, "QV-04b")[5] == "2+710.0"  # the station kept
+        await set_box(pilot, app, "station", "2+720")
+        assert str(app.query_one("#field-error").content) == ""
+        assert row_cells(app, "QV-04b")[5] == "2+720.0"
+        assert "unsaved" in str(app.query_one("#topbar").content)
 
     drive(demo_path, steps)
 
@@ -540,6 +566,65 @@ def test_qv04_in_the_plan_chart_and_working_views(demo_path):
         assert "FAIL" not in working_text(app)
 
     drive(demo_path, steps)
+
+
+# -- the tests' own set-up ------------------------------------------------------------------------
+
+
+def start_state(app) -> dict:
+    """What a user sees of an app just started: the screen, the focus, the view, the bend."""
+    return {
+        "screen": screen_text(app),
+        "screens": len(app.screen_stack),
+        "focused": app.focused.id if app.focused else None,
+        "view": app.query_one("#views", TabbedContent).active,
+        "theme": app.theme,
+        "bend": app.current.id,
+        "cursor": app.query_one(BendList).cursor_row,
+        "dirty": app.session.dirty,
+    }
+
+
+def test_a_shared_app_starts_as_a_fresh_one(tmp_path):
+    """``drive`` hands each test a running app put back to its start (app_screen.py): after a
+    test that left a dialog open, another view, the light theme, a bad input and the form
+    scrolled down, the next test sees what a newly started app shows. At 80x24, where the
+    form scrolls (each size has its app, put back the same way)."""
+    size = SMALL
+    paths = []
+    for name in ("fresh", "used", "next"):  # the same file name: the top bar shows it
+        (tmp_path / name).mkdir()
+        paths.append(copy_demo(tmp_path / name))
+    fresh = build_app(paths[0])
+
+    async def run() -> dict:
+        async with fresh.run_test(size=size) as pilot:
+            await ready(fresh, pilot)
+            return start_state(fresh)
+
+    expected = asyncio.run(run())
+    assert expected["focused"] == "bends" and expected["bend"] == "QV-01"
+
+    async def mess(app, pilot):
+        await go_to(app, pilot, "QV-04")
+        await set_box(pilot, app, "speed", "abc")
+        app.query_one("#in-lane_width", Input).focus()  # scrolls the form down at 80x24
+        await pilot.pause()
+        await show_view(app, pilot, "plan")
+        await pilot.press("f6", "f2")
+        await pilot.pause()
+        assert isinstance(app.screen, DetailsDialog)
+        assert start_state(app) != expected
+
+    seen = {}
+
+    async def look(app, pilot):
+        seen.update(start_state(app))
+
+    drive(paths[1], mess, size)
+    drive(paths[2], look, size)
+    assert seen["screen"].splitlines() == expected["screen"].splitlines()
+    assert seen == expected
 
 
 # -- a project the app cannot compute -------------------------------------------------------------

@@ -31,6 +31,8 @@ from curvetui.cli import main
 from curvetui.core.units import unit_system
 from curvetui.tables import rail_limits, road_table
 
+pytestmark = pytest.mark.app  # starts Textual: `pytest -m "not app"` leaves it out
+
 # Invented bends: road and rail rows, some failing, a bad number, a row with too few
 # fields, and a rail row without its cant.
 CSV = (

@@ -338,3 +338,111 @@ def test_open_without_computing_leaves_bends_pending(demo_path):
     s.compute_all()
     assert s.status(bend(s, "QV-04")) == "fail"
     assert s.notes == []
+
+
+# -- the bend on screen, the worksheet's other fields, the views' watchers ----------------------
+
+
+def test_every_change_is_told_to_the_watchers_until_they_stop(session):
+    seen = []
+    stop = session.watch(lambda s: seen.append((s.change.what, s.change.key)))
+    b = bend(session, "QV-04")
+    session.select(b)
+    session.set_input(b, "radius", "260")
+    session.switch_kind(b, "rail")
+    session.move_bend(b, 1)
+    session.set_details({"name": "Quillmere edits (invented)"})
+    session.save()
+    assert seen == [
+        ("select", None),
+        ("field", "radius"),
+        ("kind", None),
+        ("bends", None),
+        ("details", None),
+        ("saved", None),
+    ]
+    assert session.revision >= len(seen)
+    session.select(b)  # already on screen: no change
+    stop()
+    session.set_input(b, "radius", "250")
+    assert len(seen) == 6
+
+
+def test_the_first_bend_is_on_screen_and_new_or_copied_bends_come_on_screen(session):
+    assert session.current is session.project.bends[0]
+    new = session.add_bend("road", after=bend(session, "QV-02"))
+    assert session.current is new
+    twin = session.duplicate_bend(bend(session, "QV-04"))
+    assert session.current is twin
+
+
+def test_deleting_the_bend_on_screen_puts_the_next_one_on_screen(session):
+    b = bend(session, "QV-04")
+    session.select(b)
+    session.delete_bend(b)
+    assert session.current.id == "QV-05"
+    last = session.project.bends[-1]
+    session.select(last)
+    session.delete_bend(last)
+    assert session.current is session.project.bends[-1]
+    other = bend(session, "QV-01")
+    session.delete_bend(other)  # not on screen: the bend on screen stays
+    assert session.current is session.project.bends[-1]
+
+
+def test_a_taken_bend_id_is_refused_with_a_message_and_the_old_id_kept(session):
+    b = bend(session, "QV-04")
+    st = session.rename(b, "QV-01")
+    assert b.id == "QV-04"
+    assert st.form_errors == {"bend_id": "bend id: must be 1 to 40 characters and not used by "
+                                         "another bend"}  # fmt: skip
+    assert session.dirty is False
+    for text in ("", "x" * 41):
+        session.rename(b, text)
+        assert b.id == "QV-04" and "bend_id" in st.form_errors
+    st = session.rename(b, " QV-04a ")
+    assert b.id == "QV-04a" and st.form_errors == {}
+    assert session.dirty is True
+
+
+def test_a_bad_station_is_refused_and_the_message_goes_once_it_is_fixed(session):
+    b = bend(session, "QV-04")
+    session.select(b)
+    before = b.station
+    st = session.set_station(b, "2+7x0")
+    assert b.station == before
+    assert st.form_errors["station"].startswith("station: must be a station such as 2+710.5")
+    st = session.set_station(b, "2+710.5")  # metric stations: 2 x 1000 m + 710.5 m
+    assert b.station == 2710.5
+    assert st.form_errors == {}
+    session.set_station(b, "2+7x0")
+    session.select(bend(session, "QV-01"))  # the worksheet is filled anew: no message left
+    assert st.form_errors == {}
+
+
+def test_switching_to_rail_starts_the_cant_at_zero_and_keeps_a_given_cant(session):
+    b = bend(session, "QV-03")
+    st = session.switch_kind(b, "rail")
+    assert b.kind == "rail" and b.inputs["cant"] == 0.0
+    assert st.error is None and st.record["kind"] == "rail"
+    session.set_input(b, "cant", "60")
+    session.switch_kind(b, "road")
+    session.switch_kind(b, "rail")
+    assert b.inputs["cant"] == 60.0
+
+
+def test_details_with_a_bad_unit_take_the_rest_and_name_the_problem(session):
+    problems = session.set_details({"units": "furlongs", "client": "Hollow Lane Trust"})
+    assert problems == ["units: must be 'metric' or 'us'"]
+    assert session.project.details.units == "metric"
+    assert session.project.details.client == "Hollow Lane Trust"
+
+
+def test_field_text_is_what_the_worksheet_shows(session):
+    b = bend(session, "QV-04")
+    assert session.field_text(b, "bend_id") == "QV-04"
+    assert session.field_text(b, "station") == "2+710.000"
+    assert session.field_text(b, "speed") == "80"
+    assert session.field_text(b, "superelevation") == ""
+    session.set_input(b, "speed", "abc")
+    assert session.field_text(b, "speed") == "abc"

@@ -26,6 +26,8 @@ from app_screen import (
 
 from curvetui.app.app import build_app
 
+pytestmark = pytest.mark.app  # starts Textual: `pytest -m "not app"` leaves it out
+
 SIZES = pytest.mark.parametrize("size", [SMALL, LARGE], ids=["80x24", "120x40"])
 
 

@@ -12,6 +12,7 @@ from __future__ import annotations
 import asyncio
 import math
 
+import pytest
 from textual.app import App, ComposeResult
 from textual.geometry import Region
 
@@ -20,6 +21,8 @@ from curvetui.app.widgets.plan_sketch import NO_GEOMETRY, PlanSketch
 from curvetui.core.units import KMH, METRIC
 from curvetui.reports.pictures import plan_points, rail_chart, road_chart, station_texts
 from curvetui.tables import rail_limits, road_table
+
+pytestmark = pytest.mark.app  # starts Textual: `pytest -m "not app"` leaves it out
 
 
 class Host(App):

@@ -24,25 +24,37 @@ class BendList(DataTable):
         self.cursor_type = "row"
         self.zebra_stripes = True
         self.add_columns("Bend", "Check", "V", "R", "Kind", "Station")
+        self._bends: list[int] = []  # id() of the bends shown, in order
+        self._rows: list[tuple] = []
 
-    def refill(self, session: Session, keep_index: int | None = None) -> None:
-        """Rebuild every row (after adding, deleting or moving bends); the cursor stays put
-        and no highlight message is sent, so the worksheet is not reloaded underneath."""
-        row = self.cursor_row if keep_index is None else keep_index
+    def show_session(self, session: Session) -> None:
+        """Show every bend of the session, the cursor on the bend on screen. Rows are
+        rebuilt when bends were added, deleted or moved, else only changed cells are
+        redrawn; no highlight message is sent, so the worksheet is not reloaded underneath."""
+        bends = session.project.bends
+        rows = [row_cells(session, b) for b in bends]
+        order = [id(b) for b in bends]
         with self.prevent(DataTable.RowHighlighted):
-            self.clear()
-            for b in session.project.bends:
-                self.add_row(*row_cells(session, b))
-            if self.row_count:
-                self.move_cursor(row=max(0, min(row, self.row_count - 1)))
+            if order != self._bends:
+                self.clear()
+                for cells in rows:
+                    self.add_row(*cells)
+            else:
+                for index, (now, before) in enumerate(zip(rows, self._rows, strict=True)):
+                    for col, (cell, old) in enumerate(zip(now, before, strict=True)):
+                        if _key(cell) != _key(old):
+                            self.update_cell_at(Coordinate(index, col), cell)
+            self._bends, self._rows = order, rows
+            current = session.current
+            if current is not None and self.row_count:
+                row = bends.index(current)
+                if row != self.cursor_row:
+                    self.move_cursor(row=row)
 
-    def update_bend(self, session: Session, index: int) -> None:
-        """Refresh one row in place (after an edit to that bend)."""
-        if not 0 <= index < self.row_count:
-            return
-        with self.prevent(DataTable.RowHighlighted):
-            for col, value in enumerate(row_cells(session, session.project.bends[index])):
-                self.update_cell_at(Coordinate(index, col), value)
+
+def _key(cell) -> tuple:
+    """What a cell shows (Rich Text compares its words only, not its style)."""
+    return (str(cell), str(getattr(cell, "style", "")))
 
 
 def row_cells(session: Session, b) -> tuple:

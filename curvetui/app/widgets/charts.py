@@ -16,9 +16,16 @@ from rich.text import Text
 from textual.widget import Widget
 
 from curvetui.app.canvas import BrailleCanvas, log_ticks, nice_ticks, short_number
+from curvetui.app.session import Session
 from curvetui.core.rail import FAIL_EXCESS
 from curvetui.core.units import METRIC, UnitSystem
-from curvetui.reports.pictures import RailChart, RoadChart
+from curvetui.inputs import InputError
+from curvetui.reports.pictures import (
+    RailChart,
+    RoadChart,
+    rail_chart_for_inputs,
+    road_chart_for_inputs,
+)
 
 NO_ROAD = "give a speed and a radius to see the chart"
 NO_RAIL = "give a speed, a radius and a cant to see the chart"
@@ -298,6 +305,7 @@ class _ChartView(Widget):
     }
     """
     EMPTY = ""
+    KIND = ""
 
     def __init__(self, *, name: str | None = None, id: str | None = None, classes=None):
         super().__init__(name=name, id=id, classes=classes)
@@ -321,11 +329,36 @@ class _ChartView(Widget):
         self._bend_failed = bend_failed
         self.refresh()
 
+    def show_session(self, session: Session) -> None:
+        """The chart of the bend on screen when it is of this chart's kind (hidden when
+        not), drawn from its inputs; kept as it is while the bend has no valid result."""
+        bend = session.current
+        if bend is None:
+            return
+        self.display = bend.kind == self.KIND
+        record = session.state(bend).record
+        if not self.display or record is None:
+            return
+        units = session.units
+        try:
+            chart = self.chart_for(bend.inputs, units, session.context)
+        except InputError as exc:
+            self.show(None, units=units, message=str(exc))
+            return
+        self.show(chart, units=units, bend_failed=record["status"] == "fail")
+
+    def chart_for(self, inputs: dict, units: UnitSystem, ctx):
+        raise NotImplementedError
+
 
 class RoadChartView(_ChartView):
     """Superelevation and side friction against radius for the current road bend."""
 
     EMPTY = NO_ROAD
+    KIND = "road"
+
+    def chart_for(self, inputs: dict, units: UnitSystem, ctx) -> RoadChart:
+        return road_chart_for_inputs(inputs, units, ctx.table)
 
     def render(self) -> Text:
         size = self.size
@@ -338,6 +371,10 @@ class RailChartView(_ChartView):
     """Cant against speed for the current rail curve."""
 
     EMPTY = NO_RAIL
+    KIND = "rail"
+
+    def chart_for(self, inputs: dict, units: UnitSystem, ctx) -> RailChart:
+        return rail_chart_for_inputs(inputs, units, ctx.limits)
 
     def render(self) -> Text:
         size = self.size

@@ -13,8 +13,19 @@ from rich.text import Text
 from textual.widget import Widget
 
 from curvetui.app.canvas import BrailleCanvas, nice_step
+from curvetui.app.session import Session
+from curvetui.core.spiral import GeometryError
 from curvetui.core.units import METRIC, UnitSystem
-from curvetui.reports.pictures import ARC, SPIRAL_IN, SPIRAL_OUT, TANGENT, PlanShape
+from curvetui.inputs import InputError
+from curvetui.reports.pictures import (
+    ARC,
+    SPIRAL_IN,
+    SPIRAL_OUT,
+    TANGENT,
+    PlanShape,
+    plan_for_inputs,
+    station_texts,
+)
 
 NO_GEOMETRY = "give a deflection to see the plan"
 
@@ -172,6 +183,30 @@ class PlanSketch(Widget):
         self._stations = dict(stations or {})
         self._units = units
         self.refresh()
+
+    def show_session(self, session: Session) -> None:
+        """The plan of the bend on screen, from its inputs and its last good radius."""
+        bend = session.current
+        if bend is None:
+            self.show(None, "No bend: F3 adds one.")
+            return
+        record = session.state(bend).record
+        if record is None:
+            self.show(None, "no valid inputs yet")
+            return
+        units = session.units
+        radius = units.length_to_si(record["radius"])
+        try:
+            shape = plan_for_inputs(bend.inputs, units, radius, name=lambda k: k)
+        except (InputError, GeometryError) as exc:
+            self.show(None, str(exc))
+            return
+        self.show(
+            shape,
+            "" if shape else NO_GEOMETRY,
+            stations=station_texts(shape, units) if shape else None,
+            units=units,
+        )
 
     def render(self) -> Text:
         size = self.size

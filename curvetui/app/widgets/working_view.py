@@ -6,10 +6,33 @@ from rich.table import Table
 from rich.text import Text
 from textual.widgets import Static
 
-from curvetui.reports.working import Step
+from curvetui.app.session import Session
+from curvetui.inputs import InputError
+from curvetui.reports.working import Step, rail_working, road_working
+
+
+def working_steps(kind: str, record: dict | None, table, limits, units) -> list[Step] | None:
+    """The steps of a bend's record: road working against ``table``, rail against ``limits``."""
+    if record is None:
+        return None
+    if kind == "road":
+        return road_working(record, table, units)
+    return rail_working(record, limits, units)
 
 
 class WorkingView(Static):
+    def show_session(self, session: Session) -> None:
+        """The working of the bend on screen, from its last good record."""
+        bend = session.current
+        record = session.state(bend).record if bend is not None else None
+        try:
+            ctx = session.context
+        except InputError:
+            self.show(None)
+            return
+        kind = bend.kind if bend is not None else "road"
+        self.show(working_steps(kind, record, ctx.table, ctx.limits, session.units))
+
     def show(self, steps: list[Step] | None) -> None:
         if not steps:
             self.update(Text("No working: the bend has no valid result yet.", style="italic"))

@@ -1,5 +1,9 @@
 """The bend worksheet: the inputs in the order a designer thinks, validated as typed, and
-the results beside them. The last good result stays on screen while an input is invalid."""
+the results beside them. The last good result stays on screen while an input is invalid.
+
+In the project it shows the session's bend on screen (``show_session``); a batch row shows
+its cells read-only (``fill``, ``read_only``).
+"""
 
 from __future__ import annotations
 
@@ -11,7 +15,7 @@ from textual.app import ComposeResult
 from textual.containers import Horizontal, VerticalScroll
 from textual.widgets import Input, Label, Select, Static
 
-from curvetui.app.session import field_label
+from curvetui.app.session import FORM_FIELDS, Session, field_label
 from curvetui.bend.fields import input_keys
 from curvetui.bend.messages import message_line
 from curvetui.core.units import UnitSystem
@@ -138,6 +142,10 @@ class Worksheet(Horizontal):
             yield Static("", id="results-body")
 
     def show_fields(self, kind: str, units: UnitSystem) -> None:
+        """The rows of ``kind``'s fields, with their units and hints."""
+        if (kind, units.name) == getattr(self, "_fields", None):
+            return  # every unit label updated would lay the screen out again
+        self._fields = (kind, units.name)
         wanted = set(input_keys(kind))
         for key in ALL_FIELDS:
             self.query_one(f"#row-{key}").display = key in wanted
@@ -147,19 +155,63 @@ class Worksheet(Horizontal):
             self.query_one(f"#in-{key}", Input).placeholder = hint
         self.query_one("#unit-station", Static).update(escape(units.length_label))
 
+    def show_session(self, session: Session) -> None:
+        """The bend on screen: its fields filled from the model when another bend, kind or
+        units comes on screen (not while a field of it is typed in), the invalid field
+        marked, the message for it, and the results."""
+        bend = session.current
+        self.display = bend is not None
+        if bend is None:
+            return
+        units = session.units
+        if bend is not getattr(self, "_bend", None) or session.change.what in (
+            "open",
+            "kind",
+            "details",
+        ):
+            self._bend = bend
+            texts = {key: session.field_text(bend, key) for key in FORM_FIELDS + ALL_FIELDS}
+            self.fill(bend.kind, units, texts)
+        st = session.state(bend)
+        for key in ALL_FIELDS:
+            self.query_one(f"#in-{key}", Input).set_class(st.error_field == key, "-invalid")
+        messages = ([st.error] if st.error else []) + list(st.form_errors.values())
+        self.show_field_error("\n".join(messages))
+        self.show_results(st.record, st.error, units, stale=st.error is not None)
+
+    def fill(self, kind: str, units: UnitSystem, texts: dict[str, str]) -> None:
+        """Put a bend's kind and field texts (by key; absent: blank) in the form."""
+        with self.prevent(Input.Changed, Select.Changed):
+            self.query_one("#kind", Select).value = kind
+            self.show_fields(kind, units)
+            for key in FORM_FIELDS + ALL_FIELDS:
+                box = self.query_one(f"#in-{key}", Input)
+                box.value = texts.get(key, "")
+                box.remove_class("-invalid")
+
+    def read_only(self, hidden: tuple[str, ...] = ()) -> None:
+        """No field can be typed in; the rows of ``hidden`` are left out."""
+        for key in hidden:
+            self.query_one(f"#row-{key}").display = False
+        self.query_one("#form").disabled = True
+
+    def show_field_error(self, message: str) -> None:
+        """The message under the form for the fields as typed ('' for none)."""
+        if message != getattr(self, "_error", ""):
+            self._error = message
+            self.query_one("#field-error", Static).update(
+                Text(message, style="bold") if message else ""
+            )
+
     def show_results(
         self, record: dict | None, error: str | None, units: UnitSystem, stale: bool
     ) -> None:
-        # Skip unchanged content: every update of a Static re-lays the screen out.
-        shown = (error, id(record), stale, units.name)
+        # Skip unchanged content: every update of a Static re-lays the screen out. The record
+        # is compared by value (an id could be reused once the record it named is gone).
+        shown = (error, record, stale, units.name)
         if shown == getattr(self, "_shown", None):
             return
         self._shown = shown
-        if error != getattr(self, "_error", None):
-            self._error = error
-            self.query_one("#field-error", Static).update(
-                Text(error, style="bold") if error else ""
-            )
         # Same number of lines as before: no new layout needed (it costs more than the
         # engine); a record's line count follows its keys and messages.
         lines = (

@@ -1,0 +1,139 @@
+"""The project's screen: its bends on the left, the bend on screen in its views on the right.
+
+The screen watches the session: after every change each view redraws itself from the
+session (``session_changed``), the views of hidden tabs when they are shown (typing stays
+quick). What is typed or chosen here goes to the session's methods, never to the model.
+"""
+
+from __future__ import annotations
+
+import time
+
+from textual import on
+from textual.app import ComposeResult
+from textual.containers import Horizontal, ScrollableContainer, Vertical
+from textual.screen import Screen
+from textual.widgets import DataTable, Footer, Input, Select, Static, TabbedContent
+
+from curvetui.app.session import Session
+from curvetui.app.widgets.bend_list import BendList
+from curvetui.app.widgets.bend_views import bend_views, next_view
+from curvetui.app.widgets.charts import RailChartView, RoadChartView
+from curvetui.app.widgets.frame import ProjectBar, caution_line
+from curvetui.app.widgets.plan_sketch import PlanSketch
+from curvetui.app.widgets.working_view import WorkingView
+from curvetui.app.widgets.worksheet import Worksheet
+
+
+class ProjectScreen(Screen):
+    """Work through an alignment bend by bend."""
+
+    def __init__(self, session: Session):
+        super().__init__()
+        self.session = session
+        self._stop_watching = None
+
+    def compose(self) -> ComposeResult:
+        yield ProjectBar("", id="topbar")
+        with Horizontal(id="main"):
+            with Vertical(id="left"):
+                yield Static("[b]Bends[/] (F3 new, F4 copy, F8 delete)", id="left-title")
+                yield BendList(id="bends")
+            yield from bend_views(pictures=True)
+        yield caution_line()
+        yield Footer()
+
+    def on_mount(self) -> None:
+        self.show(self.session)
+
+    def show(self, session: Session) -> None:
+        """Show ``session`` from its start: the first bend on the worksheet, the list
+        focused, every view scrolled to its top; its changes redrawn from now on."""
+        if self._stop_watching is not None:
+            self._stop_watching()
+        self.session = session
+        self._stop_watching = session.watch(self.session_changed)
+        self.query_one("#views", TabbedContent).active = "sheet"
+        self.query_one("#kind", Select).expanded = False
+        for scroll in self.query(ScrollableContainer):
+            scroll.scroll_home(animate=False, immediate=True)
+        bends = self.query_one(BendList)
+        bends.scroll_home(animate=False, immediate=True)
+        self.session_changed(session)
+        bends.focus()
+        # paint first, then run the engine (its first run imports scipy)
+        self.call_after_refresh(self.first_compute)
+
+    def on_unmount(self) -> None:
+        if self._stop_watching is not None:
+            self._stop_watching()
+
+    def first_compute(self) -> None:
+        session = self.session
+        if not any(session.state(b).record for b in session.project.bends):
+            session.compute_all()
+        for note in session.notes:
+            self.notify(note, severity="warning" if "differ" in note else "information", timeout=8)
+        self.query_one(BendList).focus()
+
+    # -- the views ------------------------------------------------------------------------
+    def session_changed(self, session: Session) -> None:
+        """The one refresh after a change: each view shown redraws itself."""
+        self.query_one(ProjectBar).show_session(session)
+        self.query_one(BendList).show_session(session)
+        self.query_one(Worksheet).show_session(session)
+        self.show_view_content()
+
+    def show_view_content(self) -> None:
+        """Draw the working, plan or chart when its tab is the one shown."""
+        active = self.query_one("#views", TabbedContent).active
+        if active == "working":
+            self.query_one(WorkingView).show_session(self.session)
+        elif active == "plan":
+            self.query_one(PlanSketch).show_session(self.session)
+        elif active == "chart":
+            self.query_one(RoadChartView).show_session(self.session)
+            self.query_one(RailChartView).show_session(self.session)
+
+    def show_view(self, view: str) -> None:
+        self.query_one("#views", TabbedContent).active = view
+
+    def next_view(self) -> None:
+        next_view(self.query_one("#views", TabbedContent))
+
+    def focus_list(self) -> None:
+        self.query_one(BendList).focus()
+
+    @on(TabbedContent.TabActivated, "#views")
+    def view_changed(self, event: TabbedContent.TabActivated) -> None:
+        self.show_view_content()
+
+    # -- what is typed and chosen ------------------------------------------------------------
+    @on(DataTable.RowHighlighted, "#bends")
+    def bend_highlighted(self, event: DataTable.RowHighlighted) -> None:
+        bends = self.session.project.bends
+        if 0 <= event.cursor_row < len(bends):
+            self.session.select(bends[event.cursor_row])
+
+    @on(DataTable.RowSelected, "#bends")
+    def bend_selected(self, event: DataTable.RowSelected) -> None:
+        self.show_view("sheet")
+        self.query_one("#in-speed", Input).focus()
+
+    @on(Input.Changed)
+    def input_changed(self, event: Input.Changed) -> None:
+        bend = self.session.current
+        if bend is None or not event.input.id:
+            return
+        key = event.input.id.removeprefix("in-")
+        if event.value == self.session.field_text(bend, key):
+            return  # the echo of the worksheet filling the box, not an edit
+        started = time.perf_counter()
+        self.session.edit_field(bend, key, event.value)
+        self.app.last_recompute_ms = 1000 * (time.perf_counter() - started)
+
+    @on(Select.Changed, "#kind")
+    def kind_changed(self, event: Select.Changed) -> None:
+        bend = self.session.current
+        if bend is not None and event.value != bend.kind:
+            self.session.switch_kind(bend, str(event.value))

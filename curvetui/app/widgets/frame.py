@@ -1,0 +1,38 @@
+"""The lines round every screen of the app: the top bar and the caution (always shown:
+local road or rail authority standards govern; a qualified engineer checks the results)."""
+
+from __future__ import annotations
+
+from rich.markup import escape
+from rich.text import Text
+from textual.widgets import Static
+
+from curvetui import CAUTION
+from curvetui.app.session import Session
+from curvetui.inputs import InputError
+
+
+def caution_line() -> Static:
+    """The caution, in bold, for the foot of a screen."""
+    return Static(Text(CAUTION, style="bold"), id="caution")
+
+
+class ProjectBar(Static):
+    """The project's name, job number, file, units and tables; 'unsaved' while it is."""
+
+    def show_session(self, session: Session) -> None:
+        d = session.project.details
+        try:
+            ctx = session.context
+            tables = f"road table {ctx.table.name} | rail limits {ctx.limits.name}"
+        except InputError as exc:
+            tables = f"TABLE PROBLEM: {exc}"
+        mark = " | [b reverse] unsaved [/]" if session.dirty else ""
+        name = session.path.name if session.path else "(no file)"
+        text = (
+            f"[b]{escape(d.name)}[/] {escape(d.job_number)} | {escape(name)} | {d.units} | "
+            f"{escape(tables)}{mark}"
+        )
+        if text != getattr(self, "_text", None):  # every update lays the screen out again
+            self._text = text
+            self.update(text)
