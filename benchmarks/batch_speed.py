@@ -322,18 +322,18 @@ def per_row_loop(src: Path, out: Path, limit: int) -> tuple[float, int, list[str
             except InputError as exc:
                 record = {"status": "error", "messages": [str(exc)]}
             flat = dict(row)
-            for out_name, column in zip(result_names, cols.RESULT_NAMES, strict=True):
+            for out_name, column in zip(result_names, cols.result_names(names), strict=True):
                 part, _, key = column.partition(".")
                 value = record.get(part, {}).get(key) if key else record.get(column)
                 flat[out_name] = "" if value is None else value
-            flat[result_names[cols.RESULT_NAMES.index("row")]] = number
+            flat[result_names[cols.result_names(names).index("row")]] = number
             # the batch has no transition.messages column: its notes join the messages
             # (its failures are already there, folded in by evaluate_bend)
             notes = record.get("transition", {}).get("messages", [])
             messages = record["messages"] + [
                 f"transition: {m}" for m in notes if not m.startswith("FAIL")
             ]
-            flat[result_names[cols.RESULT_NAMES.index("messages")]] = "; ".join(messages)
+            flat[result_names[cols.result_names(names).index("messages")]] = "; ".join(messages)
             writer.writerow(flat)
             statuses.append(record["status"])
             if limit and len(statuses) >= limit:

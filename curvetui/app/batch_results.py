@@ -196,7 +196,8 @@ class RowKeeper:
         self.limit = limit
         self.kept: dict[str, list[ResultRow]] = {s: [] for s in STATUSES}
         width = len(source.header.names)
-        self._at = {name: width + i for i, name in enumerate(cols.RESULT_NAMES)}
+        names = cols.result_names(list(source.header.names))
+        self._at = {name: width + i for i, name in enumerate(names)}
 
     def __call__(self, table: pa.Table) -> None:
         if table.num_rows == 0:

@@ -20,7 +20,7 @@ from curvetui.bend import outputs as out
 from curvetui.bend.evaluate import ERROR, FAIL, PASS, STATUS_NAMES  # noqa: F401 (re-exported)
 from curvetui.bend.fields import BY_KEY, STATION
 from curvetui.bend.messages import message_parts
-from curvetui.bend.parse import Column, to_number
+from curvetui.bend.parse import Column, Kinds, to_number
 from curvetui.bend.service import check_columns
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
@@ -106,6 +106,8 @@ class _Messages:
 
 
 def _rounded(key: str, values: np.ndarray) -> np.ndarray:
+    if np.isnan(values).all():  # a column no row of this chunk has (rail in a road chunk)
+        return values
     rule = out.BY_KEY[key].rounding
     if rule == out.PLACES:
         return round_places(values)
@@ -123,7 +125,13 @@ def evaluate_chunk(
         key = cols.FIELD_OF_COLUMN.get(name)
         if key is not None and key not in columns:
             columns[key] = _column(array, n, key, ctx)
-    kinds = pc.fill_null(cells["kind"], "").to_numpy(zero_copy_only=False).astype(str)
+    kind_cells = cells["kind"]
+    kind_text = pc.utf8_lower(pc.utf8_trim_whitespace(kind_cells))
+    kinds = Kinds(
+        pc.equal(kind_text, "road").to_numpy(zero_copy_only=False).astype(bool),
+        pc.equal(kind_text, "rail").to_numpy(zero_copy_only=False).astype(bool),
+        lambda i: kind_cells[i].as_py() or "",
+    )
     ev = check_columns(kinds, columns, ctx.units, ctx.table, ctx.limits)
 
     result: dict[str, pa.Array] = {}

@@ -10,7 +10,7 @@ with the prefix ``check.``.
 from __future__ import annotations
 
 from curvetui.bend.fields import column_names
-from curvetui.bend.outputs import OUTPUTS
+from curvetui.bend.outputs import OUTPUTS, SPIRAL_OUT, STATIONS
 from curvetui.bend.outputs import TEXT as TEXT_OUTPUT
 
 FIELD_OF_COLUMN = column_names()  # column name (lower case) -> field key
@@ -32,9 +32,33 @@ RESULTS: tuple[tuple[str, str], ...] = (
 RESULT_NAMES = tuple(name for name, _ in RESULTS)
 assert len(set(RESULT_NAMES)) == len(RESULT_NAMES)
 
+# result columns written only when the file has the input they need
+_NEEDS = (
+    ("geometry.", "deflection"),
+    ("sight.", "obstruction_offset"),
+    *((f"geometry.{k}", "pi_station") for k in STATIONS),
+    *((f"geometry.{k}", "spiral_out") for k in (*SPIRAL_OUT, "spiral_angle_out")),
+)
+
+
+def results_for(input_names: list[str]) -> tuple[tuple[str, str], ...]:
+    """The result columns (name, type) a file with these headers gets: geometry only with a
+    deflection column, stations only with a PI station, the outgoing spiral's keys only with
+    a spiral_out column, sight only with an obstruction offset."""
+    given = {FIELD_OF_COLUMN.get(n.strip().lower()) for n in input_names}
+    return tuple(
+        (name, kind)
+        for name, kind in RESULTS
+        if not any(name.startswith(prefix) and need not in given for prefix, need in _NEEDS)
+    )
+
+
+def result_names(input_names: list[str]) -> tuple[str, ...]:
+    return tuple(name for name, _ in results_for(input_names))
+
 
 def output_names(input_names: list[str]) -> list[str]:
     """Result column names as written after ``input_names``: ``check.`` before any that an
     input column already uses (compared without case)."""
     taken = {n.strip().lower() for n in input_names}
-    return [f"check.{n}" if n in taken else n for n in RESULT_NAMES]
+    return [f"check.{n}" if n in taken else n for n in result_names(input_names)]

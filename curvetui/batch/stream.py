@@ -170,7 +170,8 @@ def _schema(header: Header) -> pa.Schema:
     out_names = cols.output_names(list(header.names))
     fields = [pa.field(name, pa.string()) for name in header.names]
     fields += [
-        pa.field(name, types[kind]) for name, (_, kind) in zip(out_names, cols.RESULTS, strict=True)
+        pa.field(name, types[kind])
+        for name, (_, kind) in zip(out_names, cols.results_for(list(header.names)), strict=True)
     ]
     return pa.schema(fields)
 
@@ -430,7 +431,7 @@ def _process(job: _Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> _Part:
         cells = {key: batch.column(pos) for key, pos in header.known.items()}
         result = evaluate_chunk(cells, rows, job.ctx)
         arrays = [batch.column(i) for i in range(width)]
-        arrays += [result.columns[name] for name in cols.RESULT_NAMES]
+        arrays += [result.columns[name] for name in cols.result_names(list(header.names))]
         tables.append(pa.Table.from_arrays(arrays, schema=schema))
         _tally(part, result, rows, batch, id_pos)
     if bad:
@@ -442,7 +443,8 @@ def _process(job: _Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> _Part:
         tbl = tables[0]
     else:
         tbl = pa.concat_tables(tables)
-        tbl = tbl.take(pc.sort_indices(tbl.column(width + cols.RESULT_NAMES.index("row"))))
+        row_at = width + cols.result_names(list(header.names)).index("row")
+        tbl = tbl.take(pc.sort_indices(tbl.column(row_at)))
     if job.want_bytes:
         options = pcsv.WriteOptions(
             include_header=False, delimiter=header.delimiter, quoting_style="needed"

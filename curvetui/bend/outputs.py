@@ -96,7 +96,7 @@ OUTPUTS: tuple[Output, ...] = (
     *(_o(f"transition.{k}", (ROAD,)) for k in ROAD_TRANSITION),
     *(_o(f"transition.{k}", (RAIL,)) for k in RAIL_TRANSITION),
     _o("geometry.type", rounding=TEXT),
-    _o("geometry.deflection", rounding=ANGLE),
+    _o("geometry.deflection", rounding=ANGLE, echo=True),
     _o("geometry.spiral_angle", rounding=ANGLE),
     *(_o(f"geometry.{k}", rounding=PLACES) for k in dict.fromkeys((*CIRCULAR, *SPIRAL))),
     _o("geometry.spiral_angle_out", rounding=ANGLE),

@@ -115,10 +115,20 @@ class Parsed:
         return out
 
 
-def kind_codes(kinds: Sequence[str] | np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Masks of the rows whose kind is road and rail (any case, blanks trimmed)."""
-    k = np.char.lower(np.char.strip(np.asarray(kinds, dtype=str)))
-    return k == ROAD, k == RAIL
+@dataclass
+class Kinds:
+    """The kind of each row: masks of road and rail rows, and ``text(i)`` as given."""
+
+    is_road: np.ndarray
+    is_rail: np.ndarray
+    text: Callable[[int], str]
+
+    @classmethod
+    def of(cls, kinds: Sequence[str] | np.ndarray) -> Kinds:
+        """From text (any case, blanks trimmed)."""
+        raw = np.asarray(kinds, dtype=str)
+        k = np.char.lower(np.char.strip(raw))
+        return cls(k == ROAD, k == RAIL, lambda i: str(raw[i]))
 
 
 def _dynamic_range(f: Field, kind: str, units: UnitSystem, table: RoadTable, cols, n):
@@ -131,19 +141,19 @@ def _dynamic_range(f: Field, kind: str, units: UnitSystem, table: RoadTable, col
 
 
 def parse(
-    kinds: Sequence[str] | np.ndarray,
+    kinds: Sequence[str] | np.ndarray | Kinds,
     columns: Mapping[str, Column],
     units: UnitSystem,
     table: RoadTable,
 ) -> Parsed:
     """Check every field of n bends against its range; the field list says which."""
-    is_road, is_rail = kind_codes(kinds)
+    kinds = kinds if isinstance(kinds, Kinds) else Kinds.of(kinds)
+    is_road, is_rail = kinds.is_road, kinds.is_rail
     n = len(is_road)
     cols = {f.key: columns.get(f.key) or Column.absent(n) for f in FIELDS}
     issues: list[Issue] = []
-    raw_kinds = np.asarray(kinds, dtype=str)
     for i in np.nonzero(~is_road & ~is_rail)[0]:
-        raw = str(raw_kinds[i]).strip()
+        raw = kinds.text(int(i)).strip()
         why = (
             "required ('road' or 'rail')"
             if raw == ""

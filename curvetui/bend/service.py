@@ -14,7 +14,7 @@ import numpy as np
 
 from curvetui.bend.evaluate import Context, Evaluation, evaluate
 from curvetui.bend.fields import BY_KEY, FIELDS, STATION, cli_name
-from curvetui.bend.parse import Column, Parsed, parse
+from curvetui.bend.parse import Column, Kinds, Parsed, parse
 from curvetui.bend.record import BendRecord, record_at
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
@@ -39,7 +39,7 @@ def columns_from_values(values: Mapping[str, Sequence], units: UnitSystem) -> di
 
 
 def check_columns(
-    kinds: Sequence[str] | np.ndarray,
+    kinds: Sequence[str] | np.ndarray | Kinds,
     columns: Mapping[str, Column],
     units: UnitSystem,
     table: RoadTable,
