@@ -17,7 +17,14 @@ import pyarrow as pa
 import pyarrow.compute as pc
 
 from curvetui.batch import columns as cols
-from curvetui.batch.stream import HEAD_BYTES, BatchFileError, Header, Summary, read_header
+from curvetui.batch.stream import (
+    HEAD_BYTES,
+    MESSAGE_ITEMS,
+    BatchFileError,
+    Header,
+    Summary,
+    read_header,
+)
 from curvetui.bend.service import evaluate_bend
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
@@ -99,20 +106,23 @@ class ResultRow:
     kind: str
     cells: dict[str, str]  # known input column (lower case) -> cell text as read
     values: dict[str, float | None]  # RESULT_KEYS -> value (None where blank)
-    messages: str
+    messages: str  # the CSV cell, joined: searched by the filter, never split
+    items: tuple[tuple[str, str], ...] = ()  # (severity, line) of each message, in order
     decimal_comma: bool = False  # the file writes 12,5 for 12.5 (semicolon-separated)
     _search: str = field(default="", repr=False)
 
     @property
     def message_list(self) -> list[str]:
-        return [m for m in self.messages.split("; ") if m]
+        return [line for _, line in self.items]
 
     @property
     def first_message(self) -> str:
-        msgs = self.message_list
+        """The first failure's line on a failing row, else the first line."""
         if self.status == "fail":
-            return next((m for m in msgs if "FAIL" in m), msgs[0] if msgs else "")
-        return msgs[0] if msgs else ""
+            fails = [line for sev, line in self.items if sev == "fail"]
+            if fails:
+                return fails[0]
+        return self.items[0][1] if self.items else ""
 
     def matches(self, text: str) -> bool:
         """Filter text found (any case) in the id, the status or the messages."""
@@ -224,6 +234,12 @@ class RowKeeper:
         rows = part.column(self._at["row"]).to_pylist()
         status = part.column(self._at["status"]).to_pylist()
         messages = part.column(self._at["messages"]).to_pylist()
+        names = part.column_names
+        items = (
+            part.column(MESSAGE_ITEMS).to_pylist()
+            if MESSAGE_ITEMS in names
+            else [[] for _ in range(part.num_rows)]
+        )
         out = []
         for i in range(part.num_rows):
             row_cells = {key: (cells[key][i] or "") for key in known}
@@ -237,6 +253,7 @@ class RowKeeper:
                     cells=row_cells,
                     values={key: values[key][i] for key in RESULT_KEYS},
                     messages=messages[i] or "",
+                    items=tuple((m["severity"], m["line"]) for m in items[i] or ()),
                     decimal_comma=self.source.decimal_comma,
                 )
             )

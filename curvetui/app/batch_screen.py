@@ -223,11 +223,11 @@ class BatchScreen(Screen):
             f" {word} ",
             style="bold reverse " + {"fail": "red", "error": "magenta"}.get(r.status, "green"),
         )
-        msgs = r.message_list
+        msgs = r.items
         if not msgs:
             text.append("  no messages")
-        for m in msgs[:DETAIL_MESSAGES]:
-            style = "red" if "FAIL" in m else ("magenta" if m.startswith("ERROR") else "")
+        for severity, m in msgs[:DETAIL_MESSAGES]:
+            style = {"fail": "red", "error": "magenta"}.get(severity, "")
             text.append("\n" + m, style=style)
         if len(msgs) > DETAIL_MESSAGES:
             text.append(

@@ -45,14 +45,44 @@ class BatchContext:
         return self.headers.get(key, key)
 
 
+MESSAGE_ITEM = pa.struct([("severity", pa.string()), ("line", pa.string())])
+
+
 @dataclass
 class ChunkResult:
-    """Result columns of one chunk (pyarrow arrays by result name) and per-row summaries."""
+    """Result columns of one chunk (pyarrow arrays by result name) and per-row summaries;
+    ``items`` holds each row's messages as a list of (severity, line), for readers that
+    want them one by one (the app) rather than joined in the CSV cell."""
 
     columns: dict[str, pa.Array]
     status: np.ndarray  # PASS, FAIL or ERROR per row
     utilisation: np.ndarray  # largest demand / limit of the main check; NaN for errors
     is_rail: np.ndarray
+    items: pa.Array | None = None
+
+
+def _items(n: int, pieces: list[tuple[np.ndarray, str, list[str] | str]]) -> pa.Array:
+    """Per-row lists of (severity, line) from (rows, severity, texts) pieces, in piece order."""
+    if not pieces:
+        return pa.array([[] for _ in range(n)], pa.list_(MESSAGE_ITEM))
+    rows = np.concatenate([p[0] for p in pieces])
+    order_in = np.concatenate([np.full(len(p[0]), k) for k, p in enumerate(pieces)])
+    sev = np.concatenate([np.full(len(p[0]), p[1], dtype=object) for p in pieces])
+    text = np.concatenate(
+        [
+            np.full(len(p[0]), p[2], dtype=object)
+            if isinstance(p[2], str)
+            else np.asarray(p[2], dtype=object)
+            for p in pieces
+        ]
+    )
+    order = np.lexsort((order_in, rows))
+    offsets = np.concatenate([[0], np.cumsum(np.bincount(rows, minlength=n))]).astype(np.int32)
+    values = pa.StructArray.from_arrays(
+        [pa.array(sev[order], pa.string()), pa.array(text[order], pa.string())],
+        fields=list(MESSAGE_ITEM),
+    )
+    return pa.ListArray.from_arrays(pa.array(offsets), values)
 
 
 def _column(cells: pa.Array | None, n: int, key: str, ctx: BatchContext) -> Column:
@@ -114,8 +144,20 @@ def _rounded(key: str, values: np.ndarray) -> np.ndarray:
     return round_significant(values, 9 if rule == out.ANGLE else 6)
 
 
+def _without(piece, mask: np.ndarray):
+    """A message piece less the rows of ``mask``."""
+    rows, severity, texts = piece
+    keep = ~mask[rows]
+    if not isinstance(texts, str):
+        texts = list(np.asarray(texts, dtype=object)[keep])
+    return rows[keep], severity, texts
+
+
 def evaluate_chunk(
-    cells: Mapping[str, pa.Array], row_numbers: np.ndarray, ctx: BatchContext
+    cells: Mapping[str, pa.Array],
+    row_numbers: np.ndarray,
+    ctx: BatchContext,
+    items: bool = False,
 ) -> ChunkResult:
     """Check one chunk. ``cells`` maps known column names (lower case) to text columns;
     ``row_numbers`` are the rows as a spreadsheet numbers them (the header is row 1)."""
@@ -138,8 +180,13 @@ def evaluate_chunk(
     known = ev.status != ERROR
     for name in ("units", "table", "limits"):
         text = {"units": ctx.units.name, "table": ctx.table.name, "limits": ctx.limits.name}[name]
-        applies = known & (ev.parsed.is_rail if name == "limits" else
-                           ev.parsed.is_road if name == "table" else True)
+        applies = known & (
+            ev.parsed.is_rail
+            if name == "limits"
+            else ev.parsed.is_road
+            if name == "table"
+            else True
+        )
         result[name] = pc.if_else(pa.array(applies), text, pa.scalar(None, pa.string()))
     for name, _kind in cols.RESULTS:
         if name in ev.values:
@@ -152,30 +199,43 @@ def evaluate_chunk(
         return f"column {ctx.column(key)}"
 
     messages = _Messages(n)
+    pieces: list[tuple[np.ndarray, str, list[str] | str]] = []
     for part in message_parts(ev, column_name):
         prefix = f"{part.rule.part}: " if part.rule.part else ""
         word = {"fail": "FAIL", "warning": "WARNING", "note": "NOTE"}[part.rule.severity]
         if isinstance(part.texts, str):
-            messages.add(part.rows, f"{prefix}{word} {part.texts}")
+            lines: list[str] | str = f"{prefix}{word} {part.texts}"
         else:
-            messages.add(part.rows, [f"{prefix}{word} {t}" for t in part.texts])
+            lines = [f"{prefix}{word} {t}" for t in part.texts]
+        messages.add(part.rows, lines)
+        pieces.append((part.rows, part.rule.severity, lines))
     joined = messages.array()
     if ev.issues:
         by_row: dict[int, list[str]] = {}
         for issue in ev.issues:
             row = int(row_numbers[issue.row])
             by_row.setdefault(issue.row, []).append(
-                issue.format(lambda k, r=row: f"ERROR row {r}, column {ctx.column(k)}",
-                             column_name)
+                issue.format(lambda k, r=row: f"ERROR row {r}, column {ctx.column(k)}", column_name)
             )
         rows = np.array(sorted(by_row), dtype=np.int64)
         mask = np.zeros(n, dtype=bool)
         mask[rows] = True
         texts = pa.array(["; ".join(by_row[int(i)]) for i in rows], pa.string())
         joined = pc.replace_with_mask(joined, pa.array(mask), texts)
+        # an error row lists its input problems only
+        pieces = [
+            (r[~mask[r]], s, t if isinstance(t, str) else list(np.asarray(t, object)[~mask[r]]))
+            for r, s, t in pieces
+        ]
+        for i in rows:
+            pieces.append((np.full(len(by_row[int(i)]), i), "error", by_row[int(i)]))
     result["row"] = pa.array(np.asarray(row_numbers, dtype=np.int64))
     result["status"] = pc.take(pa.array(STATUS_NAMES), pa.array(ev.status.astype(np.int32)))
     result["messages"] = joined
     return ChunkResult(
-        columns=result, status=ev.status, utilisation=ev.utilisation(), is_rail=ev.parsed.is_rail
+        columns=result,
+        status=ev.status,
+        utilisation=ev.utilisation(),
+        is_rail=ev.parsed.is_rail,
+        items=_items(n, pieces) if items else None,
     )

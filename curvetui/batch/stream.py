@@ -28,10 +28,19 @@ import pyarrow.compute as pc
 import pyarrow.csv as pcsv
 
 from curvetui.batch import columns as cols
-from curvetui.batch.chunk import ERROR, FAIL, PASS, BatchContext, evaluate_chunk
+from curvetui.batch.chunk import (
+    ERROR,
+    FAIL,
+    MESSAGE_ITEM,
+    PASS,
+    BatchContext,
+    evaluate_chunk,
+)
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem
+
+MESSAGE_ITEMS = "__messages__"  # the extra column ``on_table`` readers get (never written)
 
 HEAD_BYTES = 1 << 16
 # bytes per parsed block: about 15 000 rows of a typical file; two chunks in flight on two
@@ -429,13 +438,26 @@ def _process(job: _Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> _Part:
     tables = []
     if batch.num_rows:
         cells = {key: batch.column(pos) for key, pos in header.known.items()}
-        result = evaluate_chunk(cells, rows, job.ctx)
+        result = evaluate_chunk(cells, rows, job.ctx, items=not job.want_bytes)
         arrays = [batch.column(i) for i in range(width)]
         arrays += [result.columns[name] for name in cols.result_names(list(header.names))]
-        tables.append(pa.Table.from_arrays(arrays, schema=schema))
+        tbl = pa.Table.from_arrays(arrays, schema=schema)
+        if not job.want_bytes:  # the reader gets each row's messages as a list too
+            tbl = tbl.append_column(MESSAGE_ITEMS, result.items)
+        tables.append(tbl)
         _tally(part, result, rows, batch, id_pos)
     if bad:
-        tables.append(_bad_rows_table(bad, header, schema))
+        bad_table = _bad_rows_table(bad, header, schema)
+        if not job.want_bytes:
+            at = width + cols.result_names(list(header.names)).index("messages")
+            lines = bad_table.column(at).to_pylist()
+            bad_table = bad_table.append_column(
+                MESSAGE_ITEMS,
+                pa.array(
+                    [[{"severity": "error", "line": m}] for m in lines], pa.list_(MESSAGE_ITEM)
+                ),
+            )
+        tables.append(bad_table)
         _tally_bad(part, bad, header)
     if not tables:
         tbl = schema.empty_table()
