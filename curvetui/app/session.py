@@ -12,7 +12,7 @@ from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from curvetui.bend.fields import FIELDS, cli_name
+from curvetui.bend.fields import BY_KEY, FIELDS, cli_name
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
 from curvetui.project.checking import (
@@ -33,15 +33,9 @@ STATION_RULE = "station: must be a station such as 2+710.5 or a number"
 
 
 def field_label(key: str) -> str:
-    """A field's name as shown in the app (the project-file key in words)."""
-    names = {
-        "emax": "e max",
-        "pi_station": "PI station",
-        "spiral_in": "spiral in",
-        "spiral_out": "spiral out",
-        "low_speed": "slow train speed",
-    }
-    return names.get(key, key.replace("_", " "))
+    """A field's name as shown in the app's form (its short label in the field list)."""
+    field = BY_KEY.get(key)
+    return field.short_label if field else key.replace("_", " ")
 
 
 @dataclass

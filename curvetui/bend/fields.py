@@ -54,6 +54,16 @@ class Field:
     option: str = ""
     aliases: tuple[str, ...] = ()
     default: str = ""
+    short: str = ""  # the label of a narrow form (the app): the key in words unless given
+    hint: str = ""  # the form's hint: "blank: <default>" unless given
+
+    @property
+    def short_label(self) -> str:
+        return self.short or self.key.replace("_", " ")
+
+    @property
+    def form_hint(self) -> str:
+        return self.hint or (f"blank: {self.default}" if self.default else "")
 
     @property
     def cli_option(self) -> str:
@@ -123,6 +133,8 @@ FIELDS: tuple[Field, ...] = (
         (RAIL,),
         "speed of the slowest train, for cant excess (0 up to the fast speed)",
         {},
+        short="slow train speed",
+        hint="for cant excess",
     ),
     _f(
         "radius",
@@ -150,6 +162,8 @@ FIELDS: tuple[Field, ...] = (
         "station of the PI (2+710.5 or 2710.5; default 0)",
         {ROAD: (-1e7, 1e7), RAIL: (-1e7, 1e7)},
         default="0",
+        short="PI station",
+        hint="e.g. 2+710",
     ),
     _f(
         "superelevation",
@@ -167,7 +181,8 @@ FIELDS: tuple[Field, ...] = (
         (ROAD,),
         "maximum superelevation, percent (default: the table's)",
         {},
-        default="table's",
+        default="table default",
+        short="e max",
     ),
     _f(
         "friction",
@@ -176,7 +191,7 @@ FIELDS: tuple[Field, ...] = (
         (ROAD,),
         "side friction factor to use instead of the table's f_max",
         {ROAD: (0.01, 1.0)},
-        default="table's f_max",
+        default="table f_max",
     ),
     _f(
         "cant",
@@ -194,7 +209,7 @@ FIELDS: tuple[Field, ...] = (
         (RAIL,),
         "track gauge in mm, for another gauge's rail centres (default: the limits')",
         {RAIL: (600.0, 1700.0)},
-        default="limits'",
+        default="limits' gauge",
     ),
     _f(
         "spiral_in",
@@ -206,6 +221,7 @@ FIELDS: tuple[Field, ...] = (
         option="--spiral",
         aliases=("spiral",),
         default="none",
+        short="spiral in",
     ),
     _f(
         "spiral_out",
@@ -225,6 +241,7 @@ FIELDS: tuple[Field, ...] = (
         {ROAD: (0.0, 200.0)},
         lo_open=True,
         default="no sight check",
+        hint="sight clearance",
     ),
     _f(
         "grade",
@@ -235,6 +252,7 @@ FIELDS: tuple[Field, ...] = (
         {ROAD: (-15.0, 15.0)},
         needs="obstruction_offset",
         default="0",
+        hint="+ up / - down",
     ),
     _f(
         "lane_width",

@@ -139,14 +139,16 @@ def test_string_where_a_number_is_expected():
 def test_string_where_a_number_is_expected_names_the_range():
     d = demo_data()
     d["bends"][0]["inputs"]["speed"] = "fast"
-    assert "greater than 0 to 400" in only_problem(d, "$.bends[0].inputs.speed")
+    # the widest speed range of the field list: road and rail, km/h and mph
+    assert "from 1 to 400" in only_problem(d, "$.bends[0].inputs.speed")
 
 
 def test_number_out_of_range_names_path_and_range():
     d = demo_data()
     d["bends"][1]["inputs"]["radius"] = -5
     msg = only_problem(d, "$.bends[1].inputs.radius")
-    assert "greater than 0" in msg and "330000" in msg and "-5" in msg
+    # the widest radius range of the field list: 1 m to 100 km, in feet 328084
+    assert "from 1 to 328084" in msg and "-5" in msg
 
 
 def test_number_above_an_inclusive_maximum_names_the_range():
@@ -301,7 +303,7 @@ def test_cli_corrupted_file_shows_no_traceback(tmp_path):
     )
     assert run.returncode == 2, run.stderr
     assert "Traceback" not in run.stderr
-    assert "$.bends[1].inputs.radius" in run.stderr and "greater than 0" in run.stderr
+    assert "$.bends[1].inputs.radius" in run.stderr and "from 1 to 328084" in run.stderr
 
 
 # -- 3. files that are not projects at all -------------------------------------------------
@@ -519,3 +521,15 @@ def test_unknown_road_table_in_a_project_is_exit_2(demo_copy, capsys):
     assert main(["check", "--project", str(demo_copy)]) == 2
     err = capsys.readouterr().err
     assert "$.details.road_table" in err and "fennick-shire-1999" in err
+
+
+def test_shipped_schema_inputs_are_made_from_the_field_list():
+    # one declaration of the inputs: the schema file's inputs equal what the field list
+    # makes (rewrite with `python -m curvetui.project.schema` after changing a field)
+    from curvetui.project.files import project_schema
+    from curvetui.project.schema import inputs_schema, rail_required
+
+    schema = project_schema()
+    assert schema["$defs"]["inputs"] == inputs_schema()
+    then = schema["$defs"]["bend"]["allOf"][0]["then"]["properties"]["inputs"]
+    assert then["required"] == rail_required() == ["speed", "radius", "cant"]

@@ -16,58 +16,18 @@ from textual.containers import Horizontal, VerticalScroll
 from textual.widgets import Input, Label, Select, Static
 
 from curvetui.app.session import FORM_FIELDS, Session, field_label
-from curvetui.bend.fields import input_keys
+from curvetui.bend.fields import FIELDS, input_keys
 from curvetui.bend.messages import message_line
 from curvetui.core.units import UnitSystem
 from curvetui.results import RAIL_FIELDS, ROAD_FIELDS, unit_label
 
-# Every input either kind can have, in one order that reads well for both.
-ALL_FIELDS = (
-    "speed",
-    "low_speed",
-    "radius",
-    "deflection",
-    "pi_station",
-    "superelevation",
-    "emax",
-    "friction",
-    "cant",
-    "gauge",
-    "spiral_in",
-    "spiral_out",
-    "obstruction_offset",
-    "grade",
-    "lane_width",
-)
+# Every input either kind can have, in the field list's order (curvetui.bend.fields).
+ALL_FIELDS = tuple(f.key for f in FIELDS)
 UNIT_KIND = {
-    "speed": "speed",
-    "low_speed": "speed",
-    "radius": "length",
-    "deflection": "deg",
-    "pi_station": "length",
-    "superelevation": "%",
-    "emax": "%",
-    "friction": "",
-    "cant": "cant",
-    "gauge": "mm",
-    "spiral_in": "length",
-    "spiral_out": "length",
-    "obstruction_offset": "length",
-    "grade": "%",
-    "lane_width": "length",
+    f.key: {"degrees": "deg", "percent": "%", "factor": "", "station": "length"}.get(f.unit, f.unit)
+    for f in FIELDS
 }
-HINTS = {
-    "superelevation": "blank: design value",
-    "emax": "blank: table default",
-    "friction": "blank: table f_max",
-    "low_speed": "for cant excess",
-    "gauge": "blank: 1435",
-    "pi_station": "e.g. 2+710",
-    "spiral_out": "blank: = in",
-    "obstruction_offset": "sight clearance",
-    "grade": "+ up / - down",
-    "lane_width": "blank: 3.6 m / 12 ft",
-}
+HINTS = {f.key: f.form_hint for f in FIELDS if f.form_hint}
 
 
 # Short names for the results column (the JSON keys' long labels are in curvetui.results).

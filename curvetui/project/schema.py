@@ -1,0 +1,72 @@
+"""The project file's input properties, made from the field list (``curvetui.bend.fields``).
+
+The shipped JSON Schema (``curvetui/data/project-schema.json``) holds them under
+``$defs.inputs``; a test keeps that part equal to ``inputs_schema()``. After adding or
+changing a field, rewrite the file with ``python -m curvetui.project.schema``.
+
+A project file stores inputs in its own units, so each bound here is the widest over both
+unit systems and both kinds; the exact range is checked when the bend is evaluated.
+"""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+from curvetui.bend.fields import FIELDS, STATION, Field
+from curvetui.core.units import METRIC, US
+
+SCHEMA_PATH = Path(__file__).resolve().parents[1] / "data" / "project-schema.json"
+# the two ranges that depend on something else, as their widest bounds
+DYNAMIC_BOUNDS = {"emax": (0.0, 20.0), "low_speed": (0.0, 400.0)}
+
+
+def _bounds(f: Field) -> tuple[float, float] | None:
+    if f.key in DYNAMIC_BOUNDS:
+        return DYNAMIC_BOUNDS[f.key]
+    pairs = [f.allowed(k, u) for k in f.kinds for u in (METRIC, US)]
+    pairs = [p for p in pairs if p is not None]
+    if not pairs:
+        return None
+    return min(p[0] for p in pairs), max(p[1] for p in pairs)
+
+
+def _property(f: Field) -> dict:
+    required_always = set(f.required) == {"road", "rail"}
+    types = ["number"] if required_always else ["number", "null"]
+    if f.unit == STATION:
+        types.insert(1, "string")  # a station may be stored as written: 2+710.5
+    out: dict = {"type": types[0] if len(types) == 1 else types, "description": f.help}
+    bounds = _bounds(f)
+    if bounds is not None and f.unit != STATION:
+        lo, hi = bounds
+        out["exclusiveMinimum" if f.lo_open else "minimum"] = lo
+        out["maximum"] = hi
+    return out
+
+
+def inputs_schema() -> dict:
+    """The ``$defs.inputs`` object of the project schema."""
+    return {
+        "type": "object",
+        "required": [f.key for f in FIELDS if set(f.required) == {"road", "rail"}],
+        "additionalProperties": False,
+        "properties": {f.key: _property(f) for f in FIELDS},
+    }
+
+
+def rail_required() -> list[str]:
+    return [f.key for f in FIELDS if "rail" in f.required]
+
+
+def write_schema(path: Path = SCHEMA_PATH) -> None:
+    """Rewrite the shipped schema's inputs from the field list (a developer's command)."""
+    schema = json.loads(path.read_text("utf-8"))
+    schema["$defs"]["inputs"] = inputs_schema()
+    bend = schema["$defs"]["bend"]
+    bend["allOf"][0]["then"]["properties"]["inputs"]["required"] = rail_required()
+    path.write_text(json.dumps(schema, indent=2, ensure_ascii=False) + "\n", "utf-8")
+
+
+if __name__ == "__main__":
+    write_schema()
