@@ -68,7 +68,7 @@ NOTES = np.array(
 def _road_f_max(speeds: np.ndarray) -> np.ndarray:
     """f_max of the road table the batch uses by default, to aim radii near the minimum."""
     from curvetui.core.units import unit_system
-    from curvetui.tables import road_table
+    from curvetui.storage.tables import road_table
 
     table = road_table(None, "metric")
     f, _ = table.f_max(unit_system("metric").speed_to_si(speeds.astype(float)))
@@ -295,7 +295,7 @@ def per_row_loop(src: Path, out: Path, limit: int) -> tuple[float, int, list[str
     from curvetui.bend.service import evaluate_bend
     from curvetui.core.units import unit_system
     from curvetui.inputs import InputError
-    from curvetui.tables import rail_limits, road_table
+    from curvetui.storage.tables import rail_limits, road_table
 
     units = unit_system("metric")
     table, limits = road_table(None, "metric"), rail_limits(None, "metric")

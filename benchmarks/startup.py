@@ -56,7 +56,7 @@ import contextlib, io, json, statistics, timeit
 from curvetui.bend.service import evaluate_bend
 from curvetui.cli import main
 from curvetui.core.units import unit_system
-from curvetui.tables import rail_limits, road_table
+from curvetui.storage.tables import rail_limits, road_table
 
 units = unit_system("metric")
 table, limits = road_table(None, "metric"), rail_limits(None, "metric")

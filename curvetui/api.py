@@ -50,7 +50,7 @@ def _column(values: Any, n: int, key: str, units: str) -> Column:
 
 
 def _context(units: str, table, limits):
-    from curvetui.tables import rail_limits, road_table
+    from curvetui.storage.tables import rail_limits, road_table
 
     u = unit_system(units)
     t = table if table is not None and not isinstance(table, str) else road_table(table, u.name)

@@ -13,7 +13,7 @@ from pathlib import Path
 
 import pytest
 
-from curvetui.tables import road_table
+from curvetui.storage.tables import road_table
 
 # what a test module says when it starts Textual
 STARTS_TEXTUAL = ("run_test(", "snap_compare", "app_screen import")
@@ -52,7 +52,7 @@ def _quick_idle_steps(request: pytest.FixtureRequest, monkeypatch: pytest.Monkey
 
 @pytest.fixture(scope="session", autouse=True)
 def _close_shared_apps():
-    """Shut down the apps the app tests share (tests/unit/app_screen.py), if they ran."""
+    """Shut down the apps the app tests share (tests/unit/app/app_screen.py), if they ran."""
     yield
     screen = sys.modules.get("app_screen")
     if screen is not None:

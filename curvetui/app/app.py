@@ -18,8 +18,8 @@ from curvetui.app.dialogs.details import DetailsDialog
 from curvetui.app.project_screen import ProjectScreen
 from curvetui.app.session import Session
 from curvetui.inputs import InputError
-from curvetui.project.files import ProjectError
-from curvetui.project.model import Bend
+from curvetui.storage.project.files import ProjectError
+from curvetui.storage.project.model import Bend
 
 
 class CurveApp(App):
@@ -108,7 +108,7 @@ class CurveApp(App):
             self.session.move_bend(self.current, step)
 
     def action_details(self) -> None:
-        from curvetui.tables import rail_limit_sets, road_tables
+        from curvetui.storage.tables import rail_limit_sets, road_tables
 
         def done(result: dict | None) -> None:
             if result:

@@ -15,16 +15,16 @@ from pathlib import Path
 from curvetui.bend.fields import BY_KEY, FIELDS, cli_name
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
-from curvetui.project.checking import (
+from curvetui.stations import format_station, parse_station
+from curvetui.storage.project.checking import (
     Context,
     evaluate,
     project_context,
     refresh_results,
     stale_results,
 )
-from curvetui.project.files import load_project, save_project
-from curvetui.project.model import Bend, Details, Project
-from curvetui.stations import format_station, parse_station
+from curvetui.storage.project.files import load_project, save_project
+from curvetui.storage.project.model import Bend, Details, Project
 
 # the worksheet's fields that are not engine inputs
 FORM_FIELDS = ("bend_id", "station", "notes")

@@ -96,7 +96,7 @@ GEOMETRY_KEYS = ("deflection", "pi_station", "spiral_in", "spiral_out")
 def geometry_inputs(raw: Mapping[str, Any], units: UnitSystem, name: Namer = cli_name):
     """Deflection [rad], PI station and spiral lengths [m] of one bend's inputs, checked
     against the field list's ranges; None without a deflection; InputError for bad input."""
-    from curvetui.tables import road_table
+    from curvetui.storage.tables import road_table
 
     given = {k: raw[k] for k in GEOMETRY_KEYS if k in raw}
     columns = columns_from_values({k: [v] for k, v in given.items()}, units)

@@ -71,7 +71,7 @@ def build_parser(command: str | None = None) -> argparse.ArgumentParser:
 def _project_error() -> type[Exception]:
     """ProjectError. An except clause's class is looked up only when an exception reaches
     it, so a command that reads no project file never imports the project modules."""
-    from curvetui.project.files import ProjectError
+    from curvetui.storage.project.files import ProjectError
 
     return ProjectError
 
@@ -92,7 +92,7 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "run", None):
         parser.print_help()
         return 0
-    from curvetui.tables import TableError
+    from curvetui.storage.tables import TableError
 
     try:
         return int(args.run(args))

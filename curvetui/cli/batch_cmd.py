@@ -58,8 +58,8 @@ def run(args: argparse.Namespace) -> int:
 
     from curvetui.batch.stream import BatchFileError, run_batch
     from curvetui.core.units import unit_system
-    from curvetui.files import atomic_binary
-    from curvetui.tables import rail_limits, road_table
+    from curvetui.storage.files import atomic_binary
+    from curvetui.storage.tables import rail_limits, road_table
 
     units = unit_system(args.units)
     table = road_table(args.table, units.name)

@@ -12,7 +12,7 @@ from curvetui.cli.common import console, print_caution, print_json
 from curvetui.inputs import InputError
 
 if TYPE_CHECKING:
-    from curvetui.project.files import ProjectError
+    from curvetui.storage.project.files import ProjectError
 
 # The project modules (the engine, the JSON Schema check) and Rich are imported in the
 # functions that use them: this module is imported on every start to build the parser.
@@ -82,8 +82,8 @@ def report_problems(exc: ProjectError) -> int:
 
 
 def _run_new(args) -> int:
-    from curvetui.project.files import save_project
-    from curvetui.project.model import Details, Project
+    from curvetui.storage.project.files import save_project
+    from curvetui.storage.project.model import Details, Project
 
     path = Path(args.file)
     if path.exists():
@@ -97,8 +97,8 @@ def _run_new(args) -> int:
 def _run_open(args) -> int:
     """Open a project in the terminal app (created when absent). Without a terminal (a pipe,
     CI), print its checks instead."""
-    from curvetui.project.files import ProjectError, save_project
-    from curvetui.project.model import Details, Project
+    from curvetui.storage.project.files import ProjectError, save_project
+    from curvetui.storage.project.model import Details, Project
 
     path = Path(args.file)
     if path.suffix.lower() in CSV_SUFFIXES:
@@ -136,7 +136,7 @@ def _open_csv(path: Path, args) -> int:
     from curvetui.batch.stream import BatchFileError, run_batch
     from curvetui.cli.batch_cmd import print_summary
     from curvetui.core.units import unit_system
-    from curvetui.tables import rail_limits, road_table
+    from curvetui.storage.tables import rail_limits, road_table
 
     units = unit_system(args.units or "metric")
     table = road_table(args.table, units.name)
@@ -164,7 +164,7 @@ def _open_csv(path: Path, args) -> int:
 
 
 def _run_check_project(args) -> int:
-    from curvetui.project.files import ProjectError
+    from curvetui.storage.project.files import ProjectError
 
     if not args.project:
         raise InputError("check: needs `road`, `rail` or --project FILE")
@@ -176,13 +176,13 @@ def _run_check_project(args) -> int:
 
 def check_project(path: str, save: bool = False, as_json: bool = False) -> int:
     """Check every bend; 1 when any fails or cannot be computed."""
-    from curvetui.project.checking import (
+    from curvetui.storage.project.checking import (
         evaluate_project,
         project_context,
         refresh_results,
         stale_results,
     )
-    from curvetui.project.files import load_project, save_project
+    from curvetui.storage.project.files import load_project, save_project
 
     project, notes = load_project(path)
     ctx = project_context(project)

@@ -26,7 +26,7 @@ def add_parser(check_sub) -> None:
 def run(args: argparse.Namespace) -> int:
     from curvetui.bend.service import evaluate_bend
     from curvetui.core.units import unit_system
-    from curvetui.tables import rail_limits
+    from curvetui.storage.tables import rail_limits
 
     units = unit_system(args.units)
     limits = rail_limits(args.limits, units.name)

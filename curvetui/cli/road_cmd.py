@@ -29,7 +29,7 @@ def add_parser(check_sub) -> None:
 def run(args: argparse.Namespace) -> int:
     from curvetui.bend.service import evaluate_bend
     from curvetui.core.units import unit_system
-    from curvetui.tables import road_table
+    from curvetui.storage.tables import road_table
 
     units = unit_system(args.units)
     table = road_table(args.table, units.name)

@@ -143,7 +143,7 @@ def write_csv(rows: list[dict], target: str) -> None:
         return
     import io
 
-    from curvetui.files import atomic_write_text
+    from curvetui.storage.files import atomic_write_text
 
     buf = io.StringIO()
     w = csv.DictWriter(buf, fieldnames=fields, lineterminator="\n")

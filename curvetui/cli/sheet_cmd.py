@@ -32,8 +32,8 @@ def add_parser(sub) -> None:
 
 
 def _run_sheet(args) -> int:
-    from curvetui.files import atomic_write_text
     from curvetui.reports.sheet import RENDERERS, atomic_write_bytes, sheets_path
+    from curvetui.storage.files import atomic_write_text
 
     fmt = args.format
     if fmt is None:  # from the output's name, else PDF

@@ -12,7 +12,7 @@ def add_parser(sub) -> None:
 
 
 def run(args) -> int:
-    from curvetui.tables import rail_limit_sets, road_tables, user_table_dirs
+    from curvetui.storage.tables import rail_limit_sets, road_tables, user_table_dirs
 
     tables = road_tables()
     rows = [

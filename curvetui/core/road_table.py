@@ -1,6 +1,6 @@
 """A road design table (side friction, running speeds, runoff gradients) held in SI.
 
-The table is built from a data file by :mod:`curvetui.tables`; this module holds
+The table is built from a data file by :mod:`curvetui.storage.tables`; this module holds
 only the numbers and the look-ups, so it stays free of file I/O.
 """
 

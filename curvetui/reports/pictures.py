@@ -422,7 +422,7 @@ def rail_chart_for_inputs(raw, units, limits: RailLimits) -> RailChart:
     """``rail_chart`` for a rail curve's inputs, parsed as ``curvetui.bend.service`` parses them."""
     from curvetui.bend.service import si_inputs
     from curvetui.core.rail import rail_centres_for_gauge
-    from curvetui.tables import road_table
+    from curvetui.storage.tables import road_table
 
     si = si_inputs("rail", raw, units, road_table(None, units.name))
     gauge = si.get("gauge")

@@ -11,7 +11,7 @@ import pytest
 
 from curvetui.core.rail import check_rail
 from curvetui.core.units import FOOT, INCH, MPH
-from curvetui.tables import rail_limits
+from curvetui.storage.tables import rail_limits
 
 
 def radius_arc(degree: float) -> float:

@@ -14,7 +14,7 @@ import pytest
 
 from curvetui.core import rail
 from curvetui.core.units import G0, INCH, KMH, MPH
-from curvetui.tables import parse_rail_limits, rail_limits
+from curvetui.storage.tables import parse_rail_limits, rail_limits
 
 
 def test_standard_gauge_coefficient_11_8():

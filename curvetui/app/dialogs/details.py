@@ -9,7 +9,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Button, Input, Label, Select, Static
 
 from curvetui import CAUTION
-from curvetui.project.model import Details
+from curvetui.storage.project.model import Details
 
 TEXT_FIELDS = (
     "name",

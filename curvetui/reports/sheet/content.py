@@ -7,13 +7,13 @@ from dataclasses import dataclass, field
 from curvetui.bend.messages import message_line
 from curvetui.core.circular import GeometryError
 from curvetui.inputs import InputError
-from curvetui.project.checking import Context, Outcome, evaluate_project, project_context
-from curvetui.project.files import load_project
-from curvetui.project.model import Project
 from curvetui.reports.sheet.labels import DEFAULTS, FIELD_NAMES, FIELD_ORDER, UNIT_KIND
 from curvetui.reports.working import Step, rail_working, road_working
 from curvetui.results import unit_label
 from curvetui.stations import format_station
+from curvetui.storage.project.checking import Context, Outcome, evaluate_project, project_context
+from curvetui.storage.project.files import load_project
+from curvetui.storage.project.model import Project
 
 
 @dataclass

@@ -4,17 +4,17 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from curvetui.files import atomic_binary
 from curvetui.inputs import InputError
 from curvetui.reports.sheet.pdf import render_pdf
 from curvetui.reports.sheet.text import render_markdown, render_text
+from curvetui.storage.files import atomic_binary
 
 RENDERERS = {"pdf": render_pdf, "text": render_text, "md": render_markdown}
 
 
 def atomic_write_bytes(path: str | Path, data: bytes) -> None:
     """Replace ``path`` with ``data`` via a temporary file beside it, fsync and rename
-    (curvetui.files.atomic_binary)."""
+    (curvetui.storage.files.atomic_binary)."""
     with atomic_binary(path) as fh:
         fh.write(data)
 

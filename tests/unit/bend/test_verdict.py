@@ -19,7 +19,7 @@ from curvetui.batch.stream import batch_bytes
 from curvetui.bend.service import check_bend
 from curvetui.core.units import METRIC
 from curvetui.reports.working import road_working
-from curvetui.tables import rail_limits, road_table
+from curvetui.storage.tables import rail_limits, road_table
 
 R_MIN = 100.0**2 / (127.0 * (0.08 + 0.12))  # 393.7007874... m, by hand from Eq. 3-10
 

@@ -6,7 +6,7 @@ so the top bar reads the same on every machine. Only the app's behaviour (what i
 under test. Before each screenshot the test also checks, in words, that the whole caution is
 on screen and, for the failing bend QV-04, that FAIL is.
 
-After a deliberate change to the screens: `pytest tests/unit/test_app_snapshots.py
+After a deliberate change to the screens: `pytest tests/unit/app/test_app_snapshots.py
 --snapshot-update`, then look at the new SVGs in __snapshots__/ before committing them.
 """
 

@@ -53,7 +53,7 @@ NOT_OURS_FOR_CHECK = (
     "curvetui.cli.sheet_cmd",
     "curvetui.cli.tables_cmd",
     "curvetui.batch",
-    "curvetui.project",
+    "curvetui.storage.project",
     "curvetui.app",
     "curvetui.reports.sheet",
 )

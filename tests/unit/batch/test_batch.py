@@ -21,7 +21,7 @@ from curvetui.bend.messages import message_line
 from curvetui.bend.service import evaluate_bend
 from curvetui.core.units import METRIC, US
 from curvetui.inputs import InputError
-from curvetui.tables import rail_limits, road_table
+from curvetui.storage.tables import rail_limits, road_table
 
 UNITS = {"metric": METRIC, "us": US}
 BATCH_TO_BEND = {"spiral": "spiral_in"}  # batch column -> project input name

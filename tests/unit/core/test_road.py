@@ -24,7 +24,7 @@ from curvetui.core import road
 from curvetui.core import superelevation as se
 from curvetui.core.road import check_road, design_superelevation, safe_speed
 from curvetui.core.units import FOOT, KMH, MPH
-from curvetui.tables import road_table
+from curvetui.storage.tables import road_table
 
 SETTINGS = settings(max_examples=60, deadline=None)
 

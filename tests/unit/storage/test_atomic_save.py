@@ -19,12 +19,12 @@ from pathlib import Path
 
 import pytest
 
-import curvetui.files
-from curvetui.files import atomic_write_text
-from curvetui.project.files import load_project, project_text, save_project
-from curvetui.project.model import Bend, Project
+import curvetui.storage.files
+from curvetui.storage.files import atomic_write_text
+from curvetui.storage.project.files import load_project, project_text, save_project
+from curvetui.storage.project.model import Bend, Project
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 DEMO = ROOT / "projects" / "quillmere-valley-road.json"
 
 posix_only = pytest.mark.skipif(os.name != "posix", reason="needs POSIX signals and modes")
@@ -57,7 +57,7 @@ def temp_files(folder: Path, name: str) -> list[Path]:
 
 CHILD = r"""
 import json, sys
-from curvetui.project.files import parse_project, save_project, validate
+from curvetui.storage.project.files import parse_project, save_project, validate
 a = parse_project(json.load(open(sys.argv[1], encoding="utf-8")))
 b = parse_project(json.load(open(sys.argv[2], encoding="utf-8")))
 target = sys.argv[3]
@@ -156,7 +156,7 @@ def test_fsync_failure_leaves_the_old_file_and_no_temporary_file(tmp_path, monke
     def broken_fsync(fd):
         raise OSError(5, "Input/output error")
 
-    monkeypatch.setattr(curvetui.files.os, "fsync", broken_fsync)
+    monkeypatch.setattr(curvetui.storage.files.os, "fsync", broken_fsync)
     with pytest.raises(OSError, match="Input/output"):
         atomic_write_text(target, "new contents\n", backup=True)
     assert target.read_text(encoding="utf-8") == "old contents\n"
@@ -171,7 +171,7 @@ def test_replace_failure_leaves_the_old_file_and_removes_the_new_text(tmp_path, 
     def broken_replace(src, dst):
         raise OSError(28, "No space left on device")
 
-    monkeypatch.setattr(curvetui.files.os, "replace", broken_replace)
+    monkeypatch.setattr(curvetui.storage.files.os, "replace", broken_replace)
     with pytest.raises(OSError, match="No space"):
         atomic_write_text(target, "new contents\n", backup=True)
     assert target.read_text(encoding="utf-8") == "old contents\n"
@@ -185,7 +185,7 @@ def test_replace_failure_on_a_first_save_leaves_nothing(tmp_path, monkeypatch):
     def broken_replace(src, dst):
         raise OSError(28, "No space left on device")
 
-    monkeypatch.setattr(curvetui.files.os, "replace", broken_replace)
+    monkeypatch.setattr(curvetui.storage.files.os, "replace", broken_replace)
     with pytest.raises(OSError):
         save_project(big_project("A", 3), target)
     assert list(tmp_path.iterdir()) == []
@@ -198,7 +198,7 @@ def test_replace_failure_leaves_no_temporary_file_at_all(tmp_path, monkeypatch):
     def broken_replace(src, dst):
         raise OSError(28, "No space left on device")
 
-    monkeypatch.setattr(curvetui.files.os, "replace", broken_replace)
+    monkeypatch.setattr(curvetui.storage.files.os, "replace", broken_replace)
     with pytest.raises(OSError):
         atomic_write_text(target, "new contents\n", backup=True)
     assert temp_files(tmp_path, target.name) == []
@@ -216,7 +216,7 @@ def test_failed_final_rename_keeps_old_file_and_backup(tmp_path, monkeypatch):
             raise OSError(28, "No space left on device")
         real_replace(src, dst)
 
-    monkeypatch.setattr(curvetui.files.os, "replace", replace_but_not_the_target)
+    monkeypatch.setattr(curvetui.storage.files.os, "replace", replace_but_not_the_target)
     with pytest.raises(OSError):
         atomic_write_text(target, "third\n", backup=True)
     assert target.read_text(encoding="utf-8") == "second\n"

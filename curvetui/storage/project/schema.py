@@ -2,7 +2,7 @@
 
 The shipped JSON Schema (``curvetui/data/project-schema.json``) holds them under
 ``$defs.inputs``; a test keeps that part equal to ``inputs_schema()``. After adding or
-changing a field, rewrite the file with ``python -m curvetui.project.schema``.
+changing a field, rewrite the file with ``python -m curvetui.storage.project.schema``.
 
 A project file stores inputs in its own units, so each bound here is the widest over both
 unit systems and both kinds; the exact range is checked when the bend is evaluated.
@@ -16,7 +16,7 @@ from pathlib import Path
 from curvetui.bend.fields import FIELDS, STATION, Field
 from curvetui.core.units import METRIC, US
 
-SCHEMA_PATH = Path(__file__).resolve().parents[1] / "data" / "project-schema.json"
+SCHEMA_PATH = Path(__file__).resolve().parents[2] / "data" / "project-schema.json"
 # the two ranges that depend on something else, as their widest bounds
 DYNAMIC_BOUNDS = {"emax": (0.0, 20.0), "low_speed": (0.0, 400.0)}
 

@@ -7,7 +7,7 @@ from hypothesis import strategies as st
 
 from curvetui.core import rail
 from curvetui.core.units import KMH
-from curvetui.tables import rail_limits
+from curvetui.storage.tables import rail_limits
 
 LIMITS = rail_limits("en13803-2010")
 speeds = st.floats(20, 300)

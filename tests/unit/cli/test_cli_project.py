@@ -6,7 +6,7 @@ from pathlib import Path
 
 from curvetui.cli import main
 
-DEMO = Path(__file__).resolve().parents[2] / "projects" / "quillmere-valley-road.json"
+DEMO = Path(__file__).resolve().parents[3] / "projects" / "quillmere-valley-road.json"
 
 
 def test_demo_project_prints_every_bend_and_fails(capsys):

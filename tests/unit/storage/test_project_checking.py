@@ -15,17 +15,17 @@ from pathlib import Path
 import pytest
 
 from curvetui.cli import main
-from curvetui.project.checking import (
+from curvetui.storage.project.checking import (
     differences,
     evaluate_project,
     refresh_results,
     stale_results,
     stored_form,
 )
-from curvetui.project.files import load_project, save_project
-from curvetui.tables import rail_limit_sets, road_tables
+from curvetui.storage.project.files import load_project, save_project
+from curvetui.storage.tables import rail_limit_sets, road_tables
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 DEMO = ROOT / "projects" / "quillmere-valley-road.json"
 METRIC_TABLE = ROOT / "curvetui" / "data" / "road" / "aashto-2018-metric.toml"
 USER_TABLE = "fennick-shire-trial"  # invented table name

@@ -16,8 +16,8 @@ from pathlib import Path
 import pytest
 
 from curvetui.cli import main
-from curvetui.project.checking import evaluate_project
-from curvetui.project.files import (
+from curvetui.storage.project.checking import evaluate_project
+from curvetui.storage.project.files import (
     ProjectError,
     load_project,
     migrate,
@@ -25,9 +25,9 @@ from curvetui.project.files import (
     save_project,
     validate,
 )
-from curvetui.project.model import FORMAT_VERSION, Bend
+from curvetui.storage.project.model import FORMAT_VERSION, Bend
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 DEMO = ROOT / "projects" / "quillmere-valley-road.json"
 V1 = ROOT / "tests" / "fixtures" / "project-v1.json"
 
@@ -525,9 +525,9 @@ def test_unknown_road_table_in_a_project_is_exit_2(demo_copy, capsys):
 
 def test_shipped_schema_inputs_are_made_from_the_field_list():
     # one declaration of the inputs: the schema file's inputs equal what the field list
-    # makes (rewrite with `python -m curvetui.project.schema` after changing a field)
-    from curvetui.project.files import project_schema
-    from curvetui.project.schema import inputs_schema, rail_required
+    # makes (rewrite with `python -m curvetui.storage.project.schema` after changing a field)
+    from curvetui.storage.project.files import project_schema
+    from curvetui.storage.project.schema import inputs_schema, rail_required
 
     schema = project_schema()
     assert schema["$defs"]["inputs"] == inputs_schema()

@@ -19,7 +19,7 @@ from curvetui.app.session import Session
 from curvetui.cli import main
 from curvetui.inputs import InputError
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 DEMO = ROOT / "projects" / "quillmere-valley-road.json"
 
 

@@ -29,7 +29,7 @@ from curvetui.app.widgets.worksheet import Worksheet
 from curvetui.batch.stream import BatchFileError, batch_bytes
 from curvetui.cli import main
 from curvetui.core.units import unit_system
-from curvetui.tables import rail_limits, road_table
+from curvetui.storage.tables import rail_limits, road_table
 
 pytestmark = pytest.mark.app  # starts Textual: `pytest -m "not app"` leaves it out
 

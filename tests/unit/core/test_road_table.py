@@ -18,7 +18,7 @@ from curvetui.core.road_table import (
     RadiusRounding,
 )
 from curvetui.core.units import FOOT, KMH, MPH
-from curvetui.tables import TableError, parse_road_table, road_table
+from curvetui.storage.tables import TableError, parse_road_table, road_table
 
 # --- look-up and kinds ------------------------------------------------------------------
 

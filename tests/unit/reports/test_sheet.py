@@ -21,8 +21,6 @@ from pypdf import PdfReader
 from curvetui import CAUTION
 from curvetui.cli import main
 from curvetui.inputs import InputError
-from curvetui.project.files import load_project
-from curvetui.project.model import Bend, Details, Project
 from curvetui.reports.sheet import (
     render_markdown,
     render_pdf,
@@ -30,8 +28,10 @@ from curvetui.reports.sheet import (
     sheets_path,
     write_sheets,
 )
+from curvetui.storage.project.files import load_project
+from curvetui.storage.project.model import Bend, Details, Project
 
-DEMO = Path(__file__).resolve().parents[2] / "projects" / "quillmere-valley-road.json"
+DEMO = Path(__file__).resolve().parents[3] / "projects" / "quillmere-valley-road.json"
 DEMO_IDS = ["QV-01", "QV-02", "QV-03", "QV-04", "QV-05", "QV-06", "QS-01", "QS-02"]
 FAILING = {"QV-04", "QV-05"}
 

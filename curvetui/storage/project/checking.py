@@ -8,8 +8,8 @@ from dataclasses import dataclass
 from curvetui.bend.service import evaluate_bend, path_namer
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
-from curvetui.project.model import Bend, Project
-from curvetui.tables import TableError, rail_limits, road_table
+from curvetui.storage.project.model import Bend, Project
+from curvetui.storage.tables import TableError, rail_limits, road_table
 
 # Results kept in a project file: everything but the long texts that every record repeats.
 UNSTORED = ("caution", "table_source", "limits_source")

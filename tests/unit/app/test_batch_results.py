@@ -6,7 +6,7 @@ from __future__ import annotations
 from curvetui.app.batch_results import RowKeeper, open_source
 from curvetui.batch.stream import run_batch
 from curvetui.core.units import METRIC
-from curvetui.tables import rail_limits, road_table
+from curvetui.storage.tables import rail_limits, road_table
 
 
 def test_a_message_with_a_semicolon_stays_one_item(tmp_path):

@@ -14,7 +14,7 @@ from hypothesis import strategies as st
 
 from curvetui.core import transitions as tr
 from curvetui.core.units import FOOT, INCH, KMH
-from curvetui.tables import TableError, parse_rail_limits, rail_limits
+from curvetui.storage.tables import TableError, parse_rail_limits, rail_limits
 
 
 def _clothoid_shift(length, radius):

@@ -104,7 +104,7 @@ def test_malformed_table_file(tmp_path, capsys):
 
 
 def test_table_row_without_source_is_refused(tmp_path, capsys):
-    from curvetui.tables import road_table
+    from curvetui.storage.tables import road_table
 
     text = road_table("aashto-2018-metric").path
     body = open(text, encoding="utf-8").read().replace('source = "all values from memory"', "", 1)
@@ -130,7 +130,7 @@ def test_tables_lists_sources(capsys):
 
 
 def test_user_table_folder_is_loaded(tmp_path, monkeypatch, capsys):
-    from curvetui import tables
+    from curvetui.storage import tables
 
     src = tables.road_table("aashto-2018-metric").path
     text = (

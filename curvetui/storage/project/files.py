@@ -15,8 +15,8 @@ from importlib import resources
 from pathlib import Path
 from typing import Any
 
-from curvetui.files import atomic_write_text
-from curvetui.project.model import FORMAT_VERSION, Bend, Details, Project
+from curvetui.storage.files import atomic_write_text
+from curvetui.storage.project.model import FORMAT_VERSION, Bend, Details, Project
 
 
 class ProjectError(ValueError):

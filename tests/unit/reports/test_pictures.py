@@ -44,7 +44,7 @@ from curvetui.reports.pictures import (
     road_chart_for_inputs,
     station_texts,
 )
-from curvetui.tables import rail_limits
+from curvetui.storage.tables import rail_limits
 
 EN13803 = rail_limits("en13803-2010")
 

@@ -29,7 +29,7 @@ from curvetui.app.app import CurveApp, build_app
 from curvetui.app.session import Session
 from curvetui.app.widgets.bend_list import BendList
 
-ROOT = Path(__file__).resolve().parents[2]
+ROOT = Path(__file__).resolve().parents[3]
 DEMO = ROOT / "projects" / "quillmere-valley-road.json"
 SMALL, LARGE = (80, 24), (120, 40)
 

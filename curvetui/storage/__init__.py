@@ -1,0 +1,1 @@
+"""Storage: design tables, project files and atomic writes (file I/O lives here)."""
