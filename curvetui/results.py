@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from curvetui.bend.outputs import main_results
 from curvetui.core.rail import RailCheck
 from curvetui.core.road import RoadCheck
 from curvetui.core.superelevation import AT_EMAX, NORMAL_CROWN, REMOVE_CROWN, SUPERELEVATED
@@ -20,35 +21,9 @@ CROSS_SECTION_NAMES = {
     AT_EMAX: "at e_max",
 }
 
-# key: (label, unit kind) -- the unit kind picks the label of the user's unit system
-ROAD_FIELDS: dict[str, tuple[str, str]] = {
-    "lateral_acceleration": ("Lateral acceleration v^2/R", "acceleration"),
-    "lateral_acceleration_g": ("Lateral acceleration", "g"),
-    "side_friction_max": ("Maximum side friction factor f_max", ""),
-    "side_friction_demand": ("Side friction demand f", ""),
-    "min_radius": ("Minimum radius R_min", "length"),
-    "min_radius_rounded": ("Minimum radius, as the table rounds", "length"),
-    "superelevation": ("Superelevation in use e", "%"),
-    "superelevation_design": ("Design superelevation (distribution)", "%"),
-    "safe_speed": ("Safe speed", "speed"),
-}
-
-
-RAIL_FIELDS: dict[str, tuple[str, str]] = {
-    "equilibrium_cant": ("Equilibrium cant, fast train", "cant"),
-    "equilibrium_cant_low": ("Equilibrium cant, slow train", "cant"),
-    "cant_deficiency": ("Cant deficiency", "cant"),
-    "cant_excess": ("Cant excess", "cant"),
-    "uncompensated_acceleration": ("Uncompensated lateral acceleration g D/s", "m/s^2"),
-    "centripetal_acceleration": ("Centripetal acceleration v^2/R", "m/s^2"),
-    "max_speed": ("Maximum speed (deficiency limit)", "speed"),
-    "min_speed": ("Minimum speed (excess limit)", "speed"),
-    "balancing_cant": ("Cant balancing both trains", "cant"),
-    "cant_limit": ("Cant limit", "cant"),
-    "deficiency_limit": ("Cant deficiency limit", "cant"),
-    "excess_limit": ("Cant excess limit", "cant"),
-    "rail_centres": ("Distance between rail centres s", "cant"),
-}
+# key: (label, unit kind) of the main results, from curvetui.bend.outputs
+ROAD_FIELDS: dict[str, tuple[str, str]] = {o.key: (o.label, o.unit) for o in main_results("road")}
+RAIL_FIELDS: dict[str, tuple[str, str]] = {o.key: (o.label, o.unit) for o in main_results("rail")}
 
 
 def unit_label(kind: str, units: UnitSystem) -> str:

@@ -23,37 +23,47 @@ class Output:
     kinds: tuple[str, ...]
     rounding: str = SIG
     echo: bool = False  # repeats an input: in JSON, left out of batch files
+    label: str = ""  # the main results' words (the others show their key)
+    short: str = ""
+    unit: str = ""
 
 
 def _o(key, kinds=BOTH, rounding=SIG, **kw) -> Output:
     return Output(key, kinds, rounding, **kw)
 
 
+# the main results: (key, label, short label for narrow screens, unit kind); the unit kind
+# picks the unit of the user's system (curvetui.results.unit_label)
 _ROAD_MAIN = (
-    "lateral_acceleration",
-    "lateral_acceleration_g",
-    "side_friction_max",
-    "side_friction_demand",
-    "min_radius",
-    "min_radius_rounded",
-    "superelevation",
-    "superelevation_design",
-    "safe_speed",
+    ("lateral_acceleration", "Lateral acceleration v^2/R", "a = v^2/R", "acceleration"),
+    ("lateral_acceleration_g", "Lateral acceleration", "a in g", "g"),
+    ("side_friction_max", "Maximum side friction factor f_max", "f max", ""),
+    ("side_friction_demand", "Side friction demand f", "f demand", ""),
+    ("min_radius", "Minimum radius R_min", "R min", "length"),
+    ("min_radius_rounded", "Minimum radius, as the table rounds", "R min (table)", "length"),
+    ("superelevation", "Superelevation in use e", "e in use", "%"),
+    ("superelevation_design", "Design superelevation (distribution)", "e design", "%"),
+    ("safe_speed", "Safe speed", "safe speed", "speed"),
 )
 _RAIL_MAIN = (
-    "equilibrium_cant",
-    "equilibrium_cant_low",
-    "cant_deficiency",
-    "cant_excess",
-    "uncompensated_acceleration",
-    "centripetal_acceleration",
-    "max_speed",
-    "min_speed",
-    "balancing_cant",
-    "cant_limit",
-    "deficiency_limit",
-    "excess_limit",
-    "rail_centres",
+    ("equilibrium_cant", "Equilibrium cant, fast train", "E equilibrium", "cant"),
+    ("equilibrium_cant_low", "Equilibrium cant, slow train", "E slow train", "cant"),
+    ("cant_deficiency", "Cant deficiency", "cant deficiency", "cant"),
+    ("cant_excess", "Cant excess", "cant excess", "cant"),
+    (
+        "uncompensated_acceleration",
+        "Uncompensated lateral acceleration g D/s",
+        "a_q = g D/s",
+        "m/s^2",
+    ),
+    ("centripetal_acceleration", "Centripetal acceleration v^2/R", "v^2/R", "m/s^2"),
+    ("max_speed", "Maximum speed (deficiency limit)", "V max (deficiency)", "speed"),
+    ("min_speed", "Minimum speed (excess limit)", "V min (excess)", "speed"),
+    ("balancing_cant", "Cant balancing both trains", "balancing cant", "cant"),
+    ("cant_limit", "Cant limit", "cant limit", "cant"),
+    ("deficiency_limit", "Cant deficiency limit", "deficiency limit", "cant"),
+    ("excess_limit", "Cant excess limit", "excess limit", "cant"),
+    ("rail_centres", "Distance between rail centres s", "rail centres s", "cant"),
 )
 ROAD_TRANSITION = (
     "spiral_length_min",
@@ -81,9 +91,9 @@ SIGHT = (
 )
 
 OUTPUTS: tuple[Output, ...] = (
-    *(_o(k, (ROAD,)) for k in _ROAD_MAIN),
+    *(_o(k, (ROAD,), label=lab, short=sh, unit=u) for k, lab, sh, u in _ROAD_MAIN),
     _o("cross_section", (ROAD,), TEXT),
-    *(_o(k, (RAIL,)) for k in _RAIL_MAIN),
+    *(_o(k, (RAIL,), label=lab, short=sh, unit=u) for k, lab, sh, u in _RAIL_MAIN),
     _o("speed", rounding=INPUT, echo=True),
     _o("radius", rounding=INPUT, echo=True),
     _o("e_max", (ROAD,)),
@@ -112,3 +122,8 @@ assert len(BY_KEY) == len(OUTPUTS)
 CIRCULAR_JSON = ("type", "deflection", *CIRCULAR, "pi", "pc", "pt")
 SPIRAL_JSON = ("type", "deflection", "spiral_angle", *SPIRAL, "pi", "ts", "sc", "cs", "st")
 SPIRAL_OUT_JSON = ("spiral_angle_out", *SPIRAL_OUT)
+
+
+def main_results(kind: str) -> tuple[Output, ...]:
+    """The main results of a road or rail bend, with their labels, in display order."""
+    return tuple(o for o in OUTPUTS if o.label and kind in o.kinds)

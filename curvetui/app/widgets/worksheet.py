@@ -18,6 +18,7 @@ from textual.widgets import Input, Label, Select, Static
 from curvetui.app.session import FORM_FIELDS, Session, field_label
 from curvetui.bend.fields import FIELDS, input_keys
 from curvetui.bend.messages import message_line
+from curvetui.bend.outputs import main_results
 from curvetui.core.units import UnitSystem
 from curvetui.results import RAIL_FIELDS, ROAD_FIELDS, unit_label
 
@@ -30,31 +31,8 @@ UNIT_KIND = {
 HINTS = {f.key: f.form_hint for f in FIELDS if f.form_hint}
 
 
-# Short names for the results column (the JSON keys' long labels are in curvetui.results).
-SHORT = {
-    "lateral_acceleration": "a = v^2/R",
-    "lateral_acceleration_g": "a in g",
-    "side_friction_max": "f max",
-    "side_friction_demand": "f demand",
-    "min_radius": "R min",
-    "min_radius_rounded": "R min (table)",
-    "superelevation": "e in use",
-    "superelevation_design": "e design",
-    "safe_speed": "safe speed",
-    "equilibrium_cant": "E equilibrium",
-    "equilibrium_cant_low": "E slow train",
-    "cant_deficiency": "cant deficiency",
-    "cant_excess": "cant excess",
-    "centripetal_acceleration": "v^2/R",
-    "max_speed": "V max (deficiency)",
-    "min_speed": "V min (excess)",
-    "balancing_cant": "balancing cant",
-    "cant_limit": "cant limit",
-    "deficiency_limit": "deficiency limit",
-    "excess_limit": "excess limit",
-    "rail_centres": "rail centres s",
-}
-SHORT["uncompensated_acceleration"] = "a_q = g D/s"
+# Short names for the results column (from curvetui.bend.outputs)
+SHORT = {o.key: o.short for kind in ("road", "rail") for o in main_results(kind)}
 
 
 def field_unit(key: str, units: UnitSystem) -> str:
