@@ -30,6 +30,7 @@ import numpy as np
 from curvetui.bend.evaluate import STATUS_NAMES, Evaluation
 from curvetui.bend.fields import BY_KEY, STATION
 from curvetui.bend.messages import SEVERITY_WORDS, message_parts
+from curvetui.bend.outputs import OUTPUTS, TEXT
 from curvetui.bend.parse import Column
 from curvetui.bend.service import check_columns
 from curvetui.core.units import unit_system
@@ -65,8 +66,8 @@ def _context(units: str, table, limits):
 def _results(ev: Evaluation) -> dict[str, np.ndarray]:
     """Unrounded result columns, then status and the messages joined with "; "."""
     out: dict[str, np.ndarray] = {}
-    out.update(ev.values)
-    out.update(ev.texts)
+    for o in OUTPUTS:  # every key, so each batch of a table gets the same columns
+        out[o.key] = ev.texts[o.key] if o.rounding == TEXT else ev.values[o.key]
     words = np.asarray(["pass", "fail", None], dtype=object)  # index -1: does not apply
     for name, verdict in ev.checks.items():
         out[f"checks.{name}"] = words[verdict]

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 import pyarrow as pa
@@ -36,6 +37,11 @@ class BatchContext:
     limits: RailLimits
     headers: Mapping[str, str]  # known column (lower case) -> its header in the file
     decimal_comma: bool = False
+
+    @cached_property
+    def written(self) -> frozenset[str]:
+        """The result columns this file gets (see columns.results_for)."""
+        return frozenset(cols.result_names(list(self.headers)))
 
     def column(self, key: str) -> str:
         """The file's header for a field (or the column name itself)."""
@@ -189,11 +195,15 @@ def evaluate_chunk(
         )
         result[name] = pc.if_else(pa.array(applies), text, pa.scalar(None, pa.string()))
     for name, _kind in cols.RESULTS:
-        if name in ev.values:
+        if name not in ctx.written:
+            continue
+        if name in ev.texts:
+            result[name] = pa.array(ev.texts[name], pa.string())
+        elif name in ev.values:
             values = _rounded(name, ev.values[name])
             result[name] = pa.array(values, mask=np.isnan(values))
-        elif name in ev.texts:
-            result[name] = pa.array(ev.texts[name], pa.string())
+        elif _kind == cols.FLOAT:  # no row of this chunk has it
+            result[name] = pa.nulls(n, pa.float64())
 
     def column_name(key: str) -> str:
         return f"column {ctx.column(key)}"

@@ -92,6 +92,9 @@ def _near_half(y: np.ndarray) -> np.ndarray:
         return np.abs(frac - 0.5) <= 4e-16 * np.maximum(np.abs(y), 1.0)
 
 
+_POW10 = np.array([10.0**i for i in range(23)])  # 1e0 .. 1e22, each exact in a double
+
+
 def round_significant(x, digits: int = 6) -> np.ndarray:
     """Each value rounded to ``digits`` significant figures, as float(f"{x:.{digits}g}") does
     (what a one-bend check prints); NaN and infinities pass through.
@@ -108,7 +111,7 @@ def round_significant(x, digits: int = 6) -> np.ndarray:
     e = np.floor(np.log10(a)).astype(np.int64)
     k = digits - 1 - e
     with np.errstate(over="ignore", invalid="ignore"):  # far cells are redone below
-        scale = 10.0 ** np.abs(k).astype(float)
+        scale = _POW10[np.minimum(np.abs(k), 22)]  # exact powers of ten, by look-up
         up = k >= 0
         y = np.where(up, a * scale, a / scale)
         m = np.rint(y)

@@ -39,6 +39,25 @@ RAIL_CHECKS = ("cant", "deficiency", "excess", "balance", "transition")
 DEFAULT_LANE_WIDTH = {"metric": 3.6, "us": 12.0 * FOOT}  # [m], the Green Book's usual lane
 
 
+class _Columns(dict):
+    """Result columns made on first use (NaN until set): a file of road bends never pays
+    for the rail columns. A key that was never set reads as all NaN."""
+
+    def __init__(self, n: int):
+        super().__init__()
+        self.n = n
+
+    def __missing__(self, key: str) -> np.ndarray:
+        if key not in _FLOAT_KEYS:
+            raise KeyError(key)
+        column = np.full(self.n, np.nan)
+        self[key] = column
+        return column
+
+
+_FLOAT_KEYS = frozenset(o.key for o in OUTPUTS if o.rounding != TEXT)
+
+
 @dataclass(frozen=True)
 class Context:
     """What every bend of one evaluation shares."""
@@ -108,7 +127,7 @@ def evaluate(parsed: Parsed, ctx: Context) -> Evaluation:
     ev = Evaluation(
         parsed=parsed,
         ctx=ctx,
-        values={o.key: np.full(n, np.nan) for o in OUTPUTS if o.rounding != TEXT},
+        values=_Columns(n),
         texts={o.key: np.full(n, None, dtype=object) for o in OUTPUTS if o.rounding == TEXT},
         checks={k: np.full(n, NOT_APPLICABLE, np.int8) for k in (*ROAD_CHECKS, *RAIL_CHECKS)},
         status=np.full(n, PASS, np.int8),
