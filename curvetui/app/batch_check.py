@@ -8,7 +8,8 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 from curvetui.app.batch_results import BatchSource, Held, RowKeeper
-from curvetui.batch.stream import BatchFileError, run_batch
+from curvetui.batch.header import BatchFileError
+from curvetui.batch.stream import run_batch
 
 
 class Stopped(Exception):

@@ -17,14 +17,9 @@ import pyarrow as pa
 import pyarrow.compute as pc
 
 from curvetui.batch import columns as cols
-from curvetui.batch.stream import (
-    HEAD_BYTES,
-    MESSAGE_ITEMS,
-    BatchFileError,
-    Header,
-    Summary,
-    read_header,
-)
+from curvetui.batch.header import HEAD_BYTES, BatchFileError, Header, read_header
+from curvetui.batch.output import MESSAGE_ITEMS
+from curvetui.batch.summary import Summary
 from curvetui.bend.service import evaluate_bend
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable

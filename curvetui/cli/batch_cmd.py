@@ -15,7 +15,7 @@ from curvetui.cli.common import add_units_option
 if TYPE_CHECKING:
     from rich.console import Console
 
-    from curvetui.batch.stream import Summary
+    from curvetui.batch.summary import Summary
 
 # pyarrow (batch.stream), the tables and Rich are imported in the functions that use them:
 # the parser of every sub-command is built on each start, and only `batch` needs them.
@@ -56,7 +56,8 @@ def run(args: argparse.Namespace) -> int:
     from rich.console import Console
     from rich.progress import BarColumn, Progress, TextColumn, TimeElapsedColumn
 
-    from curvetui.batch.stream import BatchFileError, run_batch
+    from curvetui.batch.header import BatchFileError
+    from curvetui.batch.stream import run_batch
     from curvetui.core.units import unit_system
     from curvetui.storage.files import atomic_binary
     from curvetui.storage.tables import rail_limits, road_table

@@ -133,7 +133,8 @@ def _open_csv(path: Path, args) -> int:
     --print) the batch summary. A file that cannot be used is refused before the app starts
     (exit code 2), as a bad project file is."""
     from curvetui.app.batch_results import open_source
-    from curvetui.batch.stream import BatchFileError, run_batch
+    from curvetui.batch.header import BatchFileError
+    from curvetui.batch.stream import run_batch
     from curvetui.cli.batch_cmd import print_summary
     from curvetui.core.units import unit_system
     from curvetui.storage.tables import rail_limits, road_table

@@ -20,7 +20,7 @@ from curvetui.app.session import Session
 from curvetui.core.rail import FAIL_EXCESS
 from curvetui.core.units import METRIC, UnitSystem
 from curvetui.inputs import InputError
-from curvetui.reports.pictures import (
+from curvetui.reports.charts import (
     RailChart,
     RoadChart,
     rail_chart_for_inputs,

@@ -17,7 +17,7 @@ from curvetui.app.session import Session
 from curvetui.core.spiral import GeometryError
 from curvetui.core.units import METRIC, UnitSystem
 from curvetui.inputs import InputError
-from curvetui.reports.pictures import (
+from curvetui.reports.plan import (
     ARC,
     SPIRAL_IN,
     SPIRAL_OUT,

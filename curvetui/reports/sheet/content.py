@@ -18,7 +18,7 @@ from curvetui.storage.project.model import Project
 
 @dataclass
 class BendSheet:
-    """What one bend's page prints, as text (the plan sketch as a pictures.PlanShape)."""
+    """What one bend's page prints, as text (the plan sketch as a plan.PlanShape)."""
 
     bend_id: str
     kind: str
@@ -33,7 +33,7 @@ class BendSheet:
     steps: list[Step]
     messages: list[str]
     error: str | None
-    plan: object | None = None  # pictures.PlanShape
+    plan: object | None = None  # plan.PlanShape
     plan_note: str = ""
     stations: dict[str, str] = field(default_factory=dict)
 
@@ -142,14 +142,14 @@ def _standard(outcome: Outcome, ctx: Context, units) -> list[tuple[str, str]]:
 
 
 def _plan(outcome: Outcome, units, sheet: BendSheet) -> None:
-    from curvetui.reports import pictures
+    from curvetui.reports.plan import plan_for_inputs, station_texts
 
     if outcome.record is None:
         sheet.plan_note = "No plan: the inputs have an error."
         return
     radius = units.length_to_si(outcome.record["radius"])
     try:
-        shape = pictures.plan_for_inputs(outcome.bend.inputs, units, radius)
+        shape = plan_for_inputs(outcome.bend.inputs, units, radius)
     except (InputError, GeometryError) as exc:
         sheet.plan_note = f"No plan: {exc}"
         return
@@ -157,7 +157,7 @@ def _plan(outcome: Outcome, units, sheet: BendSheet) -> None:
         sheet.plan_note = "No plan sketch: no deflection angle is given for this bend."
         return
     sheet.plan = shape
-    sheet.stations = pictures.station_texts(shape, units)
+    sheet.stations = station_texts(shape, units)
 
 
 def build(project_or_path, bend_ids=None) -> SheetSet:

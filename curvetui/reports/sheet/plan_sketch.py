@@ -26,7 +26,7 @@ def _nice_step(length: float) -> float:
 def pdf_plan(pdf, b: BendSheet, units, x0: float, y0: float, w: float, h: float) -> None:
     """The bend in plan (metres) scaled to the box (x0, y0, w, h) [mm], in vector lines;
     the scale bar and radius are given in the project's length unit."""
-    from curvetui.reports.pictures import ARC, TANGENT
+    from curvetui.reports.plan import ARC, TANGENT
 
     if b.plan is None:
         pdf.set_font(FONT, "", 7.5)

@@ -26,7 +26,8 @@ from curvetui import CAUTION
 from curvetui.app.batch_view import BatchApp, BatchScreen, RowScreen, build_batch_app
 from curvetui.app.widgets.batch_table import ResultTable
 from curvetui.app.widgets.worksheet import Worksheet
-from curvetui.batch.stream import BatchFileError, batch_bytes
+from curvetui.batch.header import BatchFileError
+from curvetui.batch.stream import batch_bytes
 from curvetui.cli import main
 from curvetui.core.units import unit_system
 from curvetui.storage.tables import rail_limits, road_table

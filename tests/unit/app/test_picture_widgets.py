@@ -19,7 +19,8 @@ from textual.geometry import Region
 from curvetui.app.widgets.charts import RailChartView, RoadChartView
 from curvetui.app.widgets.plan_sketch import NO_GEOMETRY, PlanSketch
 from curvetui.core.units import KMH, METRIC
-from curvetui.reports.pictures import plan_points, rail_chart, road_chart, station_texts
+from curvetui.reports.charts import rail_chart, road_chart
+from curvetui.reports.plan import plan_points, station_texts
 from curvetui.storage.tables import rail_limits, road_table
 
 pytestmark = pytest.mark.app  # starts Textual: `pytest -m "not app"` leaves it out

@@ -16,7 +16,8 @@ import numpy as np
 import pytest
 
 from curvetui.batch import columns as cols
-from curvetui.batch.stream import BatchFileError, batch_bytes
+from curvetui.batch.header import BatchFileError
+from curvetui.batch.stream import batch_bytes
 from curvetui.bend.messages import message_line
 from curvetui.bend.service import evaluate_bend
 from curvetui.core.units import METRIC, US

@@ -1,4 +1,5 @@
-"""Picture data: the plan of a bend and the road and rail charts (curvetui.reports.pictures).
+"""Picture data: the plan of a bend (curvetui.reports.plan) and the road and rail charts
+(curvetui.reports.charts).
 
 Check values come from:
 - plane geometry: a simple curve's PC lies T = R tan(D/2) before the PI, its arc centre R
@@ -31,17 +32,19 @@ from curvetui.core.circular import GeometryError
 from curvetui.core.rail import check_rail
 from curvetui.core.spiral import spiral_curve
 from curvetui.core.units import FOOT, KMH, METRIC, MPH
-from curvetui.reports.pictures import (
+from curvetui.reports.charts import (
+    rail_chart,
+    rail_chart_for_inputs,
+    road_chart,
+    road_chart_for_inputs,
+)
+from curvetui.reports.plan import (
     ARC,
     SPIRAL_IN,
     SPIRAL_OUT,
     TANGENT,
     plan_for_inputs,
     plan_points,
-    rail_chart,
-    rail_chart_for_inputs,
-    road_chart,
-    road_chart_for_inputs,
     station_texts,
 )
 from curvetui.storage.tables import rail_limits

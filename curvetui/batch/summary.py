@@ -1,0 +1,131 @@
+"""A run's summary: row counts by status, the worst failing bends and the first errors."""
+
+from __future__ import annotations
+
+import csv
+import heapq
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from curvetui.batch.chunk import ERROR, FAIL, PASS
+from curvetui.batch.header import Header
+
+WORST_SHOWN = 10
+
+
+@dataclass
+class Worst:
+    """One of the worst bends: its largest demand/limit ratio, row, id, kind, first reason."""
+
+    utilisation: float
+    row: int
+    id: str
+    kind: str
+    message: str
+
+
+@dataclass
+class Summary:
+    """Counts and the worst bends of a run."""
+
+    rows: int = 0
+    passed: int = 0
+    failed: int = 0
+    errors: int = 0
+    blank: int = 0  # rows with every cell empty: skipped, not bends
+    worst: list[Worst] = field(default_factory=list)
+    first_errors: list[Worst] = field(default_factory=list)
+    delimiter: str = ","
+    columns: tuple[str, ...] = ()
+
+    @property
+    def exit_code(self) -> int:
+        return 0 if self.failed == 0 and self.errors == 0 else 1
+
+
+@dataclass
+class Tally:
+    """One chunk's share of the summary: its counts, worst failures and first errors."""
+
+    rows: int = 0
+    passed: int = 0
+    failed: int = 0
+    errors: int = 0
+    worst: list[tuple[float, int, str, str, str]] = field(default_factory=list)
+    first_errors: list[Worst] = field(default_factory=list)
+
+
+def merge(summary: Summary, part: Tally, worst: list) -> None:
+    """Add one chunk's tally to the summary; ``worst`` is the heap of the worst failures."""
+    summary.rows += part.rows
+    summary.passed += part.passed
+    summary.failed += part.failed
+    summary.errors += part.errors
+    for item in part.worst:
+        if len(worst) < WORST_SHOWN:
+            heapq.heappush(worst, item)
+        elif item[0] > worst[0][0]:
+            heapq.heapreplace(worst, item)
+    room = WORST_SHOWN - len(summary.first_errors)
+    summary.first_errors += part.first_errors[: max(room, 0)]
+
+
+def finish(summary: Summary, worst: list) -> None:
+    """Keep the first errors by row and the worst failures, largest ratio first."""
+    summary.first_errors.sort(key=lambda w: w.row)
+    del summary.first_errors[WORST_SHOWN:]
+    summary.worst = [
+        Worst(u, r, i, k, m) for u, r, i, k, m in sorted(worst, key=lambda w: (-w[0], w[1]))
+    ][:WORST_SHOWN]
+
+
+def tally_rows(part: Tally, result, rows, batch, id_pos) -> None:
+    """Count one checked chunk's rows and keep its worst failures and first errors."""
+    status = result.status
+    part.rows += len(status)
+    part.passed += int(np.sum(status == PASS))
+    part.failed += int(np.sum(status == FAIL))
+    part.errors += int(np.sum(status == ERROR))
+    messages = result.columns["messages"]
+
+    def ident(i: int) -> str:
+        return "" if id_pos is None else str(batch.column(id_pos)[i].as_py()).strip()
+
+    fails = np.nonzero(status == FAIL)[0]
+    if len(fails):
+        util = np.nan_to_num(result.utilisation[fails], nan=0.0)
+        for i in fails[np.argsort(-util, kind="stable")[:WORST_SHOWN]]:
+            text = messages[int(i)].as_py() or ""
+            first = next((m for m in text.split("; ") if "FAIL" in m), text)
+            part.worst.append(
+                (
+                    float(np.nan_to_num(result.utilisation[i], nan=0.0)),
+                    int(rows[i]),
+                    ident(int(i)),
+                    "rail" if result.is_rail[i] else "road",
+                    first,
+                )
+            )
+    for i in np.nonzero(status == ERROR)[0][:WORST_SHOWN]:
+        text = messages[int(i)].as_py() or ""
+        part.first_errors.append(Worst(np.nan, int(rows[i]), ident(int(i)), "", text))
+
+
+def tally_bad_rows(part: Tally, bad, header: Header) -> None:
+    """Count rows with the wrong number of fields as errors, keeping the first ones."""
+    part.rows += len(bad)
+    part.errors += len(bad)
+    id_pos = header.known.get("id")
+    for number, actual, text in bad[:WORST_SHOWN]:
+        fields = next(csv.reader([text], delimiter=header.delimiter), [])
+        ident = fields[id_pos].strip() if id_pos is not None and id_pos < len(fields) else ""
+        part.first_errors.append(
+            Worst(
+                np.nan,
+                number,
+                ident,
+                "",
+                f"ERROR row {number}: {actual} fields where the header has {len(header.names)}",
+            )
+        )
