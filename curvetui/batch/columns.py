@@ -10,7 +10,7 @@ with the prefix ``check.``.
 from __future__ import annotations
 
 from curvetui.bend.fields import column_names
-from curvetui.bend.outputs import OUTPUTS, SPIRAL_OUT, STATIONS
+from curvetui.bend.outputs import OUTPUTS, RUNOFF_STATIONS, SPIRAL_OUT, STATIONS
 from curvetui.bend.outputs import TEXT as TEXT_OUTPUT
 
 FIELD_OF_COLUMN = column_names()  # column name (lower case) -> field key
@@ -37,6 +37,8 @@ _NEEDS = (
     ("geometry.", "deflection"),
     ("sight.", "obstruction_offset"),
     *((f"geometry.{k}", "pi_station") for k in STATIONS),
+    *((f"transition.{k}", "deflection") for k in RUNOFF_STATIONS),
+    *((f"transition.{k}", "pi_station") for k in RUNOFF_STATIONS),
     *((f"geometry.{k}", "spiral_out") for k in (*SPIRAL_OUT, "spiral_angle_out")),
 )
 

@@ -14,6 +14,7 @@ import numpy as np
 
 from curvetui.bend.outputs import OUTPUTS, TEXT
 from curvetui.bend.parse import Issue, Parsed
+from curvetui.bend.road_transition import road_transition
 from curvetui.core import transitions as tr
 from curvetui.core.circular import circular_curve
 from curvetui.core.rail import RailLimits, check_rail, rail_centres_for_gauge
@@ -32,7 +33,19 @@ SPIRAL_IN_LONG = 1 << 1  # given spiral in above the lateral-shift maximum (road
 SPIRAL_OUT_SHORT = 1 << 2
 SPIRAL_OUT_LONG = 1 << 3
 GEOMETRY_SKIPPED = 1 << 4  # spiral or PI station given without a deflection
+NO_SPIRAL_FITS = 1 << 5  # a spiral is given, but no length meets minimum and maximum
+SPIRAL_NOT_SUITABLE = 1 << 6  # no spiral given, and none would fit: a note
+CURVE_TOO_SHORT = 1 << 7  # no spiral: the curve is too short to reach full superelevation
 SPIRAL_FAIL_MASK = SPIRAL_IN_SHORT | SPIRAL_IN_LONG | SPIRAL_OUT_SHORT | SPIRAL_OUT_LONG
+ROAD_SPIRAL_FLAGS = {
+    "spiral_in_short": SPIRAL_IN_SHORT,
+    "spiral_in_long": SPIRAL_IN_LONG,
+    "spiral_out_short": SPIRAL_OUT_SHORT,
+    "spiral_out_long": SPIRAL_OUT_LONG,
+    "no_fit": NO_SPIRAL_FITS,
+    "not_suitable": SPIRAL_NOT_SUITABLE,
+    "too_short": CURVE_TOO_SHORT,
+}
 
 ROAD_CHECKS = ("radius", "friction", "superelevation", "transition", "sight")
 RAIL_CHECKS = ("cant", "deficiency", "excess", "balance", "transition")
@@ -91,6 +104,10 @@ class Evaluation:
     @property
     def n(self) -> int:
         return self.parsed.n
+
+    def spiral_length(self, key: str, rows) -> np.ndarray:
+        """Spiral length [m] of each row, 0 without one; spiral out defaults to in."""
+        return _spiral(self, key, rows)
 
     def values_si_spiral(self, key: str, i: int) -> float:
         """The spiral length [m] row ``i`` gives at one end (spiral out defaults to in)."""
@@ -182,43 +199,9 @@ def _road(ev: Evaluation, rows: np.ndarray) -> None:
         si["lane_width"][rows],
         DEFAULT_LANE_WIDTH[units.name],
     )
-    t = tr.road_transition(table, v, r, check.superelevation, lane_width=width)
-    ev.parts["road_transition"], ev.part_rows["road_transition"] = t, rows
-    for key in (
-        "spiral_length_min",
-        "spiral_length_max",
-        "length_comfort",
-        "length_shift_min",
-        "length_shift_max",
-        "runoff",
-        "runout",
-    ):
-        _put(ev, f"transition.{key}", rows, units.length_from_si(getattr(t, key)))
-    _put(ev, "transition.relative_gradient", rows, 100 * t.relative_gradient)
-    ev.texts["transition.governing"][rows] = np.asarray(tr.ROAD_GOVERNING, object)[t.governing]
     curve_length = _geometry(ev, rows, r)
-    t_failed = np.asarray(t.failed).copy()
-    t_failed |= _road_spirals(ev, rows, t)
-    _check(ev, "transition", rows, t_failed)
-    ev.texts["transition.status"][rows] = np.where(t_failed, "fail", "pass")
+    road_transition(ev, rows, v, r, check.superelevation, width, ROAD_SPIRAL_FLAGS)
     _sight(ev, rows, v, r, width, curve_length)
-
-
-def _road_spirals(ev: Evaluation, rows, t) -> np.ndarray:
-    """Flag given spirals outside [minimum, lateral-shift maximum], on unrounded lengths."""
-    failed = np.zeros(len(rows), bool)
-    lo, hi = t.spiral_length_min, t.spiral_length_max
-    for key, short, long in (
-        ("spiral_in", SPIRAL_IN_SHORT, SPIRAL_IN_LONG),
-        ("spiral_out", SPIRAL_OUT_SHORT, SPIRAL_OUT_LONG),
-    ):
-        ls = _spiral(ev, key, rows)
-        with np.errstate(invalid="ignore"):
-            is_short = (ls > 0) & (ls < lo * (1 - 1e-12))
-            is_long = (ls > 0) & (ls > hi * (1 + 1e-12))
-        ev.bend_flags[rows] |= np.where(is_short, short, 0) | np.where(is_long, long, 0)
-        failed |= is_short | is_long
-    return failed
 
 
 def _spiral(ev: Evaluation, key: str, rows) -> np.ndarray:

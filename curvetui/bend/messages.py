@@ -152,14 +152,40 @@ RULES: tuple[Rule, ...] = (
     *(Rule("road", bit, sev, code, b, c, "", keys) for bit, sev, code, b, c, keys in ROAD_MESSAGES),
     *(Rule("rail", bit, sev, code, b, c, "", keys) for bit, sev, code, b, c, keys in RAIL_MESSAGES),
     Rule(
-        "road_transition",
-        tr.FAIL_NO_SPIRAL_LENGTH,
+        "bend",
+        ev_mod.NO_SPIRAL_FITS,
         "fail",
         "no_spiral_length_fits",
         _const("no spiral length satisfies both the minimum and the lateral-shift maximum"),
         True,
         "transition",
         ("transition.spiral_length_min", "transition.spiral_length_max"),
+    ),
+    Rule(
+        "bend",
+        ev_mod.SPIRAL_NOT_SUITABLE,
+        "note",
+        "spiral_not_suitable",
+        _const(
+            "a spiral is not suitable here: no length meets both the minimum and the "
+            "lateral-shift maximum (the bend has none, so this is not checked)"
+        ),
+        True,
+        "transition",
+        ("transition.spiral_length_min", "transition.spiral_length_max"),
+    ),
+    Rule(
+        "bend",
+        ev_mod.CURVE_TOO_SHORT,
+        "warning",
+        "curve_too_short_for_full_superelevation",
+        _const(
+            "the curve is too short to reach full superelevation with this share of the "
+            "runoff on the tangents"
+        ),
+        True,
+        "transition",
+        ("transition.full_superelevation_in", "transition.full_superelevation_out"),
     ),
     Rule(
         "bend",

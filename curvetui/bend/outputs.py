@@ -75,6 +75,14 @@ ROAD_TRANSITION = (
     "runoff",
     "runout",
 )
+RUNOFF_STATIONS = (
+    "runout_start",
+    "level_crown_in",
+    "full_superelevation_in",
+    "full_superelevation_out",
+    "level_crown_out",
+    "runout_end",
+)
 RAIL_TRANSITION = ("length", "length_cant_gradient", "length_cant_rate", "length_deficiency_rate")
 CIRCULAR = ("tangent", "length", "external", "middle_ordinate", "long_chord")
 SPIRAL = ("xs", "ys", "p", "k", "total_tangent", "external", "circular_length", "total_length")
@@ -104,6 +112,8 @@ OUTPUTS: tuple[Output, ...] = (
     _o("transition.governing", rounding=TEXT),
     _o("transition.status", rounding=TEXT),
     *(_o(f"transition.{k}", (ROAD,)) for k in ROAD_TRANSITION),
+    _o("transition.runoff_on_tangent", (ROAD,)),
+    *(_o(f"transition.{k}", (ROAD,), PLACES) for k in RUNOFF_STATIONS),
     *(_o(f"transition.{k}", (RAIL,)) for k in RAIL_TRANSITION),
     _o("geometry.type", rounding=TEXT),
     _o("geometry.deflection", rounding=ANGLE, echo=True),

@@ -305,3 +305,33 @@ def rail_transition_for(limits: RailLimits, cant, cant_deficiency, speed) -> Rai
     result = rail_transition(cant, cant_deficiency, speed, g_max, r_max, dr_max)
     flags = result.flags | np.where(above, WARN_SPEED_OUTSIDE_LIMITS, 0)
     return replace(result, flags=np.asarray(flags, dtype=np.int64))
+
+
+def runoff_stations(pc, pt, runoff, runout, share_on_tangent=2.0 / 3.0) -> dict:
+    """Stations [m] of the superelevation transition of a simple curve (no spiral).
+
+    A share ``share_on_tangent`` of the runoff L_r lies on the tangent before the PC (and
+    after the PT), the rest on the curve; the tangent runout L_t precedes the runoff:
+    runout start = PC - s L_r - L_t, level crown = PC - s L_r, full superelevation from
+    PC + (1 - s) L_r to PT - (1 - s) L_r, then level crown at PT + s L_r and the runout end
+    at PT + s L_r + L_t. AASHTO advises 60 to 90 % of the runoff on the tangent (Rosenow,
+    MnDOT 2015, abstract, read); the *Highway Engineering Handbook* places two-thirds of
+    full superelevation at the PC and PT (read). ``too_short`` is True where the curve is
+    shorter than the two shares of the runoff it must carry, so full superelevation is
+    never reached.
+    """
+    s = np.asarray(share_on_tangent, dtype=float)
+    lr = np.asarray(runoff, dtype=float)
+    lt = np.asarray(runout, dtype=float)
+    pc, pt = np.asarray(pc, dtype=float), np.asarray(pt, dtype=float)
+    full_in = pc + (1.0 - s) * lr
+    full_out = pt - (1.0 - s) * lr
+    return {
+        "runout_start": pc - s * lr - lt,
+        "level_crown_in": pc - s * lr,
+        "full_superelevation_in": full_in,
+        "full_superelevation_out": full_out,
+        "level_crown_out": pt + s * lr,
+        "runout_end": pt + s * lr + lt,
+        "too_short": full_in > full_out,
+    }

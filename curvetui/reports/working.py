@@ -256,10 +256,8 @@ def _transition_steps(record: dict, units: UnitSystem) -> list[Step]:
     status = "fail" if t["status"] == "fail" else ("" if t["status"] != "pass" else "pass")
     if "spiral_length_min" in t:
         lo, hi = t["spiral_length_min"], t["spiral_length_max"]
-        spiralled = (record.get("geometry") or {}).get("type") == "spiral-curve-spiral"
-        if not spiralled and status == "pass":
-            status = ""  # a range to design to; no spiral given, so nothing to check
-        return [
+        spiralled = "runoff_on_tangent" not in t  # placed on the tangent only without one
+        steps = [
             Step(
                 "Spiral length",
                 "max(v^3/(C R), sqrt(24 p_min R), runoff) ... sqrt(24 p_max R)",
@@ -267,9 +265,24 @@ def _transition_steps(record: dict, units: UnitSystem) -> list[Step]:
                 f"{_num(t['length_shift_min'])}, runoff {_num(t['runoff'])} {ln}",
                 f"{_num(lo)} to {_num(hi)} {ln} ({t['governing']} governs)",
                 "Green Book 2018 section 3.3.8 (from memory)",
-                status,
+                status if spiralled else "",  # without a spiral: a range to design to
             )
         ]
+        if not spiralled:
+            share = t["runoff_on_tangent"]
+            steps.append(
+                Step(
+                    "Runoff placement (no spiral)",
+                    "share s of L_r on the tangent; full e from PC + (1 - s) L_r",
+                    f"s = {share:.3g}, L_r = {_num(t['runoff'])} {ln}, "
+                    f"L_t = {_num(t['runout']) if t['runout'] is not None else '-'} {ln}",
+                    f"{_num(share * t['runoff'])} {ln} on each tangent",
+                    "AASHTO via Rosenow 2015 (60 to 90 % on the tangent); Highway Engineering "
+                    "Handbook (two-thirds)",
+                    status,
+                )
+            )
+        return steps
     return [
         Step(
             "Transition length",
