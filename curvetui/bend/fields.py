@@ -120,10 +120,7 @@ FIELDS: tuple[Field, ...] = (
         SPEED,
         BOTH,
         "design speed; on rail the fastest train",
-        {
-            ROAD: {"metric": (1.0, 200.0), "us": (1.0, 125.0)},
-            RAIL: {"metric": (1.0, 400.0), "us": (1.0, 250.0)},
-        },
+        {RAIL: {"metric": (1.0, 400.0), "us": (1.0, 250.0)}},  # road: the table's rows,
         required=BOTH,
     ),
     _f(
@@ -317,7 +314,11 @@ def docs_table() -> str:
     """The README's input table (Markdown), from the field list."""
     from curvetui.core.units import METRIC, US
 
-    dynamic = {"emax": "the road table's e_max range", "low_speed": "0 to the speed"}
+    dynamic = {
+        "emax": "the road table's e_max range",
+        "low_speed": "0 to the speed",
+        "speed": "road: the road table's speeds",
+    }
     rows = [
         "| input | option | applies to | unit (metric / US) | allowed (metric / US) "
         "| blank means |",
@@ -335,7 +336,7 @@ def docs_table() -> str:
             if pair:
                 text = pair[0] if pair[0] == pair[1] else " / ".join(pair)
                 texts.append(f"{kind}: {text}" if len(f.kinds) > 1 else text)
-        allowed = "; ".join(dict.fromkeys(texts)) or dynamic.get(f.key, "")
+        allowed = "; ".join([*([dynamic[f.key]] if f.key in dynamic else []), *texts])
         if len(set(t.split(": ", 1)[-1] for t in texts)) == 1 and texts:
             allowed = texts[0].split(": ", 1)[-1]
         units_txt = f"{f.unit_label(METRIC) or '-'} / {f.unit_label(US) or '-'}"

@@ -137,6 +137,9 @@ def _dynamic_range(f: Field, kind: str, units: UnitSystem, table: RoadTable, col
         return 100 * table.emax_min, 100 * table.emax_max, f"% (table {table.name})"
     if f.key == "low_speed":
         return 0.0, cols["speed"].value, units.speed_label
+    if f.key == "speed" and kind == ROAD:  # never beyond the table's first or last row
+        lo, hi = (float(units.speed_from_si(x)) for x in table.speeds_si[[0, -1]])
+        return lo, hi, f"{units.speed_label} (table {table.name})"
     return None
 
 

@@ -44,7 +44,11 @@ def _friction(c: RoadCheck, i, t: RoadTable, u: UnitSystem) -> str:
     return (
         f"side friction demand {float(c.side_friction_demand[i]):.3f} exceeds "
         f"f_max {float(c.side_friction_max[i]):.3f}; safe speed is "
-        f"{_spd(u, c.safe_speed[i])}"
+        + (
+            f"{_spd(u, c.safe_speed[i])}"
+            if c.safe_speed[i] == c.safe_speed[i]  # NaN: below the table's lowest speed
+            else f"below the table's lowest speed {float(t.speeds[0]):g}"
+        )
     )
 
 
@@ -88,8 +92,23 @@ def _remove_crown(c, i, t: RoadTable, u) -> str:
     )
 
 
-def _safe_extrapolated(c, i, t: RoadTable, u) -> str:
-    return f"safe speed lies outside the table ({_table_range(t)}): f_max extrapolated"
+def _safe_at_least(c, i, t: RoadTable, u) -> str:
+    return (
+        f"safe speed is at least the table's top speed {_table_top(t)}: the table gives no "
+        "f_max beyond it, so no higher speed is claimed"
+    )
+
+
+def _safe_below(c, i, t: RoadTable, u) -> str:
+    return (
+        f"safe speed is below the table's lowest speed ({_table_range(t)}): even that speed "
+        "needs more side friction than the table allows"
+    )
+
+
+def _table_top(t: RoadTable) -> str:
+    tu = "km/h" if t.units == "metric" else "mph"
+    return f"{float(t.speeds[-1]):g} {tu}"
 
 
 def _friction_given(c, i, t, u) -> str:
@@ -136,14 +155,8 @@ ROAD_MESSAGES: tuple = (
     (road.WARN_EMAX_NOT_TABULATED, "warning", "emax_not_tabulated", _emax, False, ("e_max",)),
     (road.NOTE_NORMAL_CROWN, "note", "normal_crown", _normal_crown, True, ()),
     (road.NOTE_REMOVE_CROWN, "note", "remove_adverse_crown", _remove_crown, True, ()),
-    (
-        road.WARN_SAFE_SPEED_EXTRAPOLATED,
-        "warning",
-        "safe_speed_extrapolated",
-        _safe_extrapolated,
-        True,
-        ("safe_speed",),
-    ),
+    (road.NOTE_SAFE_SPEED_AT_LEAST, "note", "safe_speed_at_least", _safe_at_least, True, ()),
+    (road.WARN_SAFE_SPEED_BELOW_TABLE, "warning", "safe_speed_below_table", _safe_below, True, ()),
     (road.NOTE_FRICTION_GIVEN, "note", "friction_given", _friction_given, True, ()),
     (
         road.WARN_BELOW_DESIGN_E,

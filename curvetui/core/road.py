@@ -30,7 +30,8 @@ WARN_INTERPOLATED = 1 << 5  # design speed between table rows
 WARN_EMAX_NOT_TABULATED = 1 << 6
 NOTE_NORMAL_CROWN = 1 << 7
 NOTE_REMOVE_CROWN = 1 << 8
-WARN_SAFE_SPEED_EXTRAPOLATED = 1 << 9
+NOTE_SAFE_SPEED_AT_LEAST = 1 << 9  # the bend carries the table's top speed: "at least"
+WARN_SAFE_SPEED_BELOW_TABLE = 1 << 12  # even the table's lowest speed needs more than f_max
 NOTE_FRICTION_GIVEN = 1 << 10
 WARN_BELOW_DESIGN_E = 1 << 11  # superelevation given below the distribution's value
 FAIL_MASK = FAIL_RADIUS | FAIL_FRICTION | FAIL_SUPERELEVATION
@@ -62,10 +63,13 @@ def safe_speed(table: RoadTable, radius, superelevation, friction=None):
 
     f_max falls with speed and is piecewise linear between table rows, so on the segment
     where the crossing lies, v^2/(k R) - e = f_i + b (v - v_i) is a quadratic in v, solved
-    exactly. Outside the table the end segments are extended (flagged by the caller).
-    With a fixed ``friction`` the answer is v = sqrt(k R (e + f)).
+    exactly. The table is never extended: where the bend could be driven faster than the
+    table's last row, the answer is that row's speed and ``beyond`` says "at least" (+1);
+    where even the first row's speed needs more friction than f_max, the answer is NaN and
+    ``beyond`` is -1 ("below the table"). With a fixed ``friction`` the answer is
+    v = sqrt(k R (e + f)) and ``beyond`` is 0.
 
-    Returns (speed [m/s], extrapolated [bool array]).
+    Returns (speed [m/s], beyond [int array: -1, 0 or +1]).
     """
     r = np.asarray(radius, dtype=float)
     e = np.asarray(superelevation, dtype=float)
@@ -73,7 +77,7 @@ def safe_speed(table: RoadTable, radius, superelevation, friction=None):
     if friction is not None:
         total = np.maximum(e + np.asarray(friction, dtype=float), 0.0)
         v = np.sqrt(k * r * total)
-        return v, np.zeros(np.shape(v), dtype=bool)
+        return v, np.zeros(np.shape(v), dtype=int)
     xs = table.speeds_si
     fs = table.side_friction_max
     r_, e_ = np.broadcast_arrays(r, e)
@@ -88,8 +92,9 @@ def safe_speed(table: RoadTable, radius, superelevation, friction=None):
     with np.errstate(invalid="ignore"):
         v = (slope + np.sqrt(np.maximum(disc, 0.0))) / (2.0 * a)
     v = np.where((disc < 0) | (v < 0), 0.0, v)
-    extrapolated = (count == 0) | (count == len(xs))
-    return v, extrapolated
+    beyond = np.where(count == 0, -1, np.where(count == len(xs), 1, 0))
+    v = np.where(beyond == 1, xs[-1], np.where(beyond == -1, np.nan, v))
+    return v, beyond
 
 
 @dataclass(frozen=True)
@@ -165,7 +170,7 @@ def check_road(
     demand = side_friction_demand(v, r, e_use, k)
 
     # safe speed: by f_max(v) from the table, or by the fixed friction the user gave
-    v_safe_table, extrap = safe_speed(table, r, e_use)
+    v_safe_table, beyond = safe_speed(table, r, e_use)
     v_safe_fixed, _ = safe_speed(table, r, e_use, np.where(has_f, f_given, 0.0))
     v_safe = np.where(has_f, v_safe_fixed, v_safe_table)
 
@@ -180,7 +185,8 @@ def check_road(
     flags |= np.where(tabulated, 0, WARN_EMAX_NOT_TABULATED)
     flags |= np.where(~has_e & (section == se.NORMAL_CROWN), NOTE_NORMAL_CROWN, 0)
     flags |= np.where(~has_e & (section == se.REMOVE_CROWN), NOTE_REMOVE_CROWN, 0)
-    flags |= np.where(extrap & ~has_f, WARN_SAFE_SPEED_EXTRAPOLATED, 0)
+    flags |= np.where((beyond == 1) & ~has_f, NOTE_SAFE_SPEED_AT_LEAST, 0)
+    flags |= np.where((beyond == -1) & ~has_f, WARN_SAFE_SPEED_BELOW_TABLE, 0)
     flags |= np.where(has_f, NOTE_FRICTION_GIVEN, 0)
     flags |= np.where(has_e & (e_given < e_design - 5e-5), WARN_BELOW_DESIGN_E, 0)
 

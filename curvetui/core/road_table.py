@@ -102,18 +102,15 @@ class RoadTable:
     def lookup(self, column: np.ndarray, speed_si) -> tuple[np.ndarray, np.ndarray]:
         """Linear interpolation of ``column`` at ``speed_si`` [m/s], with the look-up kind.
 
-        Outside the table the end segments are extended linearly (and flagged): for side
-        friction this keeps the falling trend instead of holding the end value.
+        Outside the table there is no value (NaN, flagged BELOW_TABLE / ABOVE_TABLE): a
+        friction factor, gradient or running speed is never extrapolated past the first or
+        last row; the bend layer refuses such speeds before they get here.
         """
         v = np.asarray(speed_si, dtype=float)
         xs = self.speeds_si
-        value = np.interp(v, xs, column)
-        lo = v < xs[0]
-        hi = v > xs[-1]
-        slope_lo = (column[1] - column[0]) / (xs[1] - xs[0])
-        slope_hi = (column[-1] - column[-2]) / (xs[-1] - xs[-2])
-        value = np.where(lo, column[0] + slope_lo * (v - xs[0]), value)
-        value = np.where(hi, column[-1] + slope_hi * (v - xs[-1]), value)
+        lo = v < xs[0] * (1 - 1e-12)
+        hi = v > xs[-1] * (1 + 1e-12)
+        value = np.where(lo | hi, np.nan, np.interp(v, xs, column))
         on_row = np.isclose(v[..., None], xs, rtol=0, atol=1e-9).any(axis=-1)
         kind = np.where(on_row, ROW, INTERPOLATED)
         kind = np.where(lo, BELOW_TABLE, np.where(hi, ABOVE_TABLE, kind))

@@ -211,7 +211,9 @@ def test_bad_speed_names_field_and_range_marks_input_and_keeps_last_good(demo_pa
         await pilot.pause()
         st = app.session.state(app.current)
         message = str(app.query_one("#field-error").content)
-        assert message.startswith("speed: must be a number from 1 to 200 km/h"), message
+        assert message.startswith(
+            "speed: must be a number from 15 to 130 km/h (table aashto-2018-metric)"  # noqa: E501
+        ), message
         assert "'abc'" in message
         assert box.has_class("-invalid")
         assert not app.query_one("#in-radius", Input).has_class("-invalid")
@@ -235,7 +237,7 @@ def test_bad_speed_message_is_on_screen_at_120x40(demo_path):
     async def steps(app, pilot):
         await go_to(app, pilot, "QV-04")
         await retype(pilot, app, "speed", "abc")
-        assert "speed: must be a number from 1 to 200" in flat(screen_text(app))
+        assert "speed: must be a number from 15 to 130" in flat(screen_text(app))
 
     drive(demo_path, steps, LARGE)
 
@@ -244,7 +246,7 @@ def test_bad_speed_message_is_on_screen_at_80x24(demo_path):
     async def steps(app, pilot):
         await go_to(app, pilot, "QV-04")
         await set_box(pilot, app, "speed", "abc")
-        assert "speed: must be a number from 1 to 200" in flat(screen_text(app))
+        assert "speed: must be a number from 15 to 130" in flat(screen_text(app))
 
     drive(demo_path, steps, SMALL)
 

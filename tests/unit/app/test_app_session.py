@@ -87,9 +87,21 @@ def test_valid_input_updates_the_record(session):
 @pytest.mark.parametrize(
     ("key", "text", "expected"),
     [
-        ("speed", "abc", "speed: must be a number from 1 to 200 km/h, got 'abc'"),
-        ("speed", "0", "speed: must be a number from 1 to 200 km/h, got 0"),
-        ("speed", "-5", "speed: must be a number from 1 to 200 km/h, got -5"),
+        (
+            "speed",
+            "abc",
+            "speed: must be a number from 15 to 130 km/h (table aashto-2018-metric), got 'abc'",  # noqa: E501
+        ),
+        (
+            "speed",
+            "0",
+            "speed: must be a number from 15 to 130 km/h (table aashto-2018-metric), got 0",  # noqa: E501
+        ),
+        (
+            "speed",
+            "-5",
+            "speed: must be a number from 15 to 130 km/h (table aashto-2018-metric), got -5",  # noqa: E501
+        ),
         ("emax", "30", "emax: must be a number from 4 to 12 %"),
         ("radius", "abc", "radius: must be a number from 1 to 100000 m, got 'abc'"),
     ],

@@ -26,5 +26,8 @@ def test_a_message_with_a_semicolon_stays_one_item(tmp_path):
     assert b1.first_message.startswith("FAIL radius")
     assert all(sev == "fail" for sev, line in b1.items if line.startswith("FAIL"))
     assert rows["B2"].items == (
-        ("error", "ERROR row 3, column speed: must be a number from 1 to 200 km/h, got 'fast'"),
+        (
+            "error",
+            "ERROR row 3, column speed: must be a number from 15 to 130 km/h (table aashto-2018-metric), got 'fast'",  # noqa: E501
+        ),
     )

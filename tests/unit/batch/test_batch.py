@@ -219,7 +219,7 @@ def test_mixed_file_with_bad_rows_keeps_checking():
     assert by_id["QV-01"]["status"] == "pass" and by_id["QV-09"]["status"] == "pass"
     assert by_id["QV-07"]["status"] == "fail"
     assert by_id["QV-02"]["messages"] == (
-        "ERROR row 3, column speed: must be a number from 1 to 200 km/h, got 'fast'"
+        "ERROR row 3, column speed: must be a number from 15 to 130 km/h (table aashto-2018-metric), got 'fast'"  # noqa: E501
     )
     assert by_id["QV-03"]["messages"] == "ERROR row 4, column speed: required"
     assert by_id["QV-04"]["messages"] == (
@@ -307,11 +307,14 @@ def test_blank_lines_are_skipped_and_rows_keep_their_numbers():
 @pytest.mark.parametrize(
     "cells, ok",
     [
-        (("road", "200", "100000"), True),  # the allowed ends are accepted
-        (("road", "1", "1"), True),
+        # the allowed ends are accepted: the road table's speeds (Green Book 2018 Table 3-7,
+        # 15 to 130 km/h) and radii from 1 m to 100 km
+        (("road", "130", "100000"), True),
+        (("road", "15", "1"), True),
+        (("road", "14.9", "400"), False),
         (("rail", "400", "100000", "300"), True),
         (("rail", "1", "20", "0"), True),
-        (("road", "200.0001", "400"), False),
+        (("road", "130.0001", "400"), False),
         (("road", "1e2", "4e2"), True),  # 100 km/h on 400 m in exponent form
         (("road", "nan", "400"), False),
         (("road", "inf", "400"), False),

@@ -77,7 +77,10 @@ def test_us_customary_units(capsys):
 @pytest.mark.parametrize(
     "args, fragment",
     [
-        (["--speed", "0", "--radius", "400"], "--speed: must be a number from 1 to 200 km/h"),
+        (
+            ["--speed", "0", "--radius", "400"],
+            "--speed: must be a number from 15 to 130 km/h (table aashto-2018-metric)",  # noqa: E501
+        ),
         (["--speed", "-20", "--radius", "400"], "--speed"),
         (["--speed", "fast", "--radius", "400"], "got 'fast'"),
         (["--speed", "100", "--radius", "nan"], "--radius: must be a number"),
@@ -107,7 +110,7 @@ def test_table_row_without_source_is_refused(tmp_path, capsys):
     from curvetui.storage.tables import road_table
 
     text = road_table("aashto-2018-metric").path
-    body = open(text, encoding="utf-8").read().replace('source = "all values from memory"', "", 1)
+    body = open(text, encoding="utf-8").read().replace('source = "f_max read: Green Book 2018 Table 3-7 (confirm against a licensed copy); running speed and gradient from memory"', "", 1)  # noqa: E501
     path = tmp_path / "nosource.toml"
     path.write_text(body)
     code = main(["check", "road", "--speed", "50", "--radius", "400", "--table", str(path)])

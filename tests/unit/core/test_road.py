@@ -371,8 +371,18 @@ def test_safe_speed_with_given_friction(metric):
     assert float(c.safe_speed) / KMH == pytest.approx(90.1554, abs=1e-4)
 
 
-def test_safe_speed_extrapolated_flag(metric):
-    """A radius so large that the safe speed lies above 130 km/h, the table's top row."""
+def test_safe_speed_is_at_least_the_tables_top_speed(metric):
+    """A radius so large that the bend carries 130 km/h, the table's top row (Green Book
+    2018 Table 3-7 ends there): the safe speed is reported as at least 130 km/h, never
+    beyond the table (issue 13)."""
     c = check_road(metric, 100 * KMH, 3000.0, e_max=0.08)
-    assert float(c.safe_speed) / KMH > 130
-    assert c.flags & road.WARN_SAFE_SPEED_EXTRAPOLATED
+    assert float(c.safe_speed) / KMH == pytest.approx(130.0)
+    assert c.flags & road.NOTE_SAFE_SPEED_AT_LEAST
+
+
+def test_safe_speed_below_the_tables_lowest_speed_is_unknown(metric):
+    """R 2 m with e 0: even 15 km/h (4.17 m/s) needs f = 4.17^2 / (9.799 x 2) = 0.89, above
+    Table 3-7's f_max 0.40 at 15 km/h: no safe speed inside the table."""
+    c = check_road(metric, 20 * KMH, 2.0, e_max=0.04, superelevation=0.0)
+    assert np.isnan(float(c.safe_speed))
+    assert c.flags & road.WARN_SAFE_SPEED_BELOW_TABLE

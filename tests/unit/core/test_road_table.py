@@ -43,12 +43,11 @@ def test_lookup_between_rows_interpolates_linearly(us, metric):
     assert int(kind) == INTERPOLATED
 
 
-def test_lookup_outside_extends_end_segments(us):
-    """Outside the table the end segments are extended (engine's documented choice, no
-    published source): 10 mph: 0.32 + 5 x (0.32 - 0.27)/5 = 0.37; 90 mph: 0.08 + 10 x
-    (0.08 - 0.09)/5 = 0.06."""
-    f, kind = us.f_max(np.array([10.0, 90.0]) * MPH)
-    np.testing.assert_allclose(f, [0.37, 0.06], rtol=0, atol=1e-12)
+def test_lookup_outside_the_table_gives_no_value(us):
+    """Never extrapolated past the first or last row (issue 13): Green Book 2018 Table 3-7
+    runs from 10 to 80 mph, so 5 and 90 mph have no f_max."""
+    f, kind = us.f_max(np.array([5.0, 90.0]) * MPH)
+    assert np.isnan(f).all()
     assert list(kind) == [BELOW_TABLE, ABOVE_TABLE]
 
 

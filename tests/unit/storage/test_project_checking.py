@@ -272,7 +272,11 @@ def checked_by_schema(path: Path) -> Path:
 @pytest.mark.parametrize(
     ("inputs", "field", "allowed"),
     [
-        ({"speed": 300}, "speed", "must be a number from 1 to 200 km/h, got 300"),
+        (
+            {"speed": 300},
+            "speed",
+            "must be a number from 15 to 130 km/h (table aashto-2018-metric), got 300",  # noqa: E501
+        ),
         ({"emax": 15}, "emax", "must be a number from 4 to 12 %"),
     ],
 )
