@@ -142,19 +142,13 @@ class _Messages:
 
 
 def _rounded(key: str, values: np.ndarray) -> np.ndarray:
-    """The column rounded as JSON rounds it; only its set cells are worked on."""
-    has = ~np.isnan(values)
-    if not has.any():  # a column no row of this chunk has (rail in a road chunk)
+    """The column rounded as JSON rounds it."""
+    if np.isnan(values).all():  # a column no row of this chunk has (rail in a road chunk)
         return values
     rule = out.BY_KEY[key].rounding
-    cells = values[has]
     if rule == out.PLACES:
-        cells = round_places(cells)
-    else:
-        cells = round_significant(cells, 9 if rule == out.ANGLE else 6)
-    result = values.copy()
-    result[has] = cells
-    return result
+        return round_places(values)
+    return round_significant(values, 9 if rule == out.ANGLE else 6)
 
 
 def _without(piece, mask: np.ndarray):

@@ -111,7 +111,9 @@ class RoadTable:
         lo = v < xs[0] * (1 - 1e-12)
         hi = v > xs[-1] * (1 + 1e-12)
         value = np.where(lo | hi, np.nan, np.interp(v, xs, column))
-        on_row = np.isclose(v[..., None], xs, rtol=0, atol=1e-9).any(axis=-1)
+        at = np.clip(np.searchsorted(xs, v), 1, len(xs) - 1)  # the nearest rows either side
+        with np.errstate(invalid="ignore"):
+            on_row = (np.abs(v - xs[at]) <= 1e-9) | (np.abs(v - xs[at - 1]) <= 1e-9)
         kind = np.where(on_row, ROW, INTERPOLATED)
         kind = np.where(lo, BELOW_TABLE, np.where(hi, ABOVE_TABLE, kind))
         return value, kind
