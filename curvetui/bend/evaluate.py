@@ -36,6 +36,7 @@ GEOMETRY_SKIPPED = 1 << 4  # spiral or PI station given without a deflection
 NO_SPIRAL_FITS = 1 << 5  # a spiral is given, but no length meets minimum and maximum
 SPIRAL_NOT_SUITABLE = 1 << 6  # no spiral given, and none would fit: a note
 CURVE_TOO_SHORT = 1 << 7  # no spiral: the curve is too short to reach full superelevation
+GAUGE_NOT_COVERED = 1 << 8  # the curve's gauge is not the one the rail limits are set for
 SPIRAL_FAIL_MASK = SPIRAL_IN_SHORT | SPIRAL_IN_LONG | SPIRAL_OUT_SHORT | SPIRAL_OUT_LONG
 ROAD_SPIRAL_FLAGS = {
     "spiral_in_short": SPIRAL_IN_SHORT,
@@ -329,10 +330,13 @@ def _rail(ev: Evaluation, rows: np.ndarray) -> None:
     units, limits, si, present = ev.ctx.units, ev.ctx.limits, ev.parsed.si, ev.parsed.present
     v, r, ea, low = si["speed"][rows], si["radius"][rows], si["cant"][rows], si["low_speed"][rows]
     s = np.full(len(rows), limits.rail_centres)
-    given = present["gauge"][rows]
+    gauge_mm = si["gauge"][rows]
+    own = np.abs(gauge_mm / 1000.0 - limits.gauge) < 0.0005  # the file's gauge: its own s
+    given = present["gauge"][rows] & ~own
     if given.any():
-        uniq, inverse = np.unique(si["gauge"][rows][given], return_inverse=True)
+        uniq, inverse = np.unique(gauge_mm[given], return_inverse=True)
         s[given] = np.array([rail_centres_for_gauge(float(g)) for g in uniq])[inverse]
+    ev.bend_flags[rows[given & np.isfinite(limits.gauge)]] |= GAUGE_NOT_COVERED
     check = check_rail(limits, v, r, ea, low, s)
     ev.parts["rail"], ev.part_rows["rail"] = check, rows
     for key, values in rail_columns(check, units).items():

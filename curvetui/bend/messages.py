@@ -123,6 +123,14 @@ def _sight_lane(ev: Evaluation, i, ref, units) -> str:
     return f"sight line on the inside lane centre, radius R - {half:g} {units.length_label}"
 
 
+def _gauge_text(ev: Evaluation, i, ref, units) -> str:
+    lim = ev.ctx.limits
+    return (
+        f"the limits {lim.name} are set for a {lim.gauge * 1000:.0f} mm gauge, this curve's is "
+        f"{float(ev.parsed.si['gauge'][i]):g} mm: check them against the rules for that gauge"
+    )
+
+
 def _const(text: str) -> Callable:
     return lambda obj, j, ref, units: text
 
@@ -311,6 +319,14 @@ RULES: tuple[Rule, ...] = (
         "sight",
     ),
     Rule("sight", -1, "note", "sight_line_position", _sight_lane, False, "sight", (), True),
+    Rule(
+        "bend",
+        ev_mod.GAUGE_NOT_COVERED,
+        "warning",
+        "gauge_not_covered",
+        _gauge_text,
+        False,
+    ),
     Rule(
         "bend",
         ev_mod.GEOMETRY_SKIPPED,

@@ -131,12 +131,15 @@ class Kinds:
         return cls(k == ROAD, k == RAIL, lambda i: str(raw[i]))
 
 
-def _dynamic_range(f: Field, kind: str, units: UnitSystem, table: RoadTable, cols, n):
+def _dynamic_range(f: Field, kind: str, units: UnitSystem, table: RoadTable, cols, n, limits=None):
     """(lo, hi, unit) arrays for the two ranges that depend on something else."""
     if f.key == "emax":
         return 100 * table.emax_min, 100 * table.emax_max, f"% (table {table.name})"
     if f.key == "low_speed":
         return 0.0, cols["speed"].value, units.speed_label
+    if f.key == "speed" and kind == RAIL and limits is not None:  # within the limits' bands
+        hi = float(units.speed_from_si(limits.speed_max[-1]))
+        return 1.0, hi, f"{units.speed_label} (limits {limits.name})"
     if f.key == "speed" and kind == ROAD:  # never beyond the table's first or last row
         lo, hi = (float(units.speed_from_si(x)) for x in table.speeds_si[[0, -1]])
         return lo, hi, f"{units.speed_label} (table {table.name})"
@@ -148,6 +151,7 @@ def parse(
     columns: Mapping[str, Column],
     units: UnitSystem,
     table: RoadTable,
+    limits=None,
 ) -> Parsed:
     """Check every field of n bends against its range; the field list says which."""
     kinds = kinds if isinstance(kinds, Kinds) else Kinds.of(kinds)
@@ -177,7 +181,7 @@ def parse(
             if kind in f.required:
                 for i in np.nonzero(rows & ~col.present)[0]:
                     issues.append(Issue(int(i), f.key, "required"))
-            issues += _range_issues(f, kind, rows, col, units, table, cols, n)
+            issues += _range_issues(f, kind, rows, col, units, table, cols, n, limits)
         if f.needs:
             other = cols[f.needs].present
             for i in np.nonzero(applies & col.present & ~other)[0]:
@@ -190,9 +194,9 @@ def parse(
     return Parsed(n, is_road, is_rail, si, present, issues, ignored)
 
 
-def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n) -> list[Issue]:
+def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n, limits=None):
     allowed = f.allowed(kind, units)
-    dynamic = _dynamic_range(f, kind, units, table, cols, n)
+    dynamic = _dynamic_range(f, kind, units, table, cols, n, limits)
     if allowed is None and dynamic is None:
         return []
     lo, hi, unit = dynamic if dynamic is not None else (*allowed, f.unit_label(units))

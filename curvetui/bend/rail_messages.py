@@ -55,6 +55,13 @@ def _fixed(text: str) -> Builder:
     return lambda c, i, lim, u: text
 
 
+def _below_scope(c, i, lim: RailLimits, u) -> str:
+    return (
+        f"speed below {_spd(u, lim.scope_min)}, the lowest {lim.name} covers: its limits are "
+        "applied outside the speeds they were set for"
+    )
+
+
 def _outside(c, i, lim: RailLimits, u) -> str:
     return f"speed above the last band of {lim.name}: its limits extrapolated"
 
@@ -125,6 +132,7 @@ RAIL_MESSAGES: tuple = (
         (),
     ),
     (rail.WARN_SPEED_OUTSIDE_LIMITS, "warning", "speed_above_limits", _outside, True, ()),
+    (rail.WARN_BELOW_SCOPE, "warning", "speed_below_scope", _below_scope, True, ()),
     (
         rail.WARN_CANT_BELOW_MIN,
         "warning",

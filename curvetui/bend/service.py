@@ -46,7 +46,7 @@ def check_columns(
     limits: RailLimits,
 ) -> Evaluation:
     """Parse and evaluate n bends given as columns (``curvetui.bend.parse.Column``)."""
-    parsed: Parsed = parse(kinds, columns, units, table)
+    parsed: Parsed = parse(kinds, columns, units, table, limits)
     return evaluate(parsed, Context(units, table, limits))
 
 

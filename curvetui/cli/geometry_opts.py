@@ -14,14 +14,30 @@ def add_field_options(p: argparse.ArgumentParser, kind: str, keys: tuple = ()) -
     for f in fields_for(kind):
         if keys and f.key not in keys:
             continue
-        unit = {"speed": "km/h or mph", "length": "m or ft", "station": "m or ft",
-                "cant": "mm, or in with --units us"}.get(f.unit, "")
+        unit = {
+            "speed": "km/h or mph",
+            "length": "m or ft",
+            "station": "m or ft",
+            "cant": "mm, or in with --units us",
+        }.get(f.unit, "")
         bits = [f.help] + ([f"({unit})"] if unit else [])
         if f.default:
             bits.append(f"[default: {f.default}]")
-        target = p if f.key in ("speed", "radius", "cant", "low_speed", "gauge", "superelevation",
-                                "emax", "friction") else groups.setdefault(
-            "geometry", p.add_argument_group("geometry and sight"))
+        target = (
+            p
+            if f.key
+            in (
+                "speed",
+                "radius",
+                "cant",
+                "low_speed",
+                "gauge",
+                "superelevation",
+                "emax",
+                "friction",
+            )
+            else groups.setdefault("geometry", p.add_argument_group("geometry and sight"))
+        )
         target.add_argument(
             f.cli_option,
             dest=f.key,

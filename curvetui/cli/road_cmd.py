@@ -99,7 +99,6 @@ def print_parts(out, record: dict, units: UnitSystem) -> None:
         out.print(grid)
 
 
-
 def print_messages(out, record: dict) -> None:
     from curvetui.bend.messages import message_line
 

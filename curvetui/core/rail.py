@@ -46,6 +46,7 @@ FAIL_NO_BALANCE = 1 << 3  # no cant satisfies both the fast and the slow train
 WARN_NEGATIVE_DEFICIENCY = 1 << 4  # fastest train runs below equilibrium
 WARN_SPEED_OUTSIDE_LIMITS = 1 << 5  # speed above the limit file's last band
 WARN_CANT_BELOW_MIN = 1 << 6
+WARN_BELOW_SCOPE = 1 << 10  # speed below the lowest the limits file covers
 WARN_CANT_ABOVE_RECOMMENDED = 1 << 7
 WARN_DEFICIENCY_ABOVE_RECOMMENDED = 1 << 8
 WARN_EXCESS_ABOVE_RECOMMENDED = 1 << 9
@@ -77,6 +78,36 @@ def speed_for_cant(cant, radius, rail_centres=1.5):
 def uncompensated_acceleration(deficiency, rail_centres=1.5):
     """Lateral acceleration in the track plane left unbalanced, a_q = g D / s [m/s^2]."""
     return G0 * np.asarray(deficiency, dtype=float) / rail_centres
+
+
+def band_speed_limits(limits, cant, radius, rail_centres) -> tuple[np.ndarray, np.ndarray]:
+    """The fastest and the slowest speed [m/s] that keep cant deficiency and excess within
+    the limits *of the band each speed falls in*.
+
+    Band i covers (s_{i-1}, s_i]. In it the deficiency limit I_i allows speeds up to
+    w_i = sqrt(g R (E_a + I_i) / s); the allowed speeds are the union of
+    (s_{i-1}, min(s_i, w_i)] over the bands where w_i > s_{i-1}, and the maximum speed is
+    the largest of those ends (never above the last band: the limits say nothing beyond
+    it). Likewise the excess limit X_i allows speeds from u_i = sqrt(g R (E_a - X_i) / s),
+    and the minimum speed is the smallest max(u_i, s_{i-1}) over the bands where u_i <= s_i
+    (NaN where no band sets an excess limit).
+    """
+    ea = np.asarray(cant, dtype=float)[..., None]
+    r = np.asarray(radius, dtype=float)[..., None]
+    s = np.asarray(rail_centres, dtype=float)[..., None]
+    top = limits.speed_max
+    bottom = np.concatenate([[0.0], top[:-1]])
+    w = speed_for_cant(ea + limits.deficiency_max, r, s)
+    ends = np.where(w > bottom, np.minimum(top, w), -np.inf)
+    v_max = np.max(ends, axis=-1)
+    has_x = ~np.isnan(limits.excess_max)
+    u = speed_for_cant(ea - np.where(has_x, limits.excess_max, 0.0), r, s)
+    u = np.where(has_x, u, 0.0)
+    starts = np.where(u <= top, np.maximum(u, bottom), np.inf)
+    v_min = np.min(starts, axis=-1)
+    v_min = np.where(has_x.any() & np.isfinite(v_min), v_min, np.nan)
+    v_max = np.where(np.isfinite(v_max), v_max, 0.0)
+    return v_max, v_min
 
 
 def balancing_cant(e_fast, e_slow, deficiency_limit, excess_limit, cant_max):
@@ -117,6 +148,10 @@ class RailLimits:
     band_sources: tuple[str, ...]
     cant_min: float = 0.0
     path: str = ""
+    # the speeds and the gauge the file covers: a check below ``scope_min`` is warned, one
+    # above the last band is refused (see curvetui.bend.parse); gauge [m], NaN if unstated
+    scope_min: float = 0.0  # [m/s]
+    gauge: float = np.nan
     # Transition limits by band (see curvetui.core.transitions); NaN where none is set.
     cant_gradient_max: np.ndarray | float = np.nan  # dE/ds [m/m]
     cant_rate_max: np.ndarray | float = np.nan  # dE/dt [m/s]
@@ -185,8 +220,7 @@ def check_rail(
     excess = ea - e_slow
     has_low = ~np.isnan(low)
     has_x = ~np.isnan(x_max)
-    v_max = speed_for_cant(ea + i_max, r, s)
-    v_min = np.where(has_x, speed_for_cant(ea - np.where(has_x, x_max, 0.0), r, s), np.nan)
+    v_max, v_min = band_speed_limits(limits, ea, r, s)
     x_for_balance = np.where(has_x, x_max, np.inf)
     with np.errstate(invalid="ignore"):
         bal, feasible = balancing_cant(
@@ -204,6 +238,7 @@ def check_rail(
     flags |= np.where(has_low & ~feasible, FAIL_NO_BALANCE, 0)
     flags |= np.where(deficiency < -tol, WARN_NEGATIVE_DEFICIENCY, 0)
     flags |= np.where(above, WARN_SPEED_OUTSIDE_LIMITS, 0)
+    flags |= np.where(v < limits.scope_min * (1 - 1e-12), WARN_BELOW_SCOPE, 0)
     flags |= np.where(ea < limits.cant_min - tol, WARN_CANT_BELOW_MIN, 0)
     flags |= np.where(
         (ea > limits.cant_recommended[band] + tol) & (ea <= c_max + tol),

@@ -267,6 +267,12 @@ def parse_rail_limits(data: dict, path: str = ""):
         band_sources=tuple(sources),
         cant_min=float(head.get("cant_min", 0)) * cant_unit,
         path=path,
+        scope_min=_number(head, "speed_min", where, 0, 600) * speed_unit
+        if "speed_min" in head
+        else 0.0,
+        gauge=_number(head, "gauge", where, 20, 2000) * (0.001 if units == "metric" else INCH)
+        if "gauge" in head
+        else float("nan"),
         **{k: np.array(v) for k, v in transition.items()},
     )
 

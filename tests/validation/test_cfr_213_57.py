@@ -39,8 +39,9 @@ def test_table_1_one_degree_no_elevation():
 @pytest.mark.parametrize("degree", [0.5, 1.0, 3.0, 5.5, 10.0])
 @pytest.mark.parametrize("ea", [0.0, 2.5, 7.0])
 def test_formula_of_213_57(degree, ea):
-    # the regulation's own formula, evaluated independently here
-    expected = np.sqrt((ea + 3.0) / (0.0007 * degree))
+    # the regulation's own formula, evaluated independently here, and never above the
+    # class's speed limit: 90 mph for passenger trains on class 5 (49 CFR 213.9, read)
+    expected = min(np.sqrt((ea + 3.0) / (0.0007 * degree)), 90.0)
     assert float(cfr_max_speed_mph(degree, ea)) == pytest.approx(expected, rel=1e-9)
 
 

@@ -312,7 +312,8 @@ def test_blank_lines_are_skipped_and_rows_keep_their_numbers():
         (("road", "130", "100000"), True),
         (("road", "15", "1"), True),
         (("road", "14.9", "400"), False),
-        (("rail", "400", "100000", "300"), True),
+        (("rail", "300", "100000", "300"), True),  # EN 13803-1:2010 covers up to 300 km/h
+        (("rail", "301", "100000", "300"), False),
         (("rail", "1", "20", "0"), True),
         (("road", "130.0001", "400"), False),
         (("road", "1e2", "4e2"), True),  # 100 km/h on 400 m in exponent form

@@ -76,7 +76,8 @@ def test_standard_input_to_standard_output():
 
 def test_us_units_and_named_tables(tmp_path):
     src = tmp_path / "inventory.csv"
-    src.write_text("kind,speed,radius,cant\nroad,60,1200,\nrail,60,2864.789,3\n")
+    # 25 mph: within class 2's 30 mph for passenger trains (49 CFR 213.9, read)
+    src.write_text("kind,speed,radius,cant\nroad,60,1200,\nrail,25,2864.789,3\n")
     dest = tmp_path / "out.csv"
     code = main(
         ["batch", str(src), "-o", str(dest), "--units", "us", "--limits", "49cfr213-class1-2"]
