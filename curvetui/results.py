@@ -79,6 +79,8 @@ def rail_columns(check: RailCheck, units: UnitSystem) -> dict[str, np.ndarray]:
         "max_speed": units.speed_from_si(check.max_speed),
         "min_speed": units.speed_from_si(check.min_speed),
         "balancing_cant": check.balancing_cant / c,
+        "cant_allowed_min": check.cant_allowed_min / c,
+        "cant_allowed_max": check.cant_allowed_max / c,
         "cant_limit": check.cant_limit / c,
         "deficiency_limit": check.deficiency_limit / c,
         "excess_limit": check.excess_limit / c,

@@ -60,6 +60,8 @@ _RAIL_MAIN = (
     ("max_speed", "Maximum speed (deficiency limit)", "V max (deficiency)", "speed"),
     ("min_speed", "Minimum speed (excess limit)", "V min (excess)", "speed"),
     ("balancing_cant", "Cant balancing both trains", "balancing cant", "cant"),
+    ("cant_allowed_min", "Least cant serving both trains", "cant allowed from", "cant"),
+    ("cant_allowed_max", "Most cant serving both trains", "cant allowed to", "cant"),
     ("cant_limit", "Cant limit", "cant limit", "cant"),
     ("deficiency_limit", "Cant deficiency limit", "deficiency limit", "cant"),
     ("excess_limit", "Cant excess limit", "excess limit", "cant"),

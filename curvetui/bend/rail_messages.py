@@ -55,6 +55,14 @@ def _fixed(text: str) -> Builder:
     return lambda c, i, lim, u: text
 
 
+def _balance_outside(c: RailCheck, i, lim, u) -> str:
+    return (
+        f"the cant sharing both limits alike lies outside the cants the limits allow; any "
+        f"cant from {_cant(u, c.cant_allowed_min[i])} to {_cant(u, c.cant_allowed_max[i])} "
+        "serves both trains"
+    )
+
+
 def _below_scope(c, i, lim: RailLimits, u) -> str:
     return (
         f"speed below {_spd(u, lim.scope_min)}, the lowest {lim.name} covers: its limits are "
@@ -133,6 +141,14 @@ RAIL_MESSAGES: tuple = (
     ),
     (rail.WARN_SPEED_OUTSIDE_LIMITS, "warning", "speed_above_limits", _outside, True, ()),
     (rail.WARN_BELOW_SCOPE, "warning", "speed_below_scope", _below_scope, True, ()),
+    (
+        rail.WARN_BALANCE_OUTSIDE,
+        "warning",
+        "balancing_cant_outside_range",
+        _balance_outside,
+        False,
+        ("cant_allowed_min", "cant_allowed_max"),
+    ),
     (
         rail.WARN_CANT_BELOW_MIN,
         "warning",

@@ -121,6 +121,8 @@ def record_at(ev: Evaluation, i: int, name, other=None, field_name=None) -> Bend
             "cant_excess",
             "min_speed",
             "balancing_cant",
+            "cant_allowed_min",
+            "cant_allowed_max",
             "excess_limit",
             "low_speed",
         ):

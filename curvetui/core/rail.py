@@ -47,6 +47,7 @@ WARN_NEGATIVE_DEFICIENCY = 1 << 4  # fastest train runs below equilibrium
 WARN_SPEED_OUTSIDE_LIMITS = 1 << 5  # speed above the limit file's last band
 WARN_CANT_BELOW_MIN = 1 << 6
 WARN_BELOW_SCOPE = 1 << 10  # speed below the lowest the limits file covers
+WARN_BALANCE_OUTSIDE = 1 << 11  # the same-share cant lies outside the cants the limits allow
 WARN_CANT_ABOVE_RECOMMENDED = 1 << 7
 WARN_DEFICIENCY_ABOVE_RECOMMENDED = 1 << 8
 WARN_EXCESS_ABOVE_RECOMMENDED = 1 << 9
@@ -116,13 +117,15 @@ def balancing_cant(e_fast, e_slow, deficiency_limit, excess_limit, cant_max):
     Feasible cants lie in [e_fast - deficiency_limit, e_slow + excess_limit] and [0, cant_max].
     The choice uses the same fraction of each limit, (e_fast - E_a)/I = (E_a - e_slow)/X, so
     E_a = (X e_fast + I e_slow)/(I + X) with I, X the deficiency and excess limits (common
-    practice, no source), then clips it to the feasible range. Returns (cant, feasible).
+    practice, no source). The value is never clipped: where it lies outside the feasible
+    range (or none exists) it is NaN, and the range [lo, hi] says what the limits allow.
+    Returns (cant, lo, hi); the range is empty (lo > hi) where no cant serves both trains.
     """
     lo = np.maximum(e_fast - deficiency_limit, 0.0)
     hi = np.minimum(e_slow + excess_limit, cant_max)
     share = (e_fast * excess_limit + e_slow * deficiency_limit) / (deficiency_limit + excess_limit)
-    cant = np.clip(share, lo, np.maximum(hi, lo))
-    return cant, lo <= hi + 1e-12
+    inside = (share >= lo - 1e-12) & (share <= hi + 1e-12)
+    return np.where(inside, share, np.nan), lo, hi
 
 
 @dataclass(frozen=True)
@@ -182,7 +185,9 @@ class RailCheck:
     centripetal_acceleration: np.ndarray  # v^2 / R
     max_speed: np.ndarray  # allowed by the deficiency limit
     min_speed: np.ndarray  # allowed by the excess limit (NaN where the limits set none)
-    balancing_cant: np.ndarray  # NaN without a low speed
+    balancing_cant: np.ndarray  # NaN without a low speed, or outside the allowed range
+    cant_allowed_min: np.ndarray  # the cants serving both trains: [min, max], NaN w/o low
+    cant_allowed_max: np.ndarray
     cant_limit: np.ndarray
     deficiency_limit: np.ndarray
     excess_limit: np.ndarray
@@ -223,12 +228,14 @@ def check_rail(
     v_max, v_min = band_speed_limits(limits, ea, r, s)
     x_for_balance = np.where(has_x, x_max, np.inf)
     with np.errstate(invalid="ignore"):
-        bal, feasible = balancing_cant(
+        bal, bal_lo, bal_hi = balancing_cant(
             e_fast, np.where(has_low, e_slow, 0.0), i_max, x_for_balance, c_max
         )
-    # with no excess limit the same-fraction rule degenerates: keep the fast train's need
-    bal = np.where(has_x, bal, np.clip(e_fast - i_max, 0.0, c_max))
-    bal = np.where(has_low, bal, np.nan)
+    feasible = bal_lo <= bal_hi + 1e-12
+    # with no excess limit the same-share rule has no meaning: no balancing cant
+    bal = np.where(has_low & has_x, bal, np.nan)
+    bal_lo = np.where(has_low, bal_lo, np.nan)
+    bal_hi = np.where(has_low, bal_hi, np.nan)
 
     tol = 1e-9
     flags = np.zeros(v.shape, dtype=np.int64)
@@ -236,6 +243,7 @@ def check_rail(
     flags |= np.where(deficiency > i_max + tol, FAIL_DEFICIENCY, 0)
     flags |= np.where(has_low & has_x & (excess > np.where(has_x, x_max, 0) + tol), FAIL_EXCESS, 0)
     flags |= np.where(has_low & ~feasible, FAIL_NO_BALANCE, 0)
+    flags |= np.where(has_low & has_x & feasible & np.isnan(bal), WARN_BALANCE_OUTSIDE, 0)
     flags |= np.where(deficiency < -tol, WARN_NEGATIVE_DEFICIENCY, 0)
     flags |= np.where(above, WARN_SPEED_OUTSIDE_LIMITS, 0)
     flags |= np.where(v < limits.scope_min * (1 - 1e-12), WARN_BELOW_SCOPE, 0)
@@ -274,6 +282,8 @@ def check_rail(
         max_speed=v_max,
         min_speed=v_min,
         balancing_cant=bal,
+        cant_allowed_min=bal_lo,
+        cant_allowed_max=bal_hi,
         cant_limit=c_max,
         deficiency_limit=i_max,
         excess_limit=x_max,

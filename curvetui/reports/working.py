@@ -234,14 +234,30 @@ def rail_working(record: dict, limits: RailLimits, units: UnitSystem) -> list[St
                 limits.name,
             )
         )
+    if record.get("cant_allowed_min") is not None:
+        lo, hi = record["cant_allowed_min"], record["cant_allowed_max"]
+        steps.append(
+            Step(
+                "Cants serving both trains",
+                "max(E - D_lim, 0) <= E_a <= min(E_low + X_lim, E_max)",
+                f"max({record['equilibrium_cant']:.1f} - {record['deficiency_limit']:g}, 0) to "
+                f"min({record['equilibrium_cant_low']:.1f} + {record['excess_limit']:g}, "
+                f"{record['cant_limit']:g})",
+                f"{lo:.1f} to {hi:.1f} {cl}" if lo <= hi else f"none ({lo:.1f} > {hi:.1f})",
+                limits.name,
+                _verdict(record, "balance"),
+            )
+        )
     if record.get("balancing_cant") is not None:
+        e, e_low = record["equilibrium_cant"], record["equilibrium_cant_low"]
+        d_lim, x_lim = record["deficiency_limit"], record["excess_limit"]
         steps.append(
             Step(
                 "Cant balancing both trains",
-                "(E - E_a)/D_lim = (E_a - E_low)/X_lim",
-                "same share of each limit (common practice)",
+                "E_a = (X_lim E + D_lim E_low) / (D_lim + X_lim)",
+                f"({x_lim:g} x {e:.2f} + {d_lim:g} x {e_low:.2f}) / ({d_lim:g} + {x_lim:g})",
                 f"{record['balancing_cant']:.1f} {cl}",
-                "common practice, no source",
+                "same share of each limit: common practice, no source",
             )
         )
     steps += _transition_steps(record, units)

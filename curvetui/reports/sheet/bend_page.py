@@ -54,7 +54,7 @@ def _title_block(pdf, s: SheetSet, b: BendSheet, page: int) -> None:
         pdf.multi_cell(0, 3.6, f"Notes: {b.notes}", new_x="LMARGIN", new_y="NEXT")
 
 
-def _working(pdf, b: BendSheet) -> None:
+def _working(pdf, b: BendSheet, compact: bool = False) -> None:
     """The working table: a row per step (formula, values substituted, answer, check) and
     its source below it; an input error in red above it."""
     from fpdf.fonts import FontFace
@@ -68,10 +68,11 @@ def _working(pdf, b: BendSheet) -> None:
         pdf.set_font(FONT, "", 7.5)
     if not b.steps:
         return
-    pdf.set_font(FONT, "", 6.8)
-    with headed_table(pdf, (5, 30, 44, 56, 40, 11), 3.2, 0.5) as table:
+    pdf.set_font(FONT, "", 6.2 if compact else 6.8)
+    line = 2.8 if compact else 3.2
+    with headed_table(pdf, (5, 30, 44, 56, 40, 11), line, 0.5) as table:
         table.row(("#", "Step", "Formula", "Values substituted", "Answer", "Check"))
-        src = FontFace(color=GREY, size_pt=6)
+        src = FontFace(color=GREY, size_pt=5.5 if compact else 6)
         for i, st in enumerate(b.steps, start=1):
             row = table.row()
             for c in (str(i), st.label, st.formula, st.substituted, st.result):
@@ -83,9 +84,11 @@ def _working(pdf, b: BendSheet) -> None:
             row.cell(f"source: {st.source}", colspan=5, style=src)
 
 
-def pdf_bend(pdf, s: SheetSet, b: BendSheet, page: int, plan_height: float) -> None:
+def pdf_bend(
+    pdf, s: SheetSet, b: BendSheet, page: int, plan_height: float, compact: bool = False
+) -> None:
     """Add one bend's page; the plan sketch is at least ``plan_height`` mm high and as high
-    as the inputs beside it."""
+    as the inputs beside it; ``compact`` sets the messages closer (a page that overflows)."""
     pdf.add_page()
     _title_block(pdf, s, b, page)
     top = pdf.get_y() + 1.5
@@ -118,12 +121,13 @@ def pdf_bend(pdf, s: SheetSet, b: BendSheet, page: int, plan_height: float) -> N
     pdf.set_xy(MARGIN, max(left_end, plan_top + plan_h))
     heading(pdf, "Standard in use")
     key_value_table(pdf, b.standard, (36, 150), 3.5, 0.5)
-    _working(pdf, b)
+    _working(pdf, b, compact)
     heading(pdf, "Messages")
-    pdf.set_font(FONT, "", 7.5)
+    size, line = (6.5, 3.0) if compact else (7.5, 3.8)
+    pdf.set_font(FONT, "", size)
     for m in b.messages or ["none"]:
-        bad = m.startswith(("FAIL", "ERROR"))
+        bad = m.startswith(("FAIL", "ERROR")) or ": FAIL " in m
         pdf.set_text_color(*(RED if bad else (0, 0, 0)))
-        pdf.set_font(FONT, "B" if bad else "", 7.5)
-        pdf.multi_cell(0, 3.8, m, new_x="LMARGIN", new_y="NEXT")
+        pdf.set_font(FONT, "B" if bad else "", size)
+        pdf.multi_cell(0, line, m, new_x="LMARGIN", new_y="NEXT")
     pdf.set_text_color(0, 0, 0)

@@ -10,7 +10,10 @@ from curvetui.reports.sheet.summary_page import pdf_summary
 
 def make_pdf(s: SheetSet, paper: str):
     """The summary, then each bend on one page: a bend whose page overflows is drawn again
-    with a shorter plan sketch (down to the least of PLAN_HEIGHTS)."""
+    with a shorter plan sketch (down to the least of PLAN_HEIGHTS), then with its messages
+    set closer; a page that still overflows goes on to a second page, footer and caution
+    on each."""
+    tries = len(PLAN_HEIGHTS) + 1
     choice = [0] * len(s.bends)
     while True:
         pdf = new_pdf(s, paper)
@@ -18,8 +21,9 @@ def make_pdf(s: SheetSet, paper: str):
         overflowed = False
         for i, b in enumerate(s.bends):
             before = pdf.page
-            pdf_bend(pdf, s, b, i + 2, PLAN_HEIGHTS[choice[i]])
-            if pdf.page > before + 1 and choice[i] + 1 < len(PLAN_HEIGHTS):
+            height = PLAN_HEIGHTS[min(choice[i], len(PLAN_HEIGHTS) - 1)]
+            pdf_bend(pdf, s, b, i + 2, height, compact=choice[i] >= len(PLAN_HEIGHTS))
+            if pdf.page > before + 1 and choice[i] + 1 < tries:
                 choice[i] += 1
                 overflowed = True
         if not overflowed:
