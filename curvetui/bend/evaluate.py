@@ -354,6 +354,7 @@ def _rail(ev: Evaluation, rows: np.ndarray) -> None:
     flags = np.asarray(check.flags)
     has_low = present["low_speed"][rows]
     _check(ev, "cant", rows, (flags & rail_engine.FAIL_CANT) != 0)
+    _check(ev, "radius", rows, (flags & rail_engine.FAIL_RADIUS_BELOW_MIN) != 0)
     _check(ev, "deficiency", rows, (flags & rail_engine.FAIL_DEFICIENCY) != 0)
     excess_known = has_low & np.isfinite(check.excess_limit)
     _check(ev, "excess", rows[excess_known], (flags[excess_known] & rail_engine.FAIL_EXCESS) != 0)

@@ -63,6 +63,14 @@ def _balance_outside(c: RailCheck, i, lim, u) -> str:
     )
 
 
+def _radius_min(c: RailCheck, i, lim: RailLimits, u) -> str:
+    lab = u.length_label
+    return (
+        f"radius {u.length_from_si(float(c.radius[i])):.1f} {lab} is below the "
+        f"{u.length_from_si(lim.radius_min):.0f} {lab} least radius of {lim.name}"
+    )
+
+
 def _below_scope(c, i, lim: RailLimits, u) -> str:
     return (
         f"speed below {_spd(u, lim.scope_min)}, the lowest {lim.name} covers: its limits are "
@@ -92,6 +100,14 @@ RAIL_MESSAGES: tuple = (
         _excess,
         False,
         ("cant_excess", "excess_limit", "min_speed"),
+    ),
+    (
+        rail.FAIL_RADIUS_BELOW_MIN,
+        "fail",
+        "radius_below_limits_minimum",
+        _radius_min,
+        False,
+        ("radius",),
     ),
     (
         rail.FAIL_NO_BALANCE,

@@ -47,11 +47,12 @@ WARN_NEGATIVE_DEFICIENCY = 1 << 4  # fastest train runs below equilibrium
 WARN_SPEED_OUTSIDE_LIMITS = 1 << 5  # speed above the limit file's last band
 WARN_CANT_BELOW_MIN = 1 << 6
 WARN_BELOW_SCOPE = 1 << 10  # speed below the lowest the limits file covers
+FAIL_RADIUS_BELOW_MIN = 1 << 12  # radius below the least the limits file allows
 WARN_BALANCE_OUTSIDE = 1 << 11  # the same-share cant lies outside the cants the limits allow
 WARN_CANT_ABOVE_RECOMMENDED = 1 << 7
 WARN_DEFICIENCY_ABOVE_RECOMMENDED = 1 << 8
 WARN_EXCESS_ABOVE_RECOMMENDED = 1 << 9
-FAIL_MASK = FAIL_CANT | FAIL_DEFICIENCY | FAIL_EXCESS | FAIL_NO_BALANCE
+FAIL_MASK = FAIL_CANT | FAIL_DEFICIENCY | FAIL_EXCESS | FAIL_NO_BALANCE | FAIL_RADIUS_BELOW_MIN
 
 
 def rail_centres_for_coefficient(coefficient: float) -> float:
@@ -155,6 +156,7 @@ class RailLimits:
     # above the last band is refused (see curvetui.bend.parse); gauge [m], NaN if unstated
     scope_min: float = 0.0  # [m/s]
     gauge: float = np.nan
+    radius_min: float = 0.0  # [m], the least radius the file allows (0: none set)
     # Transition limits by band (see curvetui.core.transitions); NaN where none is set.
     cant_gradient_max: np.ndarray | float = np.nan  # dE/ds [m/m]
     cant_rate_max: np.ndarray | float = np.nan  # dE/dt [m/s]
@@ -247,6 +249,7 @@ def check_rail(
     flags |= np.where(deficiency < -tol, WARN_NEGATIVE_DEFICIENCY, 0)
     flags |= np.where(above, WARN_SPEED_OUTSIDE_LIMITS, 0)
     flags |= np.where(v < limits.scope_min * (1 - 1e-12), WARN_BELOW_SCOPE, 0)
+    flags |= np.where(r < limits.radius_min * (1 - 1e-12), FAIL_RADIUS_BELOW_MIN, 0)
     flags |= np.where(ea < limits.cant_min - tol, WARN_CANT_BELOW_MIN, 0)
     flags |= np.where(
         (ea > limits.cant_recommended[band] + tol) & (ea <= c_max + tol),

@@ -267,6 +267,10 @@ def parse_rail_limits(data: dict, path: str = ""):
         band_sources=tuple(sources),
         cant_min=float(head.get("cant_min", 0)) * cant_unit,
         path=path,
+        radius_min=_number(head, "radius_min", where, 0, 10000)
+        * (1.0 if units == "metric" else FOOT)
+        if "radius_min" in head
+        else 0.0,
         scope_min=_number(head, "speed_min", where, 0, 600) * speed_unit
         if "speed_min" in head
         else 0.0,

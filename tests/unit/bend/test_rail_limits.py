@@ -61,3 +61,12 @@ def test_another_gauge_is_warned_that_the_limits_were_not_set_for_it():
     rec, _ = rail(METRIC, speed=80, radius=500, cant=60, gauge=1000)
     warn = [m for m in rec.messages if m.code == "gauge_not_covered"]
     assert warn and warn[0].severity == "warning" and "1435 mm" in warn[0].text
+
+
+def test_en_13803_2_least_radius_of_150_m():
+    # EN 13803-2, 7.3: designed minimum radius 150 m where different vehicles operate (read)
+    bad, _ = rail(METRIC, speed=40, radius=140, cant=20)
+    assert bad.status == "fail" and bad.checks["radius"] == "fail"
+    assert "radius_below_limits_minimum" in [m.code for m in bad.messages]
+    good, _ = rail(METRIC, speed=40, radius=150, cant=20)
+    assert good.checks["radius"] == "pass"
