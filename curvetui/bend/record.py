@@ -138,7 +138,11 @@ def record_at(ev: Evaluation, i: int, name, other=None, field_name=None) -> Bend
     reference = (
         {"limits": ctx.limits.name, "limits_source": ctx.limits.source}
         if kind == "rail"
-        else {"table": ctx.table.name, "table_source": ctx.table.source}
+        else {
+            "table": ctx.table.name,
+            "table_source": ctx.table.source,
+            "superelevation_step": round(100 * ctx.table.superelevation_step, 6),
+        }
     )
     return BendRecord(
         kind=kind,

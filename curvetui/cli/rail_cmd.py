@@ -41,6 +41,7 @@ def run(args: argparse.Namespace) -> int:
 def print_rail(record: dict, units: UnitSystem) -> None:
     from rich.table import Table
 
+    from curvetui.bend.display import shown as display
     from curvetui.results import RAIL_FIELDS, unit_label
 
     out = console()
@@ -55,7 +56,7 @@ def print_rail(record: dict, units: UnitSystem) -> None:
     grid.add_column("Unit")
     for key, (label, kind) in RAIL_FIELDS.items():
         value = record.get(key)
-        shown = "-" if value is None else f"{value:,.2f}" if abs(value) < 100 else f"{value:,.1f}"
+        shown = display(key, value, units.name)
         grid.add_row(label, shown, unit_label(kind, units))
     out.print(grid)
     from curvetui.cli.road_cmd import print_messages, print_parts

@@ -44,6 +44,7 @@ def run(args: argparse.Namespace) -> int:
 def print_road(record: dict, units: UnitSystem) -> None:
     from rich.table import Table
 
+    from curvetui.bend.display import shown as display
     from curvetui.results import ROAD_FIELDS, unit_label
 
     out = console()
@@ -57,7 +58,7 @@ def print_road(record: dict, units: UnitSystem) -> None:
     grid.add_column("Unit")
     for key, (label, kind) in ROAD_FIELDS.items():
         value = record[key]
-        shown = "-" if value is None else f"{value:,.3f}" if abs(value) < 100 else f"{value:,.1f}"
+        shown = display(key, value, units.name, record.get("superelevation_step", 0.1))
         grid.add_row(label, shown, unit_label(kind, units))
     grid.add_row("Cross-section", record["cross_section"], "")
     out.print(grid)

@@ -71,6 +71,7 @@ class RoadTable:
     emax_tabulated: tuple[float, ...]
     normal_crown: float = 0.02  # normal cross slope, fraction
     normal_crown_limit: float = 0.015  # below this design e the crown is kept
+    superelevation_step: float = 0.001  # design e is shown rounded up to this (fraction)
     radius_rounding: RadiusRounding = field(default_factory=RadiusRounding)
     path: str = ""
 

@@ -120,6 +120,9 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
         normal_crown=_number(head, "normal_crown", where, 0, 10) / 100.0
         if "normal_crown" in head
         else 0.02,
+        superelevation_step=_number(head, "superelevation_step", where, 0.01, 1) / 100.0
+        if "superelevation_step" in head
+        else 0.001,
         normal_crown_limit=_number(head, "normal_crown_limit", where, 0, 10) / 100.0
         if "normal_crown_limit" in head
         else 0.015,

@@ -16,6 +16,7 @@ from textual.containers import Horizontal, VerticalScroll
 from textual.widgets import Input, Label, Select, Static
 
 from curvetui.app.session import FORM_FIELDS, Session, field_label
+from curvetui.bend.display import shown
 from curvetui.bend.fields import FIELDS, input_keys
 from curvetui.bend.messages import message_line
 from curvetui.bend.outputs import main_results
@@ -196,9 +197,8 @@ def results_renderable(
         if value is None:
             continue
         label = SHORT.get(key, label)
-        grid.add_row(
-            label, f"{value:,.3f}" if abs(value) < 100 else f"{value:,.1f}", unit_label(kind, units)
-        )
+        step = record.get("superelevation_step", 0.1)
+        grid.add_row(label, shown(key, value, units.name, step), unit_label(kind, units))
     if record["kind"] == "road":
         grid.add_row("section", record["cross_section"], "")
     t = record.get("transition") or {}
