@@ -166,7 +166,23 @@ def rail_working(record: dict, limits: RailLimits, units: UnitSystem) -> list[St
     r = units.length_to_si(R)
     s_m = s * units.cant
     src = "EN 13803 form E = s v^2 / (g R)"
-    steps = [
+    steps = []
+    if limits.radius_min > 0:
+        r_min = units.length_from_si(limits.radius_min)
+        ln = units.length_label
+        steps.append(
+            Step(
+                "Least radius",
+                "R >= R_min of the limits",
+                f"{R:g} >= {r_min:g} {ln}",
+                f"R_min {r_min:g} {ln}",
+                f"{limits.name} (EN 13803-2, 7.3: 150 m where different vehicles operate)"
+                if limits.name.startswith("en13803")
+                else limits.name,
+                _verdict(record, "radius"),
+            )
+        )
+    steps += [
         Step(
             "Equilibrium cant",
             "E = s v^2 / (g R)",

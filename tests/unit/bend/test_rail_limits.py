@@ -70,3 +70,11 @@ def test_en_13803_2_least_radius_of_150_m():
     assert "radius_below_limits_minimum" in [m.code for m in bad.messages]
     good, _ = rail(METRIC, speed=40, radius=150, cant=20)
     assert good.checks["radius"] == "pass"
+
+
+def test_the_working_shows_the_least_radius_line_with_its_verdict():
+    from curvetui.reports.working import rail_working
+
+    bad, lim = rail(METRIC, speed=40, radius=140, cant=20)
+    line = next(s for s in rail_working(bad.to_json(), lim, METRIC) if s.label == "Least radius")
+    assert line.check == "fail" and "150" in line.result
