@@ -7,13 +7,21 @@ module); a module that starts Textual without it is marked here all the same, so
 
 from __future__ import annotations
 
+import os
 import sys
 from functools import cache
 from pathlib import Path
 
 import pytest
+from hypothesis import settings
 
 from curvetui.storage.tables import road_table
+
+# In CI the property tests run the same examples every time (a red CI must be repeatable);
+# on a developer's machine they search afresh each run.
+settings.register_profile("ci", derandomize=True)
+if os.environ.get("CI"):
+    settings.load_profile("ci")
 
 # what a test module says when it starts Textual
 STARTS_TEXTUAL = ("run_test(", "snap_compare", "app_screen import")

@@ -184,7 +184,8 @@ pos = st.floats(1e-3, 0.2)
 lims = st.one_of(st.just(math.nan), st.floats(1e-4, 0.2))
 
 
-@given(pos, st.floats(-0.2, 0.2), st.floats(5, 90), lims, lims, lims)
+# subnormal deficiencies (below 2.2e-308 m) lose precision in D v / L: not a track value
+@given(pos, st.floats(-0.2, 0.2, allow_subnormal=False), st.floats(5, 90), lims, lims, lims)
 def test_rail_length_meets_every_evaluated_limit(e, d, v, g, r, dr):
     # along a ramp of the governing length every evaluated rate is within its limit, and the
     # governing one meets it exactly (first principles: dE/ds = E/L, dE/dt = E v/L, dD/dt = D v/L)
