@@ -77,6 +77,15 @@ ROAD_TRANSITION = (
     "runoff",
     "runout",
 )
+ROAD_TRANSITION_CONSTANTS = (
+    "comfort_rate",  # C, m/s^3 or ft/s^3
+    "shift_min",  # p_min, m or ft
+    "shift_max",  # p_max
+    "lane_width",  # w
+    "lanes_rotated",  # n1
+    "width_factor",  # b_w
+    "normal_crown",  # e_NC, percent
+)
 RUNOFF_STATIONS = (
     "runout_start",
     "level_crown_in",
@@ -115,6 +124,8 @@ OUTPUTS: tuple[Output, ...] = (
     _o("transition.status", rounding=TEXT),
     *(_o(f"transition.{k}", (ROAD,)) for k in ROAD_TRANSITION),
     _o("transition.runoff_on_tangent", (ROAD,)),
+    # the constants the transition used, so its working can be redone by hand
+    *(_o(f"transition.{k}", (ROAD,)) for k in ROAD_TRANSITION_CONSTANTS),
     *(_o(f"transition.{k}", (ROAD,), PLACES) for k in RUNOFF_STATIONS),
     *(_o(f"transition.{k}", (RAIL,)) for k in RAIL_TRANSITION),
     _o("geometry.type", rounding=TEXT),

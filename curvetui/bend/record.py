@@ -93,7 +93,11 @@ def _ordered_transition(t: dict, kind: str) -> dict:
     keys = out.ROAD_TRANSITION if kind == "road" else out.RAIL_TRANSITION
     first = {k: t.get(k) for k in keys[:2]} if kind == "road" else {"length": t.get("length")}
     rest = {k: t.get(k) for k in keys if k not in first}
-    placed = {k: t[k] for k in ("runoff_on_tangent", *out.RUNOFF_STATIONS) if k in t}
+    placed = {
+        k: t[k]
+        for k in ("runoff_on_tangent", *out.ROAD_TRANSITION_CONSTANTS, *out.RUNOFF_STATIONS)
+        if k in t
+    }
     return {**first, "governing": t.get("governing"), **rest, **placed, "status": t.get("status")}
 
 

@@ -57,6 +57,14 @@ def road_transition(ev, rows: np.ndarray, v, r, e, width, spiral_flags: dict) ->
     ):
         ev.values[f"transition.{key}"][rows] = units.length_from_si(getattr(t, key))
     ev.values["transition.relative_gradient"][rows] = 100 * t.relative_gradient
+    v = ev.values
+    v["transition.comfort_rate"][rows] = units.length_from_si(c)
+    v["transition.shift_min"][rows] = units.length_from_si(p_min)
+    v["transition.shift_max"][rows] = units.length_from_si(p_max)
+    v["transition.lane_width"][rows] = units.length_from_si(width)
+    v["transition.lanes_rotated"][rows] = n1
+    v["transition.width_factor"][rows] = tr.runoff_width_factor(n1)
+    v["transition.normal_crown"][rows] = 100 * table.normal_crown
     ev.texts["transition.governing"][rows] = np.asarray(tr.ROAD_GOVERNING, object)[t.governing]
 
     spiralled = (ev.spiral_length("spiral_in", rows) > 0) | (

@@ -289,12 +289,17 @@ def _transition_steps(record: dict, units: UnitSystem) -> list[Step]:
     if "spiral_length_min" in t:
         lo, hi = t["spiral_length_min"], t["spiral_length_max"]
         spiralled = "runoff_on_tangent" not in t  # placed on the tangent only without one
-        steps = [
+        steps = _road_transition_lengths(record, units) + [
             Step(
                 "Spiral length",
                 "max(v^3/(C R), sqrt(24 p_min R), runoff) ... sqrt(24 p_max R)",
                 f"comfort {_num(t['length_comfort'])}, shift "
-                f"{_num(t['length_shift_min'])}, runoff {_num(t['runoff'])} {ln}",
+                f"{_num(t['length_shift_min'])}, runoff {_num(t['runoff'])} {ln}; max "
+                + (
+                    f"sqrt(24 x {t['shift_max']:.4g} x {record['radius']:g})"
+                    if t.get("shift_max") is not None
+                    else "sqrt(24 p_max R)"
+                ),
                 f"{_num(lo)} to {_num(hi)} {ln} ({t['governing']} governs)",
                 "Green Book 2018 section 3.3.8 (from memory)",
                 status if spiralled else "",  # without a spiral: a range to design to
@@ -327,6 +332,56 @@ def _transition_steps(record: dict, units: UnitSystem) -> list[Step]:
             status,
         )
     ]
+
+
+def _road_transition_lengths(record: dict, units: UnitSystem) -> list[Step]:
+    """Each transition length with its constants substituted (a line a checker can redo):
+    comfort, lateral shift (both limits), runoff and runout."""
+    t = record["transition"]
+    if t.get("comfort_rate") is None:
+        return []
+    ln = units.length_label
+    v = units.length_from_si(units.speed_to_si(record["speed"]))  # m/s or ft/s
+    r, e = record["radius"], record["superelevation"]
+    src = "Green Book 2018 section 3.3.8 (from memory)"
+    steps = [
+        Step(
+            "Spiral length, comfort",
+            "L = v^3 / (C R)",
+            f"{v:.4g}^3 / ({t['comfort_rate']:g} x {r:g})",
+            f"{t['length_comfort']:.2f} {ln}",
+            src,
+        ),
+        Step(
+            "Spiral length, least lateral shift",
+            "L = sqrt(24 p_min R)",
+            f"sqrt(24 x {t['shift_min']:.4g} x {r:g})",
+            f"{t['length_shift_min']:.2f} {ln}",
+            src,
+        ),
+    ]
+    if t.get("runoff") is not None and e is not None and e > 0:
+        steps.append(
+            Step(
+                "Superelevation runoff",
+                "L_r = (w n1) e b_w / Delta",
+                f"({t['lane_width']:.4g} x {t['lanes_rotated']:g}) x {e:.4g} x "
+                f"{t['width_factor']:.4g} / {t['relative_gradient']:.4g}",
+                f"{t['runoff']:.2f} {ln}",
+                "Green Book 2018 (from memory); b_w read via a design sheet citing AASHTO",
+            )
+        )
+        if t.get("runout") is not None:
+            steps.append(
+                Step(
+                    "Tangent runout",
+                    "L_t = e_NC L_r / e",
+                    f"{t['normal_crown']:.4g} x {t['runoff']:.6g} / {e:.4g}",
+                    f"{t['runout']:.2f} {ln}",
+                    "Green Book 2018 (from memory)",
+                )
+            )
+    return steps
 
 
 def _sight_steps(record: dict, units: UnitSystem) -> list[Step]:

@@ -54,6 +54,16 @@ def _title_block(pdf, s: SheetSet, b: BendSheet, page: int) -> None:
         pdf.multi_cell(0, 3.6, f"Notes: {b.notes}", new_x="LMARGIN", new_y="NEXT")
 
 
+def _numbers(lines: list[int]) -> str:
+    """'1-3, 5' for lines 1, 2, 3 and 5."""
+    parts, start = [], lines[0]
+    for a, b in zip(lines, [*lines[1:], None], strict=True):
+        if b != a + 1:
+            parts.append(str(start) if start == a else f"{start}-{a}")
+            start = b
+    return ", ".join(parts)
+
+
 def _working(pdf, b: BendSheet, compact: bool = False) -> None:
     """The working table: a row per step (formula, values substituted, answer, check) and
     its source below it; an input error in red above it."""
@@ -79,9 +89,20 @@ def _working(pdf, b: BendSheet, compact: bool = False) -> None:
                 row.cell(c)
             chk = check_word(st)
             row.cell(chk, style=FontFace(emphasis="BOLD", color=status_colour(chk)))
+            if compact:
+                continue  # a crowded page lists the sources once, below the table
             row = table.row()
             row.cell("")
             row.cell(f"source: {st.source}", colspan=5, style=src)
+    if compact:
+        lines: dict[str, list[int]] = {}
+        for i, st in enumerate(b.steps, start=1):
+            lines.setdefault(st.source, []).append(i)
+        pdf.set_font(FONT, "", 5.5)
+        pdf.set_text_color(*GREY)
+        text = "; ".join(f"{_numbers(n)}: {source}" for source, n in lines.items())
+        pdf.multi_cell(0, 2.5, f"Sources by line: {text}", new_x="LMARGIN", new_y="NEXT")
+        pdf.set_text_color(0, 0, 0)
 
 
 def pdf_bend(

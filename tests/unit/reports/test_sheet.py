@@ -105,7 +105,7 @@ def test_inputs_standard_and_working_are_printed(pages):
     assert "Design speed 80 km/h" in qv04 and "Radius 160 m" in qv04
     assert "Green Book 2018" in qv04 and "Table 3-7" in qv04
     assert "R_min = 80^2 / (127 x (0.080 + 0.140))" in qv04
-    assert "source: AASHTO Green Book 2018 Eq. 3-8" in qv04
+    assert "AASHTO Green Book 2018 Eq. 3-8" in qv04  # as "source: ..." or "Sources by line"
     rail = page_of(pages, "QS-01")
     assert "EN 13803" in rail and "Applied cant 60 mm" in rail
     assert "E = s v^2 / (g R)" in rail
