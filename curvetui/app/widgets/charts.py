@@ -348,7 +348,17 @@ class _ChartView(Widget):
         self.show(chart, units=units, bend_failed=record["status"] == "fail")
 
     def chart_for(self, inputs: dict, units: UnitSystem, ctx):
-        raise NotImplementedError
+        """The chart of this view's kind for a bend's inputs (road: against the table)."""
+        if self.KIND == "road":
+            return road_chart_for_inputs(inputs, units, ctx.table)
+        return rail_chart_for_inputs(inputs, units, ctx.limits)
+
+    def render(self) -> Text:
+        draw = draw_road_chart if self.KIND == "road" else draw_rail_chart
+        size = self.size
+        return draw(
+            self._chart, size.width, size.height, self._units, self._message, self._bend_failed
+        )
 
 
 class RoadChartView(_ChartView):
@@ -357,27 +367,9 @@ class RoadChartView(_ChartView):
     EMPTY = NO_ROAD
     KIND = "road"
 
-    def chart_for(self, inputs: dict, units: UnitSystem, ctx) -> RoadChart:
-        return road_chart_for_inputs(inputs, units, ctx.table)
-
-    def render(self) -> Text:
-        size = self.size
-        return draw_road_chart(
-            self._chart, size.width, size.height, self._units, self._message, self._bend_failed
-        )
-
 
 class RailChartView(_ChartView):
     """Cant against speed for the current rail curve."""
 
     EMPTY = NO_RAIL
     KIND = "rail"
-
-    def chart_for(self, inputs: dict, units: UnitSystem, ctx) -> RailChart:
-        return rail_chart_for_inputs(inputs, units, ctx.limits)
-
-    def render(self) -> Text:
-        size = self.size
-        return draw_rail_chart(
-            self._chart, size.width, size.height, self._units, self._message, self._bend_failed
-        )

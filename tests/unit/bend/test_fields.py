@@ -1,4 +1,9 @@
-"""The field list is the one place inputs are declared; the faces read it."""
+"""The field list is the one place inputs are declared; the faces read it.
+
+Source: none outside the project; these check the project's structure (issue 12, item 1),
+not an engineering value. The ranges themselves are checked against their sources in
+the validation tests and in tests/unit/bend/test_rail_limits.py.
+"""
 
 from __future__ import annotations
 

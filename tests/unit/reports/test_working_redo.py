@@ -2,7 +2,12 @@
 road bends, each line's substituted expression, evaluated here, gives the answer shown.
 
 The expressions are evaluated independently of the engine (Python arithmetic on the printed
-numbers); the tolerance allows for the four significant figures the lines print.
+numbers); the tolerance allows for the four significant figures the lines print. The
+reference is therefore the printed formula itself: L = v^3 / (C R) and L = sqrt(24 p R)
+(Green Book 2018 sec. 3.3.8, from memory), L_r = (w n1) e b_w / Delta and L_t = e_NC L_r / e
+(Green Book 2018, from memory; b_w read via a design sheet citing AASHTO, see
+../shared/REFERENCES.md). Random bends span Table 3-7's speeds, radii from an e 8 % /
+f 0.10 minimum (common practice choice of range, no source) to five times it.
 """
 
 from __future__ import annotations
