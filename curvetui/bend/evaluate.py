@@ -37,7 +37,6 @@ NO_SPIRAL_FITS = 1 << 5  # a spiral is given, but no length meets minimum and ma
 SPIRAL_NOT_SUITABLE = 1 << 6  # no spiral given, and none would fit: a note
 CURVE_TOO_SHORT = 1 << 7  # no spiral: the curve is too short to reach full superelevation
 GAUGE_NOT_COVERED = 1 << 8  # the curve's gauge is not the one the rail limits are set for
-SPIRAL_FAIL_MASK = SPIRAL_IN_SHORT | SPIRAL_IN_LONG | SPIRAL_OUT_SHORT | SPIRAL_OUT_LONG
 ROAD_SPIRAL_FLAGS = {
     "spiral_in_short": SPIRAL_IN_SHORT,
     "spiral_in_long": SPIRAL_IN_LONG,
@@ -109,13 +108,6 @@ class Evaluation:
     def spiral_length(self, key: str, rows) -> np.ndarray:
         """Spiral length [m] of each row, 0 without one; spiral out defaults to in."""
         return _spiral(self, key, rows)
-
-    def values_si_spiral(self, key: str, i: int) -> float:
-        """The spiral length [m] row ``i`` gives at one end (spiral out defaults to in)."""
-        si, present = self.parsed.si, self.parsed.present
-        if key == "spiral_out" and present["spiral_out"][i]:
-            return float(si["spiral_out"][i])
-        return float(si["spiral_in"][i]) if present["spiral_in"][i] else 0.0
 
     def utilisation(self) -> np.ndarray:
         """Largest demand / limit of each row's main check (NaN for errors): for ranking."""

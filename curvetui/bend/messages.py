@@ -73,13 +73,9 @@ class Rule:
     by_row: bool = False  # build(evaluation, row, ...) rather than build(result, position, ...)
 
 
-def _row(key: str, digits: str = ".1f") -> Callable:
-    return lambda ev, i: format(float(ev.values[key][i]), digits)
-
-
 def _spiral_short(which: str, key: str) -> Callable:
     def build(ev: Evaluation, i, ref, units) -> str:
-        given = float(ev.values_si_spiral(key, i)) / units.length
+        given = float(ev.spiral_length(key, np.array([i]))[0]) / units.length
         label = units.length_label
         gov = ev.texts["transition.governing"][i]
         if ev.parsed.is_rail[i]:
@@ -98,7 +94,7 @@ def _spiral_short(which: str, key: str) -> Callable:
 
 def _spiral_long(which: str, key: str) -> Callable:
     def build(ev: Evaluation, i, ref, units) -> str:
-        given = float(ev.values_si_spiral(key, i)) / units.length
+        given = float(ev.spiral_length(key, np.array([i]))[0]) / units.length
         hi = float(ev.values["transition.spiral_length_max"][i])
         label = units.length_label
         return (
@@ -244,8 +240,8 @@ RULES: tuple[Rule, ...] = (
         "road_transition",
         tr.WARN_SPEED_BELOW_TABLE | tr.WARN_SPEED_ABOVE_TABLE,
         "warning",
-        "gradient_extrapolated",
-        _const("relative gradient extrapolated beyond the table"),
+        "gradient_outside_table",
+        _const("design speed outside the table: no relative gradient, no runoff"),
         True,
         "transition",
     ),

@@ -14,7 +14,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from curvetui.bend.fields import BY_KEY, FIELDS, RAIL, ROAD, STATION, Field
+from curvetui.bend.fields import FIELDS, RAIL, ROAD, STATION, Field
 from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem
 from curvetui.stations import parse_station
@@ -219,7 +219,3 @@ def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n, limi
             got = f"{float(v[i]):g}"
         found.append(Issue(int(i), f.key, f"{allowed_txt}, got {got}"))
     return found
-
-
-def field_label(key: str) -> str:
-    return BY_KEY[key].label if key in BY_KEY else key

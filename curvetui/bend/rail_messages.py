@@ -79,7 +79,7 @@ def _below_scope(c, i, lim: RailLimits, u) -> str:
 
 
 def _outside(c, i, lim: RailLimits, u) -> str:
-    return f"speed above the last band of {lim.name}: its limits extrapolated"
+    return f"speed above the last band of {lim.name}: the last band's limits applied"
 
 
 # (flag, severity, code, builder, constant, values): in the order the messages are listed

@@ -60,11 +60,11 @@ def _superelevation(c: RoadCheck, i, t: RoadTable, u: UnitSystem) -> str:
 
 
 def _below(c, i, t: RoadTable, u) -> str:
-    return f"design speed is below the table ({_table_range(t)}): f_max extrapolated"
+    return f"design speed is below the table ({_table_range(t)}): no f_max"
 
 
 def _above(c, i, t: RoadTable, u) -> str:
-    return f"design speed is above the table ({_table_range(t)}): f_max extrapolated"
+    return f"design speed is above the table ({_table_range(t)}): no f_max"
 
 
 def _interpolated(c, i, t, u) -> str:

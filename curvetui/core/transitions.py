@@ -37,9 +37,9 @@ COMFORT, LATERAL_SHIFT, RUNOFF = 0, 1, 2
 # Road transition flags, one bit each.
 FAIL_NO_SPIRAL_LENGTH = 1 << 0  # minimum above maximum (or not computable): no length fits
 WARN_GRADIENT_INTERPOLATED = 1 << 1  # design speed between table rows
-WARN_SPEED_BELOW_TABLE = 1 << 2  # relative gradient extrapolated below the first row
-WARN_SPEED_ABOVE_TABLE = 1 << 3  # relative gradient extrapolated above the last row
-WARN_GRADIENT_NOT_POSITIVE = 1 << 4  # extrapolated gradient <= 0: runoff cannot be found
+WARN_SPEED_BELOW_TABLE = 1 << 2  # speed below the first row: no relative gradient
+WARN_SPEED_ABOVE_TABLE = 1 << 3  # speed above the last row: no relative gradient
+WARN_GRADIENT_NOT_POSITIVE = 1 << 4  # no gradient above 0 (outside the table): no runoff
 NOTE_NO_SUPERELEVATION = 1 << 5  # e <= 0: no runoff, runout not defined
 ROAD_FAIL_MASK = FAIL_NO_SPIRAL_LENGTH
 
@@ -133,7 +133,8 @@ def road_transition(
     """Spiral length range, runoff and runout for road bends. SI inputs; any may be arrays.
 
     The maximum relative gradient is looked up in ``table`` at the design speed (flagged
-    when interpolated or extrapolated); ``normal_crown`` [fraction] defaults to the table's.
+    when interpolated, or NaN outside the table); ``normal_crown`` [fraction] defaults to
+    the table's.
     The minimum spiral length is the largest of the comfort, lateral-shift and runoff
     lengths (ties go to the first in ROAD_GOVERNING); the maximum is the lateral-shift one.
     """

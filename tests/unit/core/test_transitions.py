@@ -108,7 +108,8 @@ def test_gradient_lookup_flags(metric):
     assert float(t.relative_gradient[0]) == pytest.approx(0.0044)
 
 
-def test_gradient_extrapolated_to_zero_is_flagged(metric):
+def test_speed_outside_the_table_has_no_gradient_and_no_runoff(metric):
+    # never extrapolated (issue 13): 400 km/h lies beyond Green Book Table 3-15
     t = tr.road_transition(metric, 400 * KMH, 5000.0, 0.04)
     assert t.flags & tr.WARN_GRADIENT_NOT_POSITIVE
     assert t.flags & tr.WARN_SPEED_ABOVE_TABLE
