@@ -235,7 +235,7 @@ FIELDS: tuple[Field, ...] = (
         FACTOR,
         (ROAD,),
         "number of lanes rotated about the axis, for the runoff's b_w factor",
-        {ROAD: (1.0, 3.5)},
+        {ROAD: (1.0, 3.5)},  # Green Book 2018 Table 3-16 tabulates n1 from 1 to 3.5 (from memory)
         default="1",
         short="lanes rotated",
     ),

@@ -119,20 +119,9 @@ def record_at(ev: Evaluation, i: int, name, other=None, field_name=None) -> Bend
     for key, arr in ev.texts.items():
         if arr[i] is not None and kind in out.BY_KEY[key].kinds:
             values[key] = arr[i]
-    if kind == "rail":
-        for key in (
-            "equilibrium_cant_low",
-            "cant_excess",
-            "min_speed",
-            "balancing_cant",
-            "cant_allowed_min",
-            "cant_allowed_max",
-            "excess_limit",
-            "low_speed",
-        ):
-            values.setdefault(key, None)
-    elif "cross_section" in values:
-        values.setdefault("superelevation", None)
+    for o in out.OUTPUTS:  # every main result of the kind is in the record, null if unknown
+        if kind in o.kinds and "." not in o.key:
+            values.setdefault(o.key, None)
     checks = {
         k: "fail" if c[i] == FAIL else "pass"
         for k, c in ev.checks.items()

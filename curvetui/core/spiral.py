@@ -253,9 +253,13 @@ def overlap_message(r: float, d: float, l1: float, l2: float, where: str = "") -
     fit1 = math.floor(l1 * scale * 100.0) / 100.0
     fit2 = math.floor(l2 * scale * 100.0) / 100.0
     lengths = f"{fit1:.2f} m each" if l1 == l2 else f"{fit1:.2f} m in and {fit2:.2f} m out"
-    r_fit = math.ceil((l1 + l2) / (2.0 * d) * 100.0) / 100.0
+    r_need = (l1 + l2) / (2.0 * d) * 100.0
+    radius = (
+        f"use a radius of at least {math.ceil(r_need) / 100.0:.2f} m, "
+        if math.isfinite(r_need)
+        else ""  # a deflection so small that no radius would do
+    )
     return (
         f"spirals overlap{where}: spiral angles {a}° + {b}° exceed the deflection {c}°; "
-        f"shorten the spirals to at most {lengths}, use a radius of at least {r_fit:.2f} m, "
-        "or increase the deflection"
+        f"shorten the spirals to at most {lengths}, {radius}or increase the deflection"
     )

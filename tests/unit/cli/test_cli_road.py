@@ -110,7 +110,13 @@ def test_table_row_without_source_is_refused(tmp_path, capsys):
     from curvetui.storage.tables import road_table
 
     text = road_table("aashto-2018-metric").path
-    body = open(text, encoding="utf-8").read().replace('source = "f_max read: Green Book 2018 Table 3-7 (confirm against a licensed copy); running speed and gradient from memory"', "", 1)  # noqa: E501
+    first_source = (
+        'source = "f_max read: Green Book 2018 Table 3-7 (confirm against a licensed copy); '
+        'running speed and gradient from memory"'
+    )
+    original = open(text, encoding="utf-8").read()
+    body = original.replace(first_source, "", 1)
+    assert body.count(first_source) == original.count(first_source) - 1  # one row lost it
     path = tmp_path / "nosource.toml"
     path.write_text(body)
     code = main(["check", "road", "--speed", "50", "--radius", "400", "--table", str(path)])
@@ -161,3 +167,47 @@ def test_human_output_shows_caution_and_status():
     assert proc.returncode == 0
     assert "Status: PASS" in proc.stdout
     assert "local road or rail authority standards govern" in proc.stdout.replace("\n", " ")
+
+
+def test_inputs_found_in_review_give_messages_not_tracebacks(capsys):
+    # a deflection of 1e-320 degrees with a spiral: the spirals overlap; no radius fits
+    code = main(
+        [
+            "check",
+            "road",
+            "--speed",
+            "80",
+            "--radius",
+            "400",
+            "--deflection",
+            "1e-320",
+            "--spiral",
+            "50",
+        ]
+    )
+    err = capsys.readouterr().err
+    assert code == 2 and "spirals overlap" in err and "Traceback" not in err
+    # R 2 m at 20 km/h, e 0: even 15 km/h needs f 0.89 > 0.40 (Green Book 2018 Table 3-7),
+    # so the safe speed is unknown: the table prints "-" and the JSON null
+    assert (
+        main(
+            [
+                "check",
+                "road",
+                "--speed",
+                "20",
+                "--radius",
+                "2",
+                "--superelevation",
+                "0",
+                "--obstruction-offset",
+                "1",
+                "--lane-width",
+                "4",
+            ]
+        )
+        == 1
+    )
+    assert "Safe speed" in capsys.readouterr().out
+    main(["check", "road", "--speed", "20", "--radius", "2", "--superelevation", "0", "--json"])
+    assert json.loads(capsys.readouterr().out)["safe_speed"] is None
