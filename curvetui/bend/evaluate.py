@@ -12,6 +12,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from curvetui.bend.fields import BY_KEY
 from curvetui.bend.outputs import OUTPUTS, TEXT
 from curvetui.bend.parse import Issue, Parsed
 from curvetui.bend.road_transition import road_transition
@@ -37,6 +38,7 @@ NO_SPIRAL_FITS = 1 << 5  # a spiral is given, but no length meets minimum and ma
 SPIRAL_NOT_SUITABLE = 1 << 6  # no spiral given, and none would fit: a note
 CURVE_TOO_SHORT = 1 << 7  # no spiral: the curve is too short to reach full superelevation
 GAUGE_NOT_COVERED = 1 << 8  # the curve's gauge is not the one the rail limits are set for
+TRAFFIC_NOT_USED = 1 << 9  # traffic given, but the rail limits set no speed by traffic
 ROAD_SPIRAL_FLAGS = {
     "spiral_in_short": SPIRAL_IN_SHORT,
     "spiral_in_long": SPIRAL_IN_LONG,
@@ -329,7 +331,8 @@ def _rail(ev: Evaluation, rows: np.ndarray) -> None:
         uniq, inverse = np.unique(gauge_mm[given], return_inverse=True)
         s[given] = np.array([rail_centres_for_gauge(float(g)) for g in uniq])[inverse]
     ev.bend_flags[rows[given & np.isfinite(limits.gauge)]] |= GAUGE_NOT_COVERED
-    check = check_rail(limits, v, r, ea, low, s)
+    traffic = _traffic(ev, rows)
+    check = check_rail(limits, v, r, ea, low, s, limits.top_speeds()[traffic])
     ev.parts["rail"], ev.part_rows["rail"] = check, rows
     for key, values in rail_columns(check, units).items():
         _put(ev, key, rows, values)
@@ -373,6 +376,20 @@ def _rail(ev: Evaluation, rows: np.ndarray) -> None:
     ev.texts["transition.status"][rows] = np.where(
         t_failed, "fail", np.where(none, "not evaluated", "pass")
     )
+
+
+def _traffic(ev: Evaluation, rows) -> np.ndarray:
+    """Each rail row's traffic code (the field's default where blank); the record names it
+    where the limits set a top speed by traffic, and a note says it is unused elsewhere."""
+    field = BY_KEY["traffic"]
+    given = ev.parsed.present["traffic"][rows]
+    code = np.where(given, ev.parsed.si["traffic"][rows], field.choices.index(field.default))
+    code = code.astype(int)
+    if ev.ctx.limits.traffic_top_speeds:
+        ev.texts["traffic"][rows] = np.asarray(field.choices, object)[code]
+    else:
+        ev.bend_flags[rows[given]] |= TRAFFIC_NOT_USED
+    return code
 
 
 def _verdict(ev: Evaluation) -> None:

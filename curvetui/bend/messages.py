@@ -127,6 +127,13 @@ def _gauge_text(ev: Evaluation, i, ref, units) -> str:
     )
 
 
+def _traffic_text(ev: Evaluation, i, ref, units) -> str:
+    return (
+        f"the limits {ev.ctx.limits.name} set no top speed by traffic: the traffic given is "
+        "not used"
+    )
+
+
 def _const(text: str) -> Callable:
     return lambda obj, j, ref, units: text
 
@@ -323,6 +330,7 @@ RULES: tuple[Rule, ...] = (
         _gauge_text,
         False,
     ),
+    Rule("bend", ev_mod.TRAFFIC_NOT_USED, "note", "traffic_not_used", _traffic_text, True),
     Rule(
         "bend",
         ev_mod.GEOMETRY_SKIPPED,

@@ -118,6 +118,7 @@ OUTPUTS: tuple[Output, ...] = (
     _o("e_max", (ROAD,)),
     _o("cant", (RAIL,), INPUT, echo=True),
     _o("low_speed", (RAIL,), INPUT, echo=True),
+    _o("traffic", (RAIL,), TEXT, echo=True),  # null where the limits set no speed by traffic
     _o("degree_of_curve_arc", (RAIL,)),
     _o("degree_of_curve_chord", (RAIL,)),
     _o("transition.governing", rounding=TEXT),

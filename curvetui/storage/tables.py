@@ -260,6 +260,7 @@ def parse_rail_limits(data: dict, path: str = ""):
         sources.append(src)
     if np.any(np.diff(cols["speed_max"]) <= 0):
         raise TableError(f"{label}: band speed_max must rise strictly from band to band")
+    tops, traffic_source = _traffic_top_speeds(head, where, speed_unit, cols["speed_max"][-1])
     return RailLimits(
         name=name,
         title=str(head.get("title", name)),
@@ -281,7 +282,34 @@ def parse_rail_limits(data: dict, path: str = ""):
         if "gauge" in head
         else float("nan"),
         **{k: np.array(v) for k, v in transition.items()},
+        traffic_top_speeds=tops,
+        traffic_source=traffic_source,
     )
+
+
+def _traffic_top_speeds(head: dict, where: str, speed_unit: float, last: float):
+    """The optional ``[limits.top_speed]`` table: a top speed (km/h or mph) per kind of
+    traffic (``passenger``, ``freight``) and its ``source``; none may pass the last band."""
+    from curvetui.core.rail import TRAFFIC
+
+    if "top_speed" not in head:
+        return (), ""
+    table = _need(head, "top_speed", where, dict)
+    at = f"{where} top_speed"
+    source = _need(table, "source", at, str)
+    if not source.strip():
+        raise TableError(f"{at}: 'source' must name where the speeds come from")
+    unknown = sorted(set(table) - {"source", *TRAFFIC})
+    if unknown:
+        raise TableError(f"{at}: unknown key {unknown[0]!r}; keys: {', '.join(TRAFFIC)}, source")
+    tops = []
+    for traffic in TRAFFIC:
+        if traffic in table:
+            top = _number(table, traffic, at, 1, 600) * speed_unit
+            if top > last * (1 + 1e-12):
+                raise TableError(f"{at}: '{traffic}' is above the last band's speed_max")
+            tops.append((traffic, top))
+    return tuple(tops), source
 
 
 @cache
