@@ -193,7 +193,8 @@ FIELDS: tuple[Field, ...] = (
         "Side friction factor",
         FACTOR,
         (ROAD,),
-        "side friction factor to use instead of the table's f_max",
+        "side friction factor to check against instead of the table's f_max (R_min, friction "
+        "demand, safe speed); the design superelevation keeps the table's distribution and f_max",
         {ROAD: (0.01, 1.0)},
         default="table f_max",
     ),

@@ -18,7 +18,7 @@ INTERPOLATED = 1
 BELOW_TABLE = 2
 ABOVE_TABLE = 3
 
-DISTRIBUTIONS = ("aashto-method-5", "linear")
+DISTRIBUTIONS = ("aashto-method-5", "linear", "aashto-method-2")
 
 
 @dataclass(frozen=True)
