@@ -39,6 +39,7 @@ SPIRAL_NOT_SUITABLE = 1 << 6  # no spiral given, and none would fit: a note
 CURVE_TOO_SHORT = 1 << 7  # no spiral: the curve is too short to reach full superelevation
 GAUGE_NOT_COVERED = 1 << 8  # the curve's gauge is not the one the rail limits are set for
 TRAFFIC_NOT_USED = 1 << 9  # traffic given, but the rail limits set no speed by traffic
+SPIRAL_NOT_NEEDED = 1 << 10  # radius above the table's largest that uses a spiral: a note
 ROAD_SPIRAL_FLAGS = {
     "spiral_in_short": SPIRAL_IN_SHORT,
     "spiral_in_long": SPIRAL_IN_LONG,
@@ -47,6 +48,7 @@ ROAD_SPIRAL_FLAGS = {
     "no_fit": NO_SPIRAL_FITS,
     "not_suitable": SPIRAL_NOT_SUITABLE,
     "too_short": CURVE_TOO_SHORT,
+    "not_needed": SPIRAL_NOT_NEEDED,
 }
 
 ROAD_CHECKS = ("radius", "friction", "superelevation", "transition", "sight")

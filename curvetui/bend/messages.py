@@ -127,6 +127,15 @@ def _gauge_text(ev: Evaluation, i, ref, units) -> str:
     )
 
 
+def _spiral_not_needed(ev: Evaluation, i, ref, units) -> str:
+    lab = units.length_label
+    r_max = float(ev.values["transition.spiral_radius_max"][i])
+    return (
+        f"a spiral is not needed here (R {float(ev.values['radius'][i]):g} {lab} is above the "
+        f"table's {r_max:.0f} {lab} at {float(ev.values['speed'][i]):g} {units.speed_label})"
+    )
+
+
 def _traffic_text(ev: Evaluation, i, ref, units) -> str:
     return (
         f"the limits {ev.ctx.limits.name} set no top speed by traffic: the traffic given is "
@@ -184,6 +193,16 @@ RULES: tuple[Rule, ...] = (
         True,
         "transition",
         ("transition.spiral_length_min", "transition.spiral_length_max"),
+    ),
+    Rule(
+        "bend",
+        ev_mod.SPIRAL_NOT_NEEDED,
+        "note",
+        "spiral_not_needed",
+        _spiral_not_needed,
+        False,
+        "transition",
+        ("radius", "transition.spiral_radius_max"),
     ),
     Rule(
         "bend",

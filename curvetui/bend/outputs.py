@@ -76,6 +76,7 @@ ROAD_TRANSITION = (
     "relative_gradient",
     "runoff",
     "runout",
+    "spiral_radius_max",  # the table's largest radius that uses a spiral (null: none given)
 )
 ROAD_TRANSITION_CONSTANTS = (
     "comfort_rate",  # C, m/s^3 or ft/s^3

@@ -79,6 +79,7 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
         "side_friction_max": [],
         "running_speed": [],
         "relative_gradient": [],
+        "spiral_radius_max": [],
     }
     sources = []
     for i, row in enumerate(rows, start=1):
@@ -93,6 +94,9 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
             vr = float(row.get("running_speed", cols["speed"][-1]))
         cols["running_speed"].append(vr)
         cols["relative_gradient"].append(_number(row, "relative_gradient", rw, 0.01, 5.0))
+        cols["spiral_radius_max"].append(
+            _number(row, "spiral_radius_max", rw, 1, 1e6) if "spiral_radius_max" in row else np.nan
+        )
         src = row.get("source")
         if not isinstance(src, str) or not src.strip():
             raise TableError(f"{rw}: every row needs a 'source' naming where its values come from")
@@ -101,6 +105,15 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
     if np.any(np.diff(speeds) <= 0):
         raise TableError(f"{label}: row speeds must rise strictly from row to row")
     constant = _number(head, "point_mass_constant", where, 1, 1000)
+    spiral_max = np.array(cols["spiral_radius_max"])
+    spiral_source = head.get("spiral_radius_max_source", "")
+    if np.isfinite(spiral_max).any() and not (
+        isinstance(spiral_source, str) and spiral_source.strip()
+    ):
+        raise TableError(
+            f"{where}: rows give spiral_radius_max, so 'spiral_radius_max_source' must say "
+            "where those values come from"
+        )
     return RoadTable(
         name=name,
         title=str(head.get("title", name)),
@@ -132,6 +145,8 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
             significant_figures=int(rounding.get("significant_figures", 3)),
         ),
         path=path,
+        spiral_radius_max=spiral_max if np.isfinite(spiral_max).any() else None,
+        spiral_radius_max_source=spiral_source if np.isfinite(spiral_max).any() else "",
     )
 
 
