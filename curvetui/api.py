@@ -28,10 +28,10 @@ from typing import Any
 import numpy as np
 
 from curvetui.bend.evaluate import STATUS_NAMES, Evaluation
-from curvetui.bend.fields import BY_KEY, STATION
+from curvetui.bend.fields import BY_KEY
 from curvetui.bend.messages import SEVERITY_WORDS, message_parts
 from curvetui.bend.outputs import OUTPUTS, TEXT
-from curvetui.bend.parse import Column
+from curvetui.bend.parse import Column, column_for
 from curvetui.bend.service import check_columns
 from curvetui.core.units import unit_system
 
@@ -41,13 +41,13 @@ def _column(values: Any, n: int, key: str, units: str) -> Column:
     arr = np.asarray(values)
     if arr.ndim == 0:
         arr = np.full(n, arr.item(), dtype=arr.dtype)
-    if arr.dtype.kind in "fiu":
+    if arr.dtype.kind in "fiu" and not BY_KEY[key].choices:
         value = arr.astype(float)
         present = ~np.isnan(value)
         bad = present & ~np.isfinite(value)
         texts = arr
         return Column(np.where(bad, np.nan, value), present, bad, lambda i: str(texts[i]))
-    return Column.from_values(list(arr), BY_KEY[key].unit == STATION, units)
+    return column_for(key, list(arr), units)
 
 
 def _context(units: str, table, limits):

@@ -12,8 +12,10 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from curvetui.bend.fields import BY_KEY
 from curvetui.bend.outputs import OUTPUTS, TEXT
 from curvetui.bend.parse import Issue, Parsed
+from curvetui.bend.road_sight import road_sight
 from curvetui.bend.road_transition import road_transition
 from curvetui.core import transitions as tr
 from curvetui.core.circular import circular_curve
@@ -37,6 +39,8 @@ NO_SPIRAL_FITS = 1 << 5  # a spiral is given, but no length meets minimum and ma
 SPIRAL_NOT_SUITABLE = 1 << 6  # no spiral given, and none would fit: a note
 CURVE_TOO_SHORT = 1 << 7  # no spiral: the curve is too short to reach full superelevation
 GAUGE_NOT_COVERED = 1 << 8  # the curve's gauge is not the one the rail limits are set for
+TRAFFIC_NOT_USED = 1 << 9  # traffic given, but the rail limits set no speed by traffic
+SPIRAL_NOT_NEEDED = 1 << 10  # radius above the table's largest that uses a spiral: a note
 ROAD_SPIRAL_FLAGS = {
     "spiral_in_short": SPIRAL_IN_SHORT,
     "spiral_in_long": SPIRAL_IN_LONG,
@@ -45,6 +49,7 @@ ROAD_SPIRAL_FLAGS = {
     "no_fit": NO_SPIRAL_FITS,
     "not_suitable": SPIRAL_NOT_SUITABLE,
     "too_short": CURVE_TOO_SHORT,
+    "not_needed": SPIRAL_NOT_NEEDED,
 }
 
 ROAD_CHECKS = ("radius", "friction", "superelevation", "transition", "sight")
@@ -194,7 +199,7 @@ def _road(ev: Evaluation, rows: np.ndarray) -> None:
     )
     curve_length = _geometry(ev, rows, r)
     road_transition(ev, rows, v, r, check.superelevation, width, ROAD_SPIRAL_FLAGS)
-    _sight(ev, rows, v, r, width, curve_length)
+    road_sight(ev, rows, v, r, width, curve_length)
 
 
 def _spiral(ev: Evaluation, key: str, rows) -> np.ndarray:
@@ -280,44 +285,6 @@ def _geometry(ev: Evaluation, rows, r) -> np.ndarray:
     return length
 
 
-def _sight(ev: Evaluation, rows, v, r, width, curve_length) -> None:
-    from curvetui.core import sight as sd
-
-    units, si, present = ev.ctx.units, ev.parsed.si, ev.parsed.present
-    has = np.nonzero(present["obstruction_offset"][rows])[0]
-    if not len(has):
-        return
-    at = rows[has]
-    r_lane = r[has] - width[has] / 2.0
-    grade = np.where(present["grade"][at], si["grade"][at], 0.0)
-    with np.errstate(all="ignore"):
-        c = sd.sight_check(
-            v[has],
-            r_lane,
-            si["obstruction_offset"][at],
-            curve_length=curve_length[has],
-            units=units.name,
-            grade=grade,
-        )
-    ev.parts["sight"], ev.part_rows["sight"] = c, at
-    lane = np.full(ev.n, np.nan)
-    lane[at] = width[has]
-    ev.parts["lane_width"] = lane
-    for key in (
-        "stopping_sight_distance",
-        "sightline_offset_required",
-        "offset_available",
-        "sight_distance_available",
-        "offset_that_passes",
-    ):
-        _put(ev, f"sight.{key}", at, units.length_from_si(getattr(c, key)))
-    _put(ev, "sight.sightline_radius", at, units.length_from_si(r_lane))
-    _put(ev, "sight.speed_that_passes", at, units.speed_from_si(c.speed_that_passes))
-    failed = ~np.asarray(c.status, bool)
-    ev.texts["sight.status"][at] = np.where(failed, "fail", "pass")
-    _check(ev, "sight", at, failed)
-
-
 def _rail(ev: Evaluation, rows: np.ndarray) -> None:
     units, limits, si, present = ev.ctx.units, ev.ctx.limits, ev.parsed.si, ev.parsed.present
     v, r, ea, low = si["speed"][rows], si["radius"][rows], si["cant"][rows], si["low_speed"][rows]
@@ -329,7 +296,8 @@ def _rail(ev: Evaluation, rows: np.ndarray) -> None:
         uniq, inverse = np.unique(gauge_mm[given], return_inverse=True)
         s[given] = np.array([rail_centres_for_gauge(float(g)) for g in uniq])[inverse]
     ev.bend_flags[rows[given & np.isfinite(limits.gauge)]] |= GAUGE_NOT_COVERED
-    check = check_rail(limits, v, r, ea, low, s)
+    traffic = _traffic(ev, rows)
+    check = check_rail(limits, v, r, ea, low, s, limits.top_speeds()[traffic])
     ev.parts["rail"], ev.part_rows["rail"] = check, rows
     for key, values in rail_columns(check, units).items():
         _put(ev, key, rows, values)
@@ -373,6 +341,20 @@ def _rail(ev: Evaluation, rows: np.ndarray) -> None:
     ev.texts["transition.status"][rows] = np.where(
         t_failed, "fail", np.where(none, "not evaluated", "pass")
     )
+
+
+def _traffic(ev: Evaluation, rows) -> np.ndarray:
+    """Each rail row's traffic code (the field's default where blank); the record names it
+    where the limits set a top speed by traffic, and a note says it is unused elsewhere."""
+    field = BY_KEY["traffic"]
+    given = ev.parsed.present["traffic"][rows]
+    code = np.where(given, ev.parsed.si["traffic"][rows], field.choices.index(field.default))
+    code = code.astype(int)
+    if ev.ctx.limits.traffic_top_speeds:
+        ev.texts["traffic"][rows] = np.asarray(field.choices, object)[code]
+    else:
+        ev.bend_flags[rows[given]] |= TRAFFIC_NOT_USED
+    return code
 
 
 def _verdict(ev: Evaluation) -> None:

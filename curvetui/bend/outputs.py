@@ -76,6 +76,7 @@ ROAD_TRANSITION = (
     "relative_gradient",
     "runoff",
     "runout",
+    "spiral_radius_max",  # the table's largest radius that uses a spiral (null: none given)
 )
 ROAD_TRANSITION_CONSTANTS = (
     "comfort_rate",  # C, m/s^3 or ft/s^3
@@ -118,6 +119,7 @@ OUTPUTS: tuple[Output, ...] = (
     _o("e_max", (ROAD,)),
     _o("cant", (RAIL,), INPUT, echo=True),
     _o("low_speed", (RAIL,), INPUT, echo=True),
+    _o("traffic", (RAIL,), TEXT, echo=True),  # null where the limits set no speed by traffic
     _o("degree_of_curve_arc", (RAIL,)),
     _o("degree_of_curve_chord", (RAIL,)),
     _o("transition.governing", rounding=TEXT),

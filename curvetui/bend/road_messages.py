@@ -80,6 +80,11 @@ def _emax(c: RoadCheck, i, t: RoadTable, u) -> str:
 
 
 def _normal_crown(c, i, t: RoadTable, u) -> str:
+    if t.distribution == "aashto-method-2":
+        return (
+            f"side friction carries the bend with the adverse -{100 * t.normal_crown:.1f} % "
+            "crown within f_max (Method 2): normal crown kept"
+        )
     return (
         f"design e below {100 * t.normal_crown_limit:.1f} %: normal crown kept; "
         f"friction checked on the outside lane at the adverse -{100 * t.normal_crown:.1f} %"
@@ -112,7 +117,10 @@ def _table_top(t: RoadTable) -> str:
 
 
 def _friction_given(c, i, t, u) -> str:
-    return "side friction given by the user replaces the table's f_max"
+    return (
+        "side friction given by the user replaces the table's f_max in the check (R_min, "
+        "friction demand, safe speed); the design superelevation keeps the table's distribution"
+    )
 
 
 def _below_design(c: RoadCheck, i, t, u) -> str:

@@ -14,6 +14,7 @@ import numpy as np
 
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import ROW, RoadTable
+from curvetui.core.superelevation import DISTRIBUTION_TEXT
 from curvetui.core.units import G0, UnitSystem
 
 
@@ -123,14 +124,10 @@ def road_working(record: dict, table: RoadTable, units: UnitSystem) -> list[Step
     steps.append(
         Step(
             "Design superelevation",
-            "Method 5 (parabolic f distribution on the running speed)"
-            if table.distribution == "aashto-method-5"
-            else "e = e_max R_min / R (linear distribution)",
+            DISTRIBUTION_TEXT[table.distribution][0],
             f"V = {V:g} {sp}, R = {R:g} {ln}, e_max = {record['e_max']:g} %",
             f"e = {record['superelevation_design']:.2f} % ({record['cross_section']})",
-            "Green Book 2018 section 3.3.5 (Method 5)"
-            if table.distribution == "aashto-method-5"
-            else "linear distribution (AASHTO Method 1)",
+            DISTRIBUTION_TEXT[table.distribution][1],
         )
     )
     steps.append(
