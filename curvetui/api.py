@@ -147,7 +147,8 @@ def check_table(data, units: str = "metric", table=None, limits=None):
             mask = None if v.dtype == object else np.isnan(v)
             arrays.append(pa.array(v, mask=mask) if mask is not None else pa.array(list(v)))
         return pa.Table.from_arrays(arrays, names=[*names, *named])
-    out = data.copy()
-    for name, v in named.items():
-        out[name] = v
-    return out
+    import pandas as pd
+
+    # one concat, not a column at a time (pandas warns of a fragmented frame past 100)
+    kept = data.drop(columns=[c for c in named if c in data.columns])
+    return pd.concat([kept, pd.DataFrame(named, index=data.index)], axis=1)

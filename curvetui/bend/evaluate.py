@@ -12,13 +12,14 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from curvetui.bend import working_values
 from curvetui.bend.fields import BY_KEY
+from curvetui.bend.geometry import bend_geometry
 from curvetui.bend.outputs import OUTPUTS, TEXT
 from curvetui.bend.parse import Issue, Parsed
 from curvetui.bend.road_sight import road_sight
 from curvetui.bend.road_transition import road_transition
 from curvetui.core import transitions as tr
-from curvetui.core.circular import circular_curve
 from curvetui.core.rail import RailLimits, check_rail, rail_centres_for_gauge
 from curvetui.core.road import check_road
 from curvetui.core.road_table import RoadTable
@@ -178,6 +179,7 @@ def _road(ev: Evaluation, rows: np.ndarray) -> None:
     ev.parts["road"], ev.part_rows["road"] = check, rows
     for key, values in road_columns(check, units).items():
         _put(ev, key, rows, values)
+    working_values.road_terms(ev, rows, check)
     _put(ev, "speed", rows, units.speed_from_si(v))
     _put(ev, "radius", rows, units.length_from_si(r))
     _put(ev, "e_max", rows, 100 * check.e_max)
@@ -197,7 +199,7 @@ def _road(ev: Evaluation, rows: np.ndarray) -> None:
         si["lane_width"][rows],
         DEFAULT_LANE_WIDTH[units.name],
     )
-    curve_length = _geometry(ev, rows, r)
+    curve_length = bend_geometry(ev, rows, r, GEOMETRY_SKIPPED)
     road_transition(ev, rows, v, r, check.superelevation, width, ROAD_SPIRAL_FLAGS)
     road_sight(ev, rows, v, r, width, curve_length)
 
@@ -209,80 +211,6 @@ def _spiral(ev: Evaluation, key: str, rows) -> np.ndarray:
     if key == "spiral_in":
         return ls_in
     return np.where(present["spiral_out"][rows], si["spiral_out"][rows], ls_in)
-
-
-def _geometry(ev: Evaluation, rows, r) -> np.ndarray:
-    """Circular or spiral geometry of the rows with a deflection; the curve length [m]
-    (NaN without). Spirals that overlap are an input issue of the row."""
-    from curvetui.core.spiral import overlap_message, spiral_curve
-
-    units, si, present = ev.ctx.units, ev.parsed.si, ev.parsed.present
-    length = np.full(len(rows), np.nan)
-    has_d = present["deflection"][rows]
-    given = present["spiral_in"][rows] | present["spiral_out"][rows] | present["pi_station"][rows]
-    ev.bend_flags[rows[~has_d & given]] |= GEOMETRY_SKIPPED
-    d = si["deflection"][rows]
-    pi = np.where(present["pi_station"][rows], si["pi_station"][rows], 0.0)
-    l1, l2 = _spiral(ev, "spiral_in", rows), _spiral(ev, "spiral_out", rows)
-
-    def put(key, at, values, angle=False):
-        _put(
-            ev,
-            f"geometry.{key}",
-            rows[at],
-            np.degrees(values) if angle else units.length_from_si(np.asarray(values)),
-        )
-
-    circ = np.nonzero(has_d & (l1 <= 0) & (l2 <= 0))[0]
-    if len(circ):
-        c = circular_curve(r[circ], np.radians(d[circ]), pi[circ])
-        ev.texts["geometry.type"][rows[circ]] = "circular"
-        put("deflection", circ, np.radians(d[circ]), angle=True)
-        for key in ("tangent", "length", "external", "middle_ordinate", "long_chord"):
-            put(key, circ, getattr(c, key))
-        for key in ("pi", "pc", "pt"):
-            put(key, circ, getattr(c, key))
-        length[circ] = c.length
-    spir = np.nonzero(has_d & ((l1 > 0) | (l2 > 0)))[0]
-    if len(spir):
-        with np.errstate(all="ignore"):
-            s = spiral_curve(r[spir], np.radians(d[spir]), l1[spir], l2[spir], pi[spir])
-        overlap = np.asarray(s.overlap) | ~np.isfinite(s.total_length)
-        for j in np.nonzero(overlap)[0]:
-            k = spir[j]
-            text = overlap_message(float(r[k]), float(np.radians(d[k])), float(l1[k]), float(l2[k]))
-            ev.issues.append(Issue(int(rows[k]), "spiral_in", text))
-        ok = np.nonzero(~overlap)[0]
-        at = spir[ok]
-        ev.texts["geometry.type"][rows[at]] = "spiral-curve-spiral"
-        put("deflection", at, np.radians(d[at]), angle=True)
-        put("spiral_angle", at, s.theta_in[ok], angle=True)
-        for key, name in (
-            ("xs", "xs_in"),
-            ("ys", "ys_in"),
-            ("p", "p_in"),
-            ("k", "k_in"),
-            ("total_tangent", "tangent_in"),
-            ("external", "external"),
-            ("circular_length", "circular_length"),
-            ("total_length", "total_length"),
-        ):
-            put(key, at, np.asarray(getattr(s, name))[ok])
-        unequal = ok[l1[at] != l2[at]]
-        if len(unequal):
-            put("spiral_angle_out", spir[unequal], s.theta_out[unequal], angle=True)
-            for key, name in (
-                ("xs_out", "xs_out"),
-                ("ys_out", "ys_out"),
-                ("p_out", "p_out"),
-                ("k_out", "k_out"),
-                ("total_tangent_out", "tangent_out"),
-            ):
-                put(key, spir[unequal], np.asarray(getattr(s, name))[unequal])
-        for key in ("pi", "ts", "sc", "cs", "st"):
-            put(key, at, np.asarray(getattr(s, key))[ok])
-        length[at] = np.asarray(s.total_length)[ok]
-    return length
 
 
 def _rail(ev: Evaluation, rows: np.ndarray) -> None:
@@ -324,10 +252,11 @@ def _rail(ev: Evaluation, rows: np.ndarray) -> None:
     ev.parts["rail_transition"], ev.part_rows["rail_transition"] = t, rows
     for key in ("length", "length_cant_gradient", "length_cant_rate", "length_deficiency_rate"):
         _put(ev, f"transition.{key}", rows, units.length_from_si(getattr(t, key)))
+    working_values.rail_rate_limits(ev, rows, check.speed)
     gov = np.asarray(t.governing)
     names = np.asarray((*tr.RAIL_GOVERNING, "none evaluated"), object)
     ev.texts["transition.governing"][rows] = names[np.where(gov < 0, -1, gov)]
-    _geometry(ev, rows, r)
+    bend_geometry(ev, rows, r, GEOMETRY_SKIPPED)
     need = np.asarray(t.length)
     t_failed = np.zeros(len(rows), bool)
     for key, short in (("spiral_in", SPIRAL_IN_SHORT), ("spiral_out", SPIRAL_OUT_SHORT)):

@@ -7,6 +7,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from curvetui.bend import working_values
+
 
 def road_sight(ev, rows: np.ndarray, v, r, width, curve_length) -> None:
     """Sight check of the road rows with an obstruction offset into ``ev`` (values, texts
@@ -46,3 +48,4 @@ def road_sight(ev, rows: np.ndarray, v, r, width, curve_length) -> None:
     failed = ~np.asarray(c.status, bool)
     ev.texts["sight.status"][at] = np.where(failed, "fail", "pass")
     ev.checks["sight"][at] = failed.astype(np.int8)
+    working_values.sight_terms(ev, at, v[has], grade)

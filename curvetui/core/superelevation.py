@@ -39,11 +39,14 @@ SUPERELEVATED = 2
 AT_EMAX = 3  # radius at or below R_min: e_max
 
 
-def method5_superelevation(radius, v_design, v_running, e_max, f_max, k):
-    """Design superelevation [fraction] by AASHTO Method 5 (see module docstring).
+LEG_1, LEG_2, LEG_EMAX = 1, 2, 3  # the parabola's leg used, or e_max at R <= R_min
 
-    radius [m], v_design and v_running [m/s], f_max at the design speed, k the table's
-    point-mass constant in SI [m/s^2]. Radii at or below R_min get e_max.
+
+def method5_terms(radius, v_design, v_running, e_max, f_max, k) -> dict:
+    """Method 5's intermediate values (see module docstring), SI, arrays broadcast:
+    ``x`` = 1/R, ``x_pi`` = 1/R_PI, ``x_min`` = 1/R_min [1/m], ``h``, ``s1``, ``s2`` [m],
+    ``m0``, the side friction ``f`` by the distribution, the uncapped ``e`` [fractions] and
+    ``leg`` (LEG_1, LEG_2 or LEG_EMAX). The design e is min(e, e_max), e_max from R_min down.
     """
     x = 1.0 / np.asarray(radius, dtype=float)
     kd = np.asarray(v_design, dtype=float) ** 2 / k
@@ -59,9 +62,21 @@ def method5_superelevation(radius, v_design, v_running, e_max, f_max, k):
     m0 = x_pi * (x_min - x_pi) * (s2 - s1) / (2.0 * x_min)
     f_low = m0 * (x / x_pi) ** 2 + s1 * x
     f_high = m0 * ((x_min - x) / (x_min - x_pi)) ** 2 + h + s2 * (x - x_pi)
-    f = np.where(x <= x_pi, f_low, f_high)
-    e = kd * x - f
-    return np.where(x >= x_min, e_max, np.minimum(e, e_max))
+    low = x <= x_pi
+    f = np.where(low, f_low, f_high)
+    leg = np.where(x >= x_min, LEG_EMAX, np.where(low, LEG_1, LEG_2))
+    terms = {"x": x, "x_pi": x_pi, "x_min": x_min, "h": h, "s1": s1, "s2": s2, "m0": m0}
+    return {**terms, "f": f, "e": kd * x - f, "leg": leg}
+
+
+def method5_superelevation(radius, v_design, v_running, e_max, f_max, k):
+    """Design superelevation [fraction] by AASHTO Method 5 (see module docstring).
+
+    radius [m], v_design and v_running [m/s], f_max at the design speed, k the table's
+    point-mass constant in SI [m/s^2]. Radii at or below R_min get e_max.
+    """
+    t = method5_terms(radius, v_design, v_running, e_max, f_max, k)
+    return np.where(t["x"] >= t["x_min"], e_max, np.minimum(t["e"], e_max))
 
 
 def linear_superelevation(radius, v_design, e_max, f_max, k):
