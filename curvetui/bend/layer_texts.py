@@ -10,6 +10,7 @@ from collections.abc import Callable
 
 import numpy as np
 
+from curvetui.bend.display import shown
 from curvetui.bend.evaluate import Evaluation
 
 
@@ -50,7 +51,9 @@ def sight_offset(ev: Evaluation, i, ref, units) -> str:
     return (
         f"sightline offset {float(v['sight.offset_available'][i]):g} {lab} is less than the "
         f"{float(v['sight.sightline_offset_required'][i]):.2f} {lab} needed; clear to that "
-        f"offset or design for {float(v['sight.speed_that_passes'][i]):.1f} {units.speed_label}"
+        f"offset or design for "
+        f"{shown('safe_speed', float(v['sight.speed_that_passes'][i]), units.name)} "
+        f"{units.speed_label}"
     )
 
 

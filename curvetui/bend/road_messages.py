@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
+from curvetui.bend.display import shown
 from curvetui.core import road
 from curvetui.core.road import RoadCheck
 from curvetui.core.road_table import RoadTable
@@ -20,7 +21,12 @@ Builder = Callable[[RoadCheck, object, RoadTable, UnitSystem], str]
 
 
 def _spd(units: UnitSystem, v) -> str:
-    return f"{units.speed_from_si(float(v)):.1f} {units.speed_label}"
+    return f"{units.speed_from_si(float(v)):g} {units.speed_label}"
+
+
+def _spd_down(units: UnitSystem, v) -> str:
+    """A safe speed as people read it: whole units, rounded down (the safe side)."""
+    return f"{shown('safe_speed', units.speed_from_si(float(v)), units.name)} {units.speed_label}"
 
 
 def _lng(units: UnitSystem, x) -> str:
@@ -45,7 +51,7 @@ def _friction(c: RoadCheck, i, t: RoadTable, u: UnitSystem) -> str:
         f"side friction demand {float(c.side_friction_demand[i]):.3f} exceeds "
         f"f_max {float(c.side_friction_max[i]):.3f}; safe speed is "
         + (
-            f"{_spd(u, c.safe_speed[i])}"
+            f"{_spd_down(u, c.safe_speed[i])}"
             if c.safe_speed[i] == c.safe_speed[i]  # NaN: below the table's lowest speed
             else f"below the table's lowest speed {float(t.speeds[0]):g}"
         )
