@@ -23,8 +23,14 @@ from curvetui.stations import parse_station
 def range_text(lo: float, hi: float, unit: str, lo_open: bool = False) -> str:
     """'must be a number from 1 to 200 km/h' (or 'greater than 0 to 179 degrees')."""
     unit_txt = f" {unit}" if unit else ""
-    lo_txt = f"greater than {lo:g}" if lo_open else f"from {lo:g}"
-    return f"must be a number {lo_txt} to {hi:g}{unit_txt}"
+    lo_txt = f"greater than {_bound(lo)}" if lo_open else f"from {_bound(lo)}"
+    return f"must be a number {lo_txt} to {_bound(hi)}{unit_txt}"
+
+
+def _bound(x: float) -> str:
+    """A range's end with the digits that tell it from a refused value (a table's 80 mph
+    is 128.74752 km/h: '128.748' would name a value the check refuses)."""
+    return f"{x:.10g}"
 
 
 def _shown(text: str) -> str:
@@ -238,6 +244,10 @@ def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n, limi
     lo_a = np.broadcast_to(np.asarray(lo, float), (n,))
     hi_a = np.broadcast_to(np.asarray(hi, float), (n,))
     v = col.value
+    if dynamic is not None:
+        # a table's range converted to the other unit system: the look-up's own tolerance
+        # (curvetui.core.road_table.lookup), so that the table's end typed in full passes
+        lo_a, hi_a = lo_a - 1e-12 * np.abs(lo_a), hi_a + 1e-12 * np.abs(hi_a)
     with np.errstate(invalid="ignore"):
         out = (v < lo_a) | (v > hi_a) | ((v == lo_a) if f.lo_open else False)
     if f.key == "low_speed":  # no range to check against while the speed itself is bad
@@ -252,6 +262,6 @@ def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n, limi
                 allowed_txt = "must be a station such as 2+710.5 or a number"
             got = _shown(col.cell(int(i)))
         else:
-            got = f"{float(v[i]):g}"
+            got = _bound(float(v[i]))
         found.append(Issue(int(i), f.key, f"{allowed_txt}, got {got}"))
     return found
