@@ -76,13 +76,32 @@ def _project_error() -> type[Exception]:
     return ProjectError
 
 
+def _unknown_command(word: str, commands) -> int:
+    """An unknown first word: one line naming the closest command, exit code 2."""
+    import difflib
+
+    from curvetui.cli.common import printable
+
+    names = sorted(c for c in commands if not c.startswith("-"))
+    close = difflib.get_close_matches(word, names, n=1, cutoff=0.6)
+    hint = f"; did you mean '{close[0]}'?" if close else ""
+    sys.stderr.write(
+        f"curvetui: error: unknown command '{printable(word)}'{hint} (commands: "
+        f"{', '.join(names)}; to open a file, give its path: FILE.json or FILE.csv)\n"
+    )
+    return 2
+
+
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the exit code (0 pass, 1 a check failed, 2 bad input)."""
     argv = list(sys.argv[1:] if argv is None else argv)
     from curvetui.cli import project_cmd
 
-    # `curvetui FILE` opens a project: route it before argparse sees an unknown command.
+    # `curvetui FILE` opens a file: route it before argparse sees an unknown command. Any
+    # other first word is a mistyped command: refused, nothing created.
     if argv and not argv[0].startswith("-") and argv[0] not in project_cmd.COMMANDS:
+        if not project_cmd.looks_like_file(argv[0]):
+            return _unknown_command(argv[0], project_cmd.COMMANDS)
         argv = ["open", *argv]
     # the sub-command named first is the only one built; with none (an option such as
     # --help or --version first, or no words) every sub-command is, for the help and errors

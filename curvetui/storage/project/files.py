@@ -214,9 +214,10 @@ def project_text(project: Project) -> str:
     return json.dumps(project.to_json(), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
 
 
-def save_project(project: Project, path: str | Path) -> None:
+def save_project(project: Project, path: str | Path, exclusive: bool = False) -> None:
     """Save atomically, keeping the previous file as FILE.bak. A project that would not load
-    back (e.g. a name longer than the format allows) is refused before anything is written."""
+    back (e.g. a name longer than the format allows) is refused before anything is written.
+    With ``exclusive`` (a new project) an existing file is never replaced."""
     problems = validate(project.to_json())
     if problems:
         raise ProjectError(str(path), problems)
@@ -224,4 +225,4 @@ def save_project(project: Project, path: str | Path) -> None:
         text = project_text(project)
     except ValueError:
         raise ProjectError(str(path), ["a number in the project is not finite"]) from None
-    atomic_write_text(path, text, backup=True)
+    atomic_write_text(path, text, backup=not exclusive, exclusive=exclusive)
