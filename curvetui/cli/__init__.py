@@ -111,6 +111,26 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "run", None):
         parser.print_help()
         return 0
+    try:
+        return _run(args)
+    finally:
+        if command != "tables" or getattr(args, "json", False):
+            _warn_skipped()
+
+
+def _warn_skipped() -> None:
+    """A warning line for each user table file left out (`curvetui tables` lists them)."""
+    files = sys.modules.get("curvetui.storage.table_files")
+    if files is None or sys.stderr is None or sys.stderr.closed:
+        return  # no table was loaded, or the reader went away (a closed pipe)
+    from curvetui.cli.common import printable
+
+    for path, why in files.skipped_files().items():
+        sys.stderr.write(f"curvetui: warning: {printable(path)}: skipped, {printable(why)}\n")
+
+
+def _run(args) -> int:
+    """The sub-command's run, its errors as one line and exit code 2."""
     from curvetui.storage.tables import TableError
 
     try:

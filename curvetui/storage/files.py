@@ -146,7 +146,9 @@ def _create_new(tmp: str, target: Path) -> None:
     try:
         os.link(tmp, target)
     except FileExistsError:
-        raise FileExistsError(errno.EEXIST, "already exists; choose another name", str(target))
+        raise FileExistsError(
+            errno.EEXIST, "already exists; choose another name", str(target)
+        ) from None
     except OSError:  # no hard links on this file system
         if os.path.lexists(target):
             raise FileExistsError(

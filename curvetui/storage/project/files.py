@@ -193,7 +193,9 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
     problems = validate(data) + non_finite_numbers(data)
     if problems:
         raise ProjectError(name, problems)
-    return parse_project(data), notes
+    project = parse_project(data)
+    project.folder = Path(path).parent
+    return project, notes
 
 
 def non_finite_numbers(data, parts=()) -> list[str]:
