@@ -25,22 +25,30 @@ class TableError(ValueError):
     """A table file that cannot be used, or a table name that is not known."""
 
 
-def _usable(path: str | Path, info: os.stat_result, limit: int) -> None:
+def _usable(path: str | Path, info: os.stat_result, limit: int, what: str) -> None:
+    if stat.S_ISDIR(info.st_mode):
+        raise TableError(f"{path}: cannot read: a folder, not a file")
     if not stat.S_ISREG(info.st_mode):
-        raise TableError(f"{path}: not a regular file (a folder, device or pipe)")
+        raise TableError(f"{path}: not a regular file (a device or pipe), so it is not read")
     if info.st_size > limit:
-        raise TableError(f"{path}: {info.st_size:,} bytes; a table file may be at most {limit:,}")
+        raise TableError(f"{path}: {info.st_size:,} bytes; a {what} may be at most {limit:,}")
 
 
-def read_limited(path: str | Path, limit: int = MAX_TABLE_BYTES) -> bytes:
+def read_limited(
+    path: str | Path, limit: int = MAX_TABLE_BYTES, what: str = "table file"
+) -> bytes:
     """The bytes of a regular file of at most ``limit`` bytes; TableError otherwise."""
     try:
-        _usable(path, os.stat(path), limit)  # before opening: a FIFO or device is never opened
+        # checked before opening, so a FIFO or device is never opened; again on the open
+        # file, in case the name was swapped in between
+        _usable(path, os.stat(path), limit, what)
         flags = os.O_RDONLY | getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_NOCTTY", 0)
         fd = os.open(path, flags)
         with os.fdopen(fd, "rb") as fh:
-            _usable(path, os.fstat(fh.fileno()), limit)  # the same file, if swapped since
+            _usable(path, os.fstat(fh.fileno()), limit, what)
             data = fh.read(limit + 1)
+    except FileNotFoundError:
+        raise TableError(f"{path}: no such file") from None
     except OSError as exc:
         raise TableError(f"{path}: cannot read ({exc.strerror or exc})") from None
     except ValueError as exc:  # e.g. a NUL in the name

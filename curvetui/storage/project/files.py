@@ -17,6 +17,9 @@ from typing import Any
 
 from curvetui.storage.files import atomic_write_text
 from curvetui.storage.project.model import FORMAT_VERSION, Bend, Details, Project
+from curvetui.storage.table_files import TableError, read_limited
+
+MAX_PROJECT_BYTES = 200_000_000  # 200 MB: some 150,000 bends with notes and stored results
 
 
 class ProjectError(ValueError):
@@ -167,12 +170,12 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
     Raises ProjectError listing every problem with its JSON path.
     """
     name = str(path)
+    try:  # a regular file only (never a device or FIFO), of a bounded size
+        raw = read_limited(path, MAX_PROJECT_BYTES, "project file")
+    except TableError as exc:
+        raise ProjectError(name, [str(exc).removeprefix(f"{path}: ")]) from None
     try:
-        text = Path(path).read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise ProjectError(name, ["no such file"]) from None
-    except OSError as exc:
-        raise ProjectError(name, [f"cannot read ({exc.strerror})"]) from None
+        text = raw.decode("utf-8")
     except UnicodeDecodeError:
         raise ProjectError(name, ["not UTF-8 text"]) from None
     if not text.strip():

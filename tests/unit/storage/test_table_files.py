@@ -141,7 +141,7 @@ def test_a_bad_user_file_is_skipped_and_reported_and_check_road_still_works(user
     for name, why in (
         ("wide.toml", "UTF-16 text; save it as UTF-8"),
         ("broken.toml", "not valid TOML"),
-        ("folder.toml", "not a regular file"),
+        ("folder.toml", "cannot read: a folder, not a file"),
         ("empty.toml", "not a table file"),
     ):
         line = next(w for w in warnings if name in w)
@@ -259,3 +259,17 @@ def test_a_project_naming_a_bad_file_in_its_folder_names_the_field(tmp_path, cap
     assert main(["check", "--project", str(path)]) == 2
     err = capsys.readouterr().err
     assert "$.details.road_table: " in err and "UTF-16 text; save it as UTF-8" in err
+
+
+@pytest.mark.skipif(not os.path.exists("/dev/zero"), reason="no /dev/zero")
+def test_a_device_or_fifo_given_as_a_project_is_refused_without_reading(tmp_path, capsys):
+    names = ["/dev/zero"]
+    if hasattr(os, "mkfifo"):
+        os.mkfifo(tmp_path / "pipe.json")
+        names.append(str(tmp_path / "pipe.json"))
+    for name in names:
+        for argv in ([name], ["check", "--project", name], ["sheet", name, "--format", "text"]):
+            assert main(argv) == 2, argv
+            err = capsys.readouterr().err
+            assert f"{name}: cannot use this project file:" in err, argv
+            assert "not a regular file" in err and "Traceback" not in err
