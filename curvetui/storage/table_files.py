@@ -34,9 +34,7 @@ def _usable(path: str | Path, info: os.stat_result, limit: int, what: str) -> No
         raise TableError(f"{path}: {info.st_size:,} bytes; a {what} may be at most {limit:,}")
 
 
-def read_limited(
-    path: str | Path, limit: int = MAX_TABLE_BYTES, what: str = "table file"
-) -> bytes:
+def read_limited(path: str | Path, limit: int = MAX_TABLE_BYTES, what: str = "table file") -> bytes:
     """The bytes of a regular file of at most ``limit`` bytes; TableError otherwise."""
     try:
         # checked before opening, so a FIFO or device is never opened; again on the open
