@@ -34,6 +34,9 @@ def build_parser(command: str | None = None) -> argparse.ArgumentParser:
         description="Design and check horizontal road bends and railway-track curves. "
         "Local road or rail authority standards govern; a qualified engineer must check "
         "every result.",
+        epilog="`curvetui FILE` opens FILE, a project (.json) or a CSV file of bends (.csv, "
+        ".tsv), as `curvetui open FILE` does; opening never creates a file: `curvetui new "
+        "FILE.json` starts a project. Any other unknown first word is an error.",
     )
     parser.add_argument("--version", action="version", version=f"curvetui {__version__}")
     sub = parser.add_subparsers(dest="command", parser_class=_Parser)
