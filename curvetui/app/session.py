@@ -119,7 +119,7 @@ class Session:
     # -- context and evaluation --------------------------------------------------------
     @property
     def context(self) -> Context:
-        return project_context(self.project)
+        return project_context(self.project, self.path.parent if self.path else None)
 
     @property
     def units(self) -> UnitSystem:

@@ -34,6 +34,9 @@ def build_parser(command: str | None = None) -> argparse.ArgumentParser:
         description="Design and check horizontal road bends and railway-track curves. "
         "Local road or rail authority standards govern; a qualified engineer must check "
         "every result.",
+        epilog="`curvetui FILE` opens FILE, a project (.json) or a CSV file of bends (.csv, "
+        ".tsv), as `curvetui open FILE` does; opening never creates a file: `curvetui new "
+        "FILE.json` starts a project. Any other unknown first word is an error.",
     )
     parser.add_argument("--version", action="version", version=f"curvetui {__version__}")
     sub = parser.add_subparsers(dest="command", parser_class=_Parser)
@@ -76,13 +79,32 @@ def _project_error() -> type[Exception]:
     return ProjectError
 
 
+def _unknown_command(word: str, commands) -> int:
+    """An unknown first word: one line naming the closest command, exit code 2."""
+    import difflib
+
+    from curvetui.cli.common import printable
+
+    names = sorted(c for c in commands if not c.startswith("-"))
+    close = difflib.get_close_matches(word, names, n=1, cutoff=0.6)
+    hint = f"; did you mean '{close[0]}'?" if close else ""
+    sys.stderr.write(
+        f"curvetui: error: unknown command '{printable(word)}'{hint} (commands: "
+        f"{', '.join(names)}; to open a file, give its path: FILE.json or FILE.csv)\n"
+    )
+    return 2
+
+
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the exit code (0 pass, 1 a check failed, 2 bad input)."""
     argv = list(sys.argv[1:] if argv is None else argv)
     from curvetui.cli import project_cmd
 
-    # `curvetui FILE` opens a project: route it before argparse sees an unknown command.
+    # `curvetui FILE` opens a file: route it before argparse sees an unknown command. Any
+    # other first word is a mistyped command: refused, nothing created.
     if argv and not argv[0].startswith("-") and argv[0] not in project_cmd.COMMANDS:
+        if not project_cmd.looks_like_file(argv[0]):
+            return _unknown_command(argv[0], project_cmd.COMMANDS)
         argv = ["open", *argv]
     # the sub-command named first is the only one built; with none (an option such as
     # --help or --version first, or no words) every sub-command is, for the help and errors
@@ -92,6 +114,26 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "run", None):
         parser.print_help()
         return 0
+    try:
+        return _run(args)
+    finally:
+        if command != "tables" or getattr(args, "json", False):
+            _warn_skipped()
+
+
+def _warn_skipped() -> None:
+    """A warning line for each user table file left out (`curvetui tables` lists them)."""
+    files = sys.modules.get("curvetui.storage.table_files")
+    if files is None or sys.stderr is None or sys.stderr.closed:
+        return  # no table was loaded, or the reader went away (a closed pipe)
+    from curvetui.cli.common import printable
+
+    for path, why in files.skipped_files().items():
+        sys.stderr.write(f"curvetui: warning: {printable(path)}: skipped, {printable(why)}\n")
+
+
+def _run(args) -> int:
+    """The sub-command's run, its errors as one line and exit code 2."""
     from curvetui.storage.tables import TableError
 
     try:

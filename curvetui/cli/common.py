@@ -34,3 +34,9 @@ def print_json(obj) -> None:
 
 def print_caution(out: Console) -> None:
     out.print(f"[bold yellow]{CAUTION}[/]")
+
+
+def printable(text: str) -> str:
+    """``text`` with control characters (escape sequences, line ends) shown as Python escapes,
+    for one-line messages written straight to the terminal."""
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 from pathlib import Path
 from typing import TYPE_CHECKING
@@ -43,23 +44,49 @@ def add_check_project(check: argparse.ArgumentParser) -> None:
 
 
 def add_new_parser(sub) -> None:
-    p = sub.add_parser("new", help="start a project file")
-    p.add_argument("file")
+    p = sub.add_parser(
+        "new",
+        help="start a project file (FILE.json; never overwrites)",
+        description="Start an empty project file. The name must end in .json; an existing "
+        "file is never overwritten.",
+    )
+    p.add_argument("file", help="the project file to create (FILE.json)")
     p.add_argument("--name", help="project name (default: the file name)")
     p.add_argument("--units", choices=("metric", "us"), default="metric")
     p.set_defaults(run=_run_new)
 
 
 CSV_SUFFIXES = (".csv", ".tsv")
+PROJECT_SUFFIX = ".json"
+
+
+def looks_like_file(word: str) -> bool:
+    """Whether ``curvetui WORD`` opens a file: WORD is an existing path or ends in .json,
+    .csv or .tsv (any case). Any other first word is an unknown command."""
+    if word.lower().endswith((PROJECT_SUFFIX, *CSV_SUFFIXES)):
+        return True
+    try:
+        return os.path.lexists(word)
+    except (OSError, ValueError):  # e.g. an embedded NUL
+        return False
+
+
+def missing_project(path: Path) -> InputError:
+    """Opening a project file that is not there: nothing is created."""
+    return InputError(
+        f"{path}: no such file; `curvetui new {path}` starts a project "
+        "(opening a file never creates one)"
+    )
 
 
 def add_open_parser(sub) -> None:
     p = sub.add_parser(
         "open",
-        help="open a project file (created when absent) or a CSV file of bends",
-        description="Open a project file in the terminal app (created when absent), or a CSV "
-        "file of bends (.csv or .tsv, the columns of `curvetui batch`) on its checked "
-        "results. Without a terminal, or with --print, print the checks instead.",
+        help="open a project file or a CSV file of bends",
+        description="Open a project file (.json) in the terminal app, or a CSV file of "
+        "bends (.csv or .tsv, the columns of `curvetui batch`) on its checked results. "
+        "Without a terminal, or with --print, print the checks instead. Opening never "
+        "creates a file: `curvetui new FILE.json` starts a project.",
     )
     p.add_argument("file")
     p.add_argument("--print", action="store_true", help="print the checks instead of the app")
@@ -86,19 +113,20 @@ def _run_new(args) -> int:
     from curvetui.storage.project.model import Details, Project
 
     path = Path(args.file)
-    if path.exists():
+    if path.suffix.lower() != PROJECT_SUFFIX:
+        raise InputError(f"{path}: a project file's name must end in .json")
+    if os.path.lexists(path):
         raise InputError(f"{path}: already exists; choose another name")
     project = Project(Details(name=args.name or path.stem, units=args.units))
-    save_project(project, path)
+    save_project(project, path, exclusive=True)
     console().print(f"Created {path} ({args.units} units).", markup=False)
     return 0
 
 
 def _run_open(args) -> int:
-    """Open a project in the terminal app (created when absent). Without a terminal (a pipe,
-    CI), print its checks instead."""
-    from curvetui.storage.project.files import ProjectError, save_project
-    from curvetui.storage.project.model import Details, Project
+    """Open a project in the terminal app. Without a terminal (a pipe, CI), print its checks
+    instead. A missing file is an error (nothing is created)."""
+    from curvetui.storage.project.files import ProjectError
 
     path = Path(args.file)
     if path.suffix.lower() in CSV_SUFFIXES:
@@ -109,9 +137,8 @@ def _run_open(args) -> int:
             f"{', '.join(given)}: for CSV files only; a project file names its own units, "
             "road table and rail limits (F2 in the app)"
         )
-    if not path.exists():
-        save_project(Project(Details(name=path.stem)), path)
-        console().print(f"Created {path}.", markup=False)
+    if not os.path.lexists(path):
+        raise missing_project(path)
     if args.print or not (sys.stdin.isatty() and sys.stdout.isatty()):
         try:
             check_project(str(path))

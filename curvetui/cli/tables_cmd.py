@@ -12,7 +12,13 @@ def add_parser(sub) -> None:
 
 
 def run(args) -> int:
-    from curvetui.storage.tables import rail_limit_sets, road_tables, user_table_dirs
+    from curvetui.cli.common import printable
+    from curvetui.storage.tables import (
+        rail_limit_sets,
+        road_tables,
+        skipped_files,
+        user_table_dirs,
+    )
 
     tables = road_tables()
     rows = [
@@ -58,6 +64,12 @@ def run(args) -> int:
         out.print(f"  {r['title']}", markup=False)
         out.print(f"  source: {r['source']}", markup=False)
         out.print(f"  file: {r['file']}\n", markup=False)
+    skipped = skipped_files()
+    if skipped:
+        out.print(f"[bold red]Skipped ({len(skipped)}): these user files were not loaded[/]")
+        for path, why in skipped.items():
+            out.print(f"  {printable(path)}: {printable(why)}", markup=False, soft_wrap=True)
+        out.print()
     out.print(
         "User tables are read from: " + ", ".join(str(d) for d in user_table_dirs()), markup=False
     )

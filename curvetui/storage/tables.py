@@ -10,7 +10,6 @@ where a table name is asked for. Files are read once per process.
 from __future__ import annotations
 
 import os
-import tomllib
 from functools import cache
 from importlib import resources
 from pathlib import Path
@@ -18,20 +17,26 @@ from pathlib import Path
 import numpy as np
 
 from curvetui.core.road_table import DISTRIBUTIONS, RadiusRounding, RoadTable
+from curvetui.storage.table_files import (
+    TableError,
+    load_user_files,
+    read_table_file,
+    skipped_files,
+    user_table_dirs,
+)
+
+__all__ = [
+    "TableError",
+    "rail_limit_sets",
+    "rail_limits",
+    "read_table_file",
+    "road_table",
+    "road_tables",
+    "skipped_files",
+    "user_table_dirs",
+]
 
 DEFAULT_ROAD_TABLE = {"metric": "aashto-2018-metric", "us": "aashto-2018-us"}
-
-
-class TableError(ValueError):
-    """A table file that cannot be used, or a table name that is not known."""
-
-
-def user_table_dirs() -> list[Path]:
-    """Folders searched for the user's own table files."""
-    env = os.environ.get("CURVETUI_TABLES")
-    if env:
-        return [Path(p) for p in env.split(os.pathsep) if p]
-    return [Path.home() / ".config" / "curvetui" / "tables"]
 
 
 def _need(mapping: dict, key: str, where: str, kind: type | tuple[type, ...]):
@@ -150,17 +155,6 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
     )
 
 
-def read_table_file(path: Path) -> dict:
-    """Parse one TOML table file, turning any fault into a TableError."""
-    try:
-        with open(path, "rb") as fh:
-            return tomllib.load(fh)
-    except OSError as exc:
-        raise TableError(f"{path}: cannot read ({exc.strerror})") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise TableError(f"{path}: not valid TOML ({exc})") from None
-
-
 def _packaged_files(kind: str) -> list[tuple[str, Path]]:
     folder = resources.files("curvetui") / "data" / kind
     return sorted(
@@ -170,17 +164,16 @@ def _packaged_files(kind: str) -> list[tuple[str, Path]]:
 
 @cache
 def road_tables() -> dict[str, RoadTable]:
-    """Every road table: the package's, then the user's (a user file may replace one)."""
+    """Every road table: the package's, then the user's (a user file may replace one). A user
+    file that cannot be used is left out and listed by ``skipped_files()``."""
     tables: dict[str, RoadTable] = {}
-    paths = [p for _, p in _packaged_files("road")]
-    for folder in user_table_dirs():
-        if folder.is_dir():
-            paths += sorted(folder.glob("*.toml"))
-    for path in paths:
+    for _, path in _packaged_files("road"):
         data = read_table_file(path)
         if "table" not in data or data["table"].get("kind", "road") != "road":
             continue
         table = parse_road_table(data, str(path))
+        tables[table.name] = table
+    for table in load_user_files("road", "table", parse_road_table):
         tables[table.name] = table
     return tables
 
@@ -329,17 +322,16 @@ def _traffic_top_speeds(head: dict, where: str, speed_unit: float, last: float):
 
 @cache
 def rail_limit_sets() -> dict:
-    """Every rail limits file: the package's, then the user's."""
+    """Every rail limits file: the package's, then the user's (a user file that cannot be used
+    is left out and listed by ``skipped_files()``)."""
     found = {}
-    paths = [p for _, p in _packaged_files("rail")]
-    for folder in user_table_dirs():
-        if folder.is_dir():
-            paths += sorted(folder.glob("*.toml"))
-    for path in paths:
+    for _, path in _packaged_files("rail"):
         data = read_table_file(path)
         if "limits" not in data:
             continue
         limits = parse_rail_limits(data, str(path))
+        found[limits.name] = limits
+    for limits in load_user_files("rail", "limits", parse_rail_limits):
         found[limits.name] = limits
     return found
 

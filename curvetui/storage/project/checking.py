@@ -4,11 +4,13 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from pathlib import Path
 
 from curvetui.bend.service import evaluate_bend, path_namer
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
 from curvetui.storage.project.model import Bend, Project
+from curvetui.storage.project.references import allowed_reference
 from curvetui.storage.tables import TableError, rail_limits, road_table
 
 # Results kept in a project file: everything but the long texts that every record repeats.
@@ -37,15 +39,21 @@ class Context:
     limits: object
 
 
-def project_context(project: Project) -> Context:
-    """The units, road table and rail limits a project names; errors name the JSON path."""
+def project_context(project: Project, folder: Path | None = None) -> Context:
+    """The units, road table and rail limits a project names; errors name the JSON path.
+    A table named by path must lie in ``folder`` (default: the folder the project was
+    loaded from) or a user-tables folder (see references.py)."""
     units = unit_system(project.details.units)
+    folder = folder if folder is not None else project.folder
+    d = project.details
     try:
-        table = road_table(project.details.road_table, units.name)
+        ref = allowed_reference(d.road_table, "$.details.road_table", folder)
+        table = road_table(ref, units.name)
     except TableError as exc:
         raise InputError(f"$.details.road_table: {exc}".replace("--table: ", "")) from None
     try:
-        limits = rail_limits(project.details.rail_limits, units.name)
+        ref = allowed_reference(d.rail_limits, "$.details.rail_limits", folder)
+        limits = rail_limits(ref, units.name)
     except TableError as exc:
         raise InputError(f"$.details.rail_limits: {exc}".replace("--limits: ", "")) from None
     return Context(units, table, limits)

@@ -17,6 +17,9 @@ from typing import Any
 
 from curvetui.storage.files import atomic_write_text
 from curvetui.storage.project.model import FORMAT_VERSION, Bend, Details, Project
+from curvetui.storage.table_files import TableError, read_limited
+
+MAX_PROJECT_BYTES = 200_000_000  # 200 MB: some 150,000 bends with notes and stored results
 
 
 class ProjectError(ValueError):
@@ -167,12 +170,12 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
     Raises ProjectError listing every problem with its JSON path.
     """
     name = str(path)
+    try:  # a regular file only (never a device or FIFO), of a bounded size
+        raw = read_limited(path, MAX_PROJECT_BYTES, "project file")
+    except TableError as exc:
+        raise ProjectError(name, [str(exc).removeprefix(f"{path}: ")]) from None
     try:
-        text = Path(path).read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise ProjectError(name, ["no such file"]) from None
-    except OSError as exc:
-        raise ProjectError(name, [f"cannot read ({exc.strerror})"]) from None
+        text = raw.decode("utf-8")
     except UnicodeDecodeError:
         raise ProjectError(name, ["not UTF-8 text"]) from None
     if not text.strip():
@@ -193,7 +196,9 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
     problems = validate(data) + non_finite_numbers(data)
     if problems:
         raise ProjectError(name, problems)
-    return parse_project(data), notes
+    project = parse_project(data)
+    project.folder = Path(path).parent
+    return project, notes
 
 
 def non_finite_numbers(data, parts=()) -> list[str]:
@@ -214,9 +219,10 @@ def project_text(project: Project) -> str:
     return json.dumps(project.to_json(), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
 
 
-def save_project(project: Project, path: str | Path) -> None:
+def save_project(project: Project, path: str | Path, exclusive: bool = False) -> None:
     """Save atomically, keeping the previous file as FILE.bak. A project that would not load
-    back (e.g. a name longer than the format allows) is refused before anything is written."""
+    back (e.g. a name longer than the format allows) is refused before anything is written.
+    With ``exclusive`` (a new project) an existing file is never replaced."""
     problems = validate(project.to_json())
     if problems:
         raise ProjectError(str(path), problems)
@@ -224,4 +230,4 @@ def save_project(project: Project, path: str | Path) -> None:
         text = project_text(project)
     except ValueError:
         raise ProjectError(str(path), ["a number in the project is not finite"]) from None
-    atomic_write_text(path, text, backup=True)
+    atomic_write_text(path, text, backup=not exclusive, exclusive=exclusive)

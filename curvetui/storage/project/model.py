@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from pathlib import Path
 from typing import Any
 
 FORMAT_VERSION = 2
@@ -70,6 +71,8 @@ class Bend:
 class Project:
     details: Details
     bends: list[Bend] = field(default_factory=list)
+    # the folder of the file it was loaded from (tables named by path are looked up there)
+    folder: Path | None = field(default=None, compare=False, repr=False)
 
     def to_json(self) -> dict[str, Any]:
         return {

@@ -19,10 +19,14 @@ def test_demo_project_prints_every_bend_and_fails(capsys):
     assert "qualified engineer" in out.replace("\n", " ")
 
 
-def test_opening_an_absent_file_creates_it(tmp_path, capsys):
+def test_opening_an_absent_file_is_an_error_and_creates_nothing(tmp_path, capsys):
     path = tmp_path / "absent.json"
-    assert main([str(path)]) == 0
-    assert path.exists() and "Created" in capsys.readouterr().out
+    assert main([str(path)]) == 2
+    err = capsys.readouterr().err
+    assert "no such file" in err and "curvetui new" in err and "Traceback" not in err
+    assert main(["open", str(path), "--print"]) == 2
+    assert "no such file" in capsys.readouterr().err
+    assert not path.exists() and list(tmp_path.iterdir()) == []
 
 
 def test_checking_a_missing_file_exits_2(tmp_path, capsys):

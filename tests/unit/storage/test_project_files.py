@@ -477,12 +477,17 @@ def test_new_never_writes_a_file_it_cannot_read(tmp_path, capsys):
         assert code == 2 and not path.exists()
 
 
-def test_opening_an_absent_file_creates_a_loadable_project(tmp_path, capsys):
+def test_opening_an_absent_file_creates_nothing_and_new_then_open_works(tmp_path, capsys):
     path = tmp_path / "saltry-top.json"
-    assert main([str(path)]) == 0
+    assert main([str(path)]) == 2
+    assert f"`curvetui new {path}` starts a project" in capsys.readouterr().err
+    assert list(tmp_path.iterdir()) == []
+    assert main(["new", str(path)]) == 0
     assert "Created" in capsys.readouterr().out
     project, _ = load_project(path)
     assert project.bends == [] and project.details.name == "saltry-top"
+    assert main([str(path)]) == 0  # pytest's stdin is not a terminal: prints the checks
+    assert list(tmp_path.iterdir()) == [path]  # a new file has no backup
 
 
 def test_check_json_gives_one_object_per_bend(demo_copy, capsys):
