@@ -105,8 +105,9 @@ def first_bend_mark(project: Path) -> bytes:
     return f"{kind} bend, ".encode()
 
 
-def run_rounds(checkouts: dict[str, Path], project: Path, runs: int, cache: Path | None,
-               seed: int) -> dict[str, list[dict]]:
+def run_rounds(
+    checkouts: dict[str, Path], project: Path, runs: int, cache: Path | None, seed: int
+) -> dict[str, list[dict]]:
     py = sys.executable
     cmds = {"minimal": ([py, "-c", MINIMAL], env_for(ROOT, cache), ROOT, {"paint": MINIMAL_MARK})}
     marks = {"paint": b"CAUTION", "results": first_bend_mark(project)}
@@ -139,23 +140,28 @@ def report(title: str, got: dict[str, list[dict]]) -> None:
             med, low = statistics.median(ts), min(ts)
             verdict = "meets" if med / bmed <= goal else "MISSES"
             what = "first paint (caution)" if key == "paint" else "first bend's results"
-            print(f"{'(b) ' + name + ': ' + what:44} {med:9.3f} {low:7.3f} "
-                  f"{med / bmed:10.2f} {low / bmin:10.2f}  {verdict} (goal <= {goal:g}x)")
+            print(
+                f"{'(b) ' + name + ': ' + what:44} {med:9.3f} {low:7.3f} "
+                f"{med / bmed:10.2f} {low / bmin:10.2f}  {verdict} (goal <= {goal:g}x)"
+            )
 
 
 def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     ap.add_argument("--runs", type=int, default=7, help="timed rounds (7; at least 5)")
     ap.add_argument("--baseline", type=Path, help="another curvetui checkout to time alongside")
-    ap.add_argument("--as-given", action="store_true",
-                    help="also time with the environment's bytecode setting")
+    ap.add_argument(
+        "--as-given", action="store_true", help="also time with the environment's bytecode setting"
+    )
     ap.add_argument("--seed", type=int, default=1, help="seed of the run order")
     args = ap.parse_args()
     checkouts = {"this": ROOT}
     if args.baseline:
         checkouts["baseline"] = args.baseline.resolve()
-    print(f"machine: {os.cpu_count()} cpus, python {platform.python_version()}, load average "
-          f"{os.getloadavg()[0]:.2f} at start; {args.runs} runs each; pty {SIZE[1]}x{SIZE[0]}")
+    print(
+        f"machine: {os.cpu_count()} cpus, python {platform.python_version()}, load average "
+        f"{os.getloadavg()[0]:.2f} at start; {args.runs} runs each; pty {SIZE[1]}x{SIZE[0]}"
+    )
     for label, path in checkouts.items():
         print(f"{label}: {path}")
     folder = Path(tempfile.mkdtemp(prefix="curvetui-start-"))
