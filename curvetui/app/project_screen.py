@@ -17,12 +17,16 @@ from textual.widgets import DataTable, Footer, Input, Select, Static, TabbedCont
 
 from curvetui.app.session import Session
 from curvetui.app.widgets.bend_list import BendList
-from curvetui.app.widgets.bend_views import bend_views, next_view
-from curvetui.app.widgets.charts import RailChartView, RoadChartView
+from curvetui.app.widgets.bend_views import bend_views, build_view, next_view
 from curvetui.app.widgets.frame import ProjectBar, caution_line
-from curvetui.app.widgets.plan_sketch import PlanSketch
-from curvetui.app.widgets.working_view import WorkingView
 from curvetui.app.widgets.worksheet import Worksheet
+
+# the views drawn from the session when their tab is shown (built on first showing)
+VIEW_WIDGETS = {
+    "working": ("#working-view",),
+    "plan": ("#plan-view",),
+    "chart": ("#road-chart", "#rail-chart"),
+}
 
 
 class ProjectScreen(Screen):
@@ -85,15 +89,11 @@ class ProjectScreen(Screen):
         self.show_view_content()
 
     def show_view_content(self) -> None:
-        """Draw the working, plan or chart when its tab is the one shown."""
+        """Draw the working, plan or chart when its tab is the one shown (and built)."""
         active = self.query_one("#views", TabbedContent).active
-        if active == "working":
-            self.query_one(WorkingView).show_session(self.session)
-        elif active == "plan":
-            self.query_one(PlanSketch).show_session(self.session)
-        elif active == "chart":
-            self.query_one(RoadChartView).show_session(self.session)
-            self.query_one(RailChartView).show_session(self.session)
+        for selector in VIEW_WIDGETS.get(active, ()):
+            for view in self.query(selector):
+                view.show_session(self.session)
 
     def show_view(self, view: str) -> None:
         self.query_one("#views", TabbedContent).active = view
@@ -105,7 +105,9 @@ class ProjectScreen(Screen):
         self.query_one(BendList).focus()
 
     @on(TabbedContent.TabActivated, "#views")
-    def view_changed(self, event: TabbedContent.TabActivated) -> None:
+    async def view_changed(self, event: TabbedContent.TabActivated) -> None:
+        tabs = self.query_one("#views", TabbedContent)
+        await build_view(tabs, tabs.active)
         self.show_view_content()
 
     # -- what is typed and chosen ------------------------------------------------------------
