@@ -52,9 +52,9 @@ class BendState:
 @dataclass(frozen=True)
 class Change:
     """What the last change of a session touched: ``what`` is 'open', 'computed' (every
-    bend evaluated), 'select' (another bend on screen), 'field' (one field of ``bend``,
-    ``key``), 'kind', 'bends' (added, copied, deleted or moved), 'details' (names, units,
-    tables) or 'saved'."""
+    bend evaluated, or with ``bend`` that one), 'select' (another bend on screen), 'field'
+    (one field of ``bend``, ``key``), 'kind', 'bends' (added, copied, deleted or moved),
+    'details' (names, units, tables) or 'saved'."""
 
     what: str
     bend: Bend | None = None
@@ -97,6 +97,15 @@ class Session:
         if compute:
             s.compute_all()
         return s
+
+    def compute_current(self) -> bool:
+        """Evaluate the bend on screen if it has no result yet (the app shows it before it
+        evaluates the others); True when it did (the watchers were told)."""
+        if self.current is None or self.status(self.current) != "pending":
+            return False
+        self.recompute(self.current)
+        self._changed("computed", self.current)
+        return True
 
     def compute_all(self) -> None:
         """Evaluate every bend and note any whose stored results differ."""

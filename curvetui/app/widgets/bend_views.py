@@ -2,9 +2,9 @@
 the worksheet and its working, and (for a project's bend) its plan and chart. F9 goes to
 the next view.
 
-Only the worksheet is built with the screen; the working, plan and chart (and their
-modules) are built when their tab is first shown (``build_view``), so that the first
-screen paints sooner.
+On a project's screen the views are built after the first paint (``build_view``): the
+worksheet at once, the working, plan and chart (and their modules) when their tab is first
+shown, so that the first screen (the bends and the caution) paints sooner.
 """
 
 from __future__ import annotations
@@ -14,27 +14,28 @@ from textual.containers import VerticalScroll
 from textual.widget import Widget
 from textual.widgets import TabbedContent, TabPane
 
-from curvetui.app.widgets.worksheet import Worksheet
-
 VIEWS = ("sheet", "working", "plan", "chart")
 
 
 def bend_views(pictures: bool = True, lazy: bool = True) -> ComposeResult:
     """The tabs (compose them inside a screen's ``compose``): ``#views`` holding the
     worksheet ``#worksheet`` and ``#working-view``, with ``pictures`` also ``#plan-view``,
-    ``#road-chart`` and ``#rail-chart``. With ``lazy`` the views but the worksheet are left
-    for ``build_view``."""
+    ``#road-chart`` and ``#rail-chart``. With ``lazy`` the tabs are left empty for
+    ``build_view``."""
+    titles = {"sheet": "Worksheet", "working": "Working", "plan": "Plan", "chart": "Chart"}
     with TabbedContent(id="views", initial="sheet"):
-        with TabPane("Worksheet", id="sheet"):
-            yield Worksheet(id="worksheet")
-        for view in VIEWS[1:] if pictures else ("working",):
-            with TabPane(view.capitalize(), id=view):
+        for view in VIEWS if pictures else VIEWS[:2]:
+            with TabPane(titles[view], id=view):
                 if not lazy:
                     yield from view_widgets(view)
 
 
 def view_widgets(view: str) -> list[Widget]:
-    """The widgets of the working, plan or chart view."""
+    """The widgets of a view (sheet, working, plan or chart)."""
+    if view == "sheet":
+        from curvetui.app.widgets.worksheet import Worksheet
+
+        return [Worksheet(id="worksheet")]
     if view == "working":
         from curvetui.app.widgets.working_view import WorkingView
 
@@ -53,7 +54,7 @@ def view_widgets(view: str) -> list[Widget]:
 async def build_view(tabs: TabbedContent, view: str) -> None:
     """Build the view ``view`` in its pane, once (await it before drawing the view)."""
     pane = tabs.get_pane(view)
-    if view != "sheet" and not getattr(pane, "built", False) and not pane.children:
+    if not getattr(pane, "built", False) and not pane.children:
         pane.built = True  # before the await: a second call meanwhile builds nothing
         await pane.mount_all(view_widgets(view))
 
