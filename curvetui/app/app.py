@@ -63,9 +63,9 @@ class CurveApp(App):
         self.last_recompute_ms = 0.0
         self.project_screen.show(session)
 
-    def on_ready(self) -> None:
+    async def on_ready(self) -> None:
         """The first frame (the bends and the caution) is on screen: build the worksheet."""
-        self.project_screen.call_later(self.project_screen.build_sheet)
+        await self.project_screen.build_sheet()
 
     # -- actions -----------------------------------------------------------------------------
     def action_focus_list(self) -> None:

@@ -85,9 +85,10 @@ class ProjectScreen(Screen):
         if self._sheet_built:
             return
         self._sheet_built = True
-        await build_view(self.query_one("#views", TabbedContent), "sheet")
-        if not self.session.compute_current():
-            self.session_changed(self.session)
+        with self.app.batch_update():  # one layout and paint when all is in, not one per await
+            await build_view(self.query_one("#views", TabbedContent), "sheet")
+            if not self.session.compute_current():
+                self.session_changed(self.session)
         if self._focus_when_built:
             self.query_one(self._focus_when_built).focus()
             self._focus_when_built = None
@@ -110,7 +111,7 @@ class ProjectScreen(Screen):
     # -- the views ------------------------------------------------------------------------
     def session_changed(self, session: Session) -> None:
         """The one refresh after a change: each view shown redraws itself."""
-        self.query_one(ProjectBar).show_session(session)
+        self.query_one(ProjectBar).show_session(session, with_tables=self._sheet_built)
         self.query_one(BendList).show_session(session)
         for sheet in self.query("#worksheet"):  # once it is built
             sheet.show_session(session)
@@ -135,9 +136,7 @@ class ProjectScreen(Screen):
     @on(TabbedContent.TabActivated, "#views")
     async def view_changed(self, event: TabbedContent.TabActivated) -> None:
         tabs = self.query_one("#views", TabbedContent)
-        if tabs.active == "sheet":
-            await self.build_sheet()
-        else:
+        if tabs.active != "sheet":  # the worksheet is built after the first frame
             await build_view(tabs, tabs.active)
         self.show_view_content()
 

@@ -11,20 +11,21 @@ import copy
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from curvetui.bend.fields import BY_KEY, FIELDS, cli_name
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
 from curvetui.stations import format_station, parse_station
-from curvetui.storage.project.checking import (
-    Context,
-    evaluate,
-    project_context,
-    refresh_results,
-    stale_results,
-)
 from curvetui.storage.project.files import load_project, save_project
 from curvetui.storage.project.model import Bend, Details, Project
+
+if TYPE_CHECKING:
+    from curvetui.storage.project.checking import Context
+
+# The engine (curvetui.storage.project.checking and what it imports: numpy, the bend layer)
+# is imported where a bend is evaluated, not with this module: the app paints its first
+# frame (the bends and the caution) before it needs the engine.
 
 # the worksheet's fields that are not engine inputs
 FORM_FIELDS = ("bend_id", "station", "notes")
@@ -110,6 +111,8 @@ class Session:
     def compute_all(self) -> None:
         """Evaluate every bend and note any whose stored results differ."""
         self.recompute_all()
+        from curvetui.storage.project.checking import stale_results
+
         self.notes += stale_results([_Outcome(b, self.state(b).record) for b in self.project.bends])
         self._changed("computed")
 
@@ -128,6 +131,8 @@ class Session:
     # -- context and evaluation --------------------------------------------------------
     @property
     def context(self) -> Context:
+        from curvetui.storage.project.checking import project_context
+
         return project_context(self.project)
 
     @property
@@ -147,6 +152,8 @@ class Session:
             except InputError as exc:  # e.g. the project names an unknown table
                 st.error, st.error_field = str(exc), None
                 return st
+        from curvetui.storage.project.checking import evaluate
+
         outcome = evaluate(bend, index, ctx)
         if outcome.record is None:
             st.error = (outcome.error or "").replace(f"$.bends[{index}].inputs.", "")
@@ -337,6 +344,8 @@ class Session:
             _Outcome(b, self.state(b).record if self.state(b).error is None else None)
             for b in self.project.bends
         ]
+        from curvetui.storage.project.checking import refresh_results
+
         refresh_results(self.project, outcomes)
         save_project(self.project, target)
         self.path, self.dirty = target, False

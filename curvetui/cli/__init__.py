@@ -76,6 +76,13 @@ def _project_error() -> type[Exception]:
     return ProjectError
 
 
+def _table_error() -> type[Exception]:
+    """TableError, looked up as ProjectError is (its module imports numpy)."""
+    from curvetui.storage.tables import TableError
+
+    return TableError
+
+
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the exit code (0 pass, 1 a check failed, 2 bad input)."""
     argv = list(sys.argv[1:] if argv is None else argv)
@@ -92,8 +99,6 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "run", None):
         parser.print_help()
         return 0
-    from curvetui.storage.tables import TableError
-
     try:
         return int(args.run(args))
     except _project_error() as exc:
@@ -101,7 +106,7 @@ def main(argv: list[str] | None = None) -> int:
         for problem in exc.problems:
             sys.stderr.write(f"  {problem}\n")
         return 2
-    except (InputError, TableError) as exc:
+    except (InputError, _table_error()) as exc:
         sys.stderr.write(f"curvetui: error: {exc}\n")
         return 2
     except BrokenPipeError:

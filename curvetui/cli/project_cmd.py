@@ -7,7 +7,6 @@ import sys
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from curvetui.bend.messages import message_line
 from curvetui.cli.common import console, print_caution, print_json
 from curvetui.inputs import InputError
 
@@ -220,6 +219,7 @@ def print_outcomes(project, ctx, outcomes, notes) -> None:
     from rich import box
     from rich.table import Table
 
+    from curvetui.bend.messages import message_line
     from curvetui.stations import format_station
 
     units = ctx.units

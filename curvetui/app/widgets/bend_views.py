@@ -25,7 +25,9 @@ def bend_views(pictures: bool = True, lazy: bool = True) -> ComposeResult:
     titles = {"sheet": "Worksheet", "working": "Working", "plan": "Plan", "chart": "Chart"}
     with TabbedContent(id="views", initial="sheet"):
         for view in VIEWS if pictures else VIEWS[:2]:
-            with TabPane(titles[view], id=view):
+            pane = TabPane(titles[view], id=view)
+            pane.styles.layout = "vertical"  # a container: blank while empty, not its name
+            with pane:
                 if not lazy:
                     yield from view_widgets(view)
 
