@@ -46,7 +46,12 @@ class ProjectScreen(Screen):
                 yield BendList(id="bends")
             yield from bend_views(pictures=True)
         yield caution_line()
-        yield Footer()
+        # the keys' footer comes with the worksheet (build_sheet): Textual's Footer shows no
+        # keys in a first frame anyway, and recomposes at every change of focus until then
+        space = Static("", id="footer-space")
+        space.styles.dock = "bottom"
+        space.styles.height = 1
+        yield space
 
     def on_mount(self) -> None:
         self.show(self.session)
@@ -89,6 +94,9 @@ class ProjectScreen(Screen):
             await build_view(self.query_one("#views", TabbedContent), "sheet")
             if not self.session.compute_current():
                 self.session_changed(self.session)
+            await self.query_one("#footer-space").remove()
+            await self.mount(Footer())
+        self.refresh_bindings()  # the footer shows its keys from the next paint
         if self._focus_when_built:
             self.query_one(self._focus_when_built).focus()
             self._focus_when_built = None
