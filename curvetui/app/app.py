@@ -13,6 +13,7 @@ from textual.app import App, SystemCommand
 from textual.binding import Binding
 from textual.screen import Screen
 
+from curvetui.app.crash import StopsCleanly
 from curvetui.app.dialogs.confirm import Confirm
 from curvetui.app.dialogs.details import DetailsDialog
 from curvetui.app.project_screen import ProjectScreen
@@ -22,8 +23,9 @@ from curvetui.storage.project.files import ProjectError
 from curvetui.storage.project.model import Bend
 
 
-class CurveApp(App):
-    """Work through an alignment bend by bend."""
+class CurveApp(StopsCleanly, App):
+    """Work through an alignment bend by bend. An unexpected error ends it with a recovery
+    copy of the unsaved changes (curvetui.app.crash)."""
 
     CSS_PATH = "app.tcss"
     TITLE = "curvetui"
@@ -52,6 +54,9 @@ class CurveApp(App):
     def get_default_screen(self) -> Screen:
         return self.project_screen
 
+    def recovery_session(self) -> Session:
+        return self.session
+
     @property
     def current(self) -> Bend | None:
         """The bend on screen."""
@@ -62,6 +67,10 @@ class CurveApp(App):
         self.session = session
         self.last_recompute_ms = 0.0
         self.project_screen.show(session)
+
+    async def on_ready(self) -> None:
+        """The first frame (the bends and the caution) is on screen: build the worksheet."""
+        await self.project_screen.build_sheet()
 
     # -- actions -----------------------------------------------------------------------------
     def action_focus_list(self) -> None:

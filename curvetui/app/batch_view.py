@@ -17,13 +17,15 @@ from textual.screen import Screen
 
 from curvetui.app.batch_results import ROW_LIMIT, BatchSource, open_source
 from curvetui.app.batch_screen import BatchScreen
+from curvetui.app.crash import StopsCleanly
 from curvetui.app.row_screen import RowScreen
 
 __all__ = ["BatchApp", "BatchScreen", "RowScreen", "build_batch_app"]
 
 
-class BatchApp(App):
-    """A CSV file of bends: its checked results, and any row as a worksheet."""
+class BatchApp(StopsCleanly, App):
+    """A CSV file of bends: its checked results, and any row as a worksheet. An unexpected
+    error ends it with exit code 3 and one line (nothing is edited here, so nothing to keep)."""
 
     CSS_PATH = "app.tcss"
     CSS = """

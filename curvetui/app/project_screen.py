@@ -17,12 +17,15 @@ from textual.widgets import DataTable, Footer, Input, Select, Static, TabbedCont
 
 from curvetui.app.session import Session
 from curvetui.app.widgets.bend_list import BendList
-from curvetui.app.widgets.bend_views import bend_views, next_view
-from curvetui.app.widgets.charts import RailChartView, RoadChartView
+from curvetui.app.widgets.bend_views import bend_views, build_view, next_view
 from curvetui.app.widgets.frame import ProjectBar, caution_line
-from curvetui.app.widgets.plan_sketch import PlanSketch
-from curvetui.app.widgets.working_view import WorkingView
-from curvetui.app.widgets.worksheet import Worksheet
+
+# the views drawn from the session when their tab is shown (built on first showing)
+VIEW_WIDGETS = {
+    "working": ("#working-view",),
+    "plan": ("#plan-view",),
+    "chart": ("#road-chart", "#rail-chart"),
+}
 
 
 class ProjectScreen(Screen):
@@ -32,6 +35,8 @@ class ProjectScreen(Screen):
         super().__init__()
         self.session = session
         self._stop_watching = None
+        self._sheet_built = False
+        self._focus_when_built: str | None = None  # a field asked for before the worksheet
 
     def compose(self) -> ComposeResult:
         yield ProjectBar("", id="topbar")
@@ -41,27 +46,60 @@ class ProjectScreen(Screen):
                 yield BendList(id="bends")
             yield from bend_views(pictures=True)
         yield caution_line()
-        yield Footer()
+        # the keys' footer comes with the worksheet (build_sheet): Textual's Footer shows no
+        # keys in a first frame anyway, and recomposes at every change of focus until then
+        space = Static("", id="footer-space")
+        space.styles.dock = "bottom"
+        space.styles.height = 1
+        yield space
 
     def on_mount(self) -> None:
         self.show(self.session)
 
     def show(self, session: Session) -> None:
         """Show ``session`` from its start: the first bend on the worksheet, the list
-        focused, every view scrolled to its top; its changes redrawn from now on."""
+        focused, every view scrolled to its top; its changes redrawn from now on.
+
+        On the first showing the bends and the caution are painted first; the worksheet is
+        built once that frame is on screen (the app's Ready event calls ``build_sheet``), with
+        the bend on screen evaluated, and the other bends after the next paint
+        (``first_compute``)."""
         if self._stop_watching is not None:
             self._stop_watching()
         self.session = session
         self._stop_watching = session.watch(self.session_changed)
         self.query_one("#views", TabbedContent).active = "sheet"
-        self.query_one("#kind", Select).expanded = False
+        for kind in self.query("#kind").results(Select):
+            kind.expanded = False
         for scroll in self.query(ScrollableContainer):
             scroll.scroll_home(animate=False, immediate=True)
         bends = self.query_one(BendList)
         bends.scroll_home(animate=False, immediate=True)
-        self.session_changed(session)
         bends.focus()
-        # paint first, then run the engine (its first run imports scipy)
+        if not self._sheet_built:
+            self.session_changed(session)
+            self.call_after_refresh(self.build_sheet)  # unless the Ready event came first
+            return
+        if not session.compute_current():  # when it evaluates, the views are redrawn
+            self.session_changed(session)
+        self.call_after_refresh(self.first_compute)
+
+    async def build_sheet(self) -> None:
+        """Build the worksheet (after the first paint) and show the bend on screen in it,
+        evaluated; the other bends are evaluated after the next paint. Once only."""
+        if self._sheet_built:
+            return
+        self._sheet_built = True
+        with self.app.batch_update():  # one layout and paint when all is in, not one per await
+            await build_view(self.query_one("#views", TabbedContent), "sheet")
+            if not self.session.compute_current():
+                self.session_changed(self.session)
+            await self.query_one("#footer-space").remove()
+            await self.mount(Footer())
+        self.refresh_bindings()  # the footer shows its keys from the next paint
+        if self._focus_when_built:
+            self.query_one(self._focus_when_built).focus()
+            self._focus_when_built = None
         self.call_after_refresh(self.first_compute)
 
     def on_unmount(self) -> None:
@@ -69,31 +107,30 @@ class ProjectScreen(Screen):
             self._stop_watching()
 
     def first_compute(self) -> None:
+        """Evaluate the bends not evaluated yet, and show the notes of opening the file."""
         session = self.session
-        if not any(session.state(b).record for b in session.project.bends):
+        if any(session.status(b) == "pending" for b in session.project.bends):
             session.compute_all()
         for note in session.notes:
             self.notify(note, severity="warning" if "differ" in note else "information", timeout=8)
-        self.query_one(BendList).focus()
+        if self.focused is None:
+            self.query_one(BendList).focus()
 
     # -- the views ------------------------------------------------------------------------
     def session_changed(self, session: Session) -> None:
         """The one refresh after a change: each view shown redraws itself."""
-        self.query_one(ProjectBar).show_session(session)
+        self.query_one(ProjectBar).show_session(session, with_tables=self._sheet_built)
         self.query_one(BendList).show_session(session)
-        self.query_one(Worksheet).show_session(session)
+        for sheet in self.query("#worksheet"):  # once it is built
+            sheet.show_session(session)
         self.show_view_content()
 
     def show_view_content(self) -> None:
-        """Draw the working, plan or chart when its tab is the one shown."""
+        """Draw the working, plan or chart when its tab is the one shown (and built)."""
         active = self.query_one("#views", TabbedContent).active
-        if active == "working":
-            self.query_one(WorkingView).show_session(self.session)
-        elif active == "plan":
-            self.query_one(PlanSketch).show_session(self.session)
-        elif active == "chart":
-            self.query_one(RoadChartView).show_session(self.session)
-            self.query_one(RailChartView).show_session(self.session)
+        for selector in VIEW_WIDGETS.get(active, ()):
+            for view in self.query(selector):
+                view.show_session(self.session)
 
     def show_view(self, view: str) -> None:
         self.query_one("#views", TabbedContent).active = view
@@ -105,7 +142,10 @@ class ProjectScreen(Screen):
         self.query_one(BendList).focus()
 
     @on(TabbedContent.TabActivated, "#views")
-    def view_changed(self, event: TabbedContent.TabActivated) -> None:
+    async def view_changed(self, event: TabbedContent.TabActivated) -> None:
+        tabs = self.query_one("#views", TabbedContent)
+        if tabs.active != "sheet":  # the worksheet is built after the first frame
+            await build_view(tabs, tabs.active)
         self.show_view_content()
 
     # -- what is typed and chosen ------------------------------------------------------------
@@ -118,7 +158,10 @@ class ProjectScreen(Screen):
     @on(DataTable.RowSelected, "#bends")
     def bend_selected(self, event: DataTable.RowSelected) -> None:
         self.show_view("sheet")
-        self.query_one("#in-speed", Input).focus()
+        if self.query("#in-speed"):
+            self.query_one("#in-speed", Input).focus()
+        else:  # Enter before the worksheet is built: the field is focused once it is
+            self._focus_when_built = "#in-speed"
 
     @on(Input.Changed)
     def input_changed(self, event: Input.Changed) -> None:

@@ -59,7 +59,7 @@ class RowScreen(Screen):
             with VerticalScroll(id="row-error-scroll"):
                 yield Static(self._error_text(), id="row-error")
         else:
-            yield from bend_views(pictures=False)
+            yield from bend_views(pictures=False, lazy=False)
         yield caution_line()
         yield Footer()
 

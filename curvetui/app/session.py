@@ -11,20 +11,21 @@ import copy
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from curvetui.bend.fields import BY_KEY, FIELDS, cli_name
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
 from curvetui.stations import format_station, parse_station
-from curvetui.storage.project.checking import (
-    Context,
-    evaluate,
-    project_context,
-    refresh_results,
-    stale_results,
-)
 from curvetui.storage.project.files import load_project, save_project
 from curvetui.storage.project.model import Bend, Details, Project
+
+if TYPE_CHECKING:
+    from curvetui.storage.project.checking import Context
+
+# The engine (curvetui.storage.project.checking and what it imports: numpy, the bend layer)
+# is imported where a bend is evaluated, not with this module: the app paints its first
+# frame (the bends and the caution) before it needs the engine.
 
 # the worksheet's fields that are not engine inputs
 FORM_FIELDS = ("bend_id", "station", "notes")
@@ -52,9 +53,9 @@ class BendState:
 @dataclass(frozen=True)
 class Change:
     """What the last change of a session touched: ``what`` is 'open', 'computed' (every
-    bend evaluated), 'select' (another bend on screen), 'field' (one field of ``bend``,
-    ``key``), 'kind', 'bends' (added, copied, deleted or moved), 'details' (names, units,
-    tables) or 'saved'."""
+    bend evaluated, or with ``bend`` that one), 'select' (another bend on screen), 'field'
+    (one field of ``bend``, ``key``), 'kind', 'bends' (added, copied, deleted or moved),
+    'details' (names, units, tables) or 'saved'."""
 
     what: str
     bend: Bend | None = None
@@ -98,9 +99,20 @@ class Session:
             s.compute_all()
         return s
 
+    def compute_current(self) -> bool:
+        """Evaluate the bend on screen if it has no result yet (the app shows it before it
+        evaluates the others); True when it did (the watchers were told)."""
+        if self.current is None or self.status(self.current) != "pending":
+            return False
+        self.recompute(self.current)
+        self._changed("computed", self.current)
+        return True
+
     def compute_all(self) -> None:
         """Evaluate every bend and note any whose stored results differ."""
         self.recompute_all()
+        from curvetui.storage.project.checking import stale_results
+
         self.notes += stale_results([_Outcome(b, self.state(b).record) for b in self.project.bends])
         self._changed("computed")
 
@@ -119,6 +131,8 @@ class Session:
     # -- context and evaluation --------------------------------------------------------
     @property
     def context(self) -> Context:
+        from curvetui.storage.project.checking import project_context
+
         return project_context(self.project, self.path.parent if self.path else None)
 
     @property
@@ -138,6 +152,8 @@ class Session:
             except InputError as exc:  # e.g. the project names an unknown table
                 st.error, st.error_field = str(exc), None
                 return st
+        from curvetui.storage.project.checking import evaluate
+
         outcome = evaluate(bend, index, ctx)
         if outcome.record is None:
             st.error = (outcome.error or "").replace(f"$.bends[{index}].inputs.", "")
@@ -328,6 +344,8 @@ class Session:
             _Outcome(b, self.state(b).record if self.state(b).error is None else None)
             for b in self.project.bends
         ]
+        from curvetui.storage.project.checking import refresh_results
+
         refresh_results(self.project, outcomes)
         save_project(self.project, target)
         self.path, self.dirty = target, False

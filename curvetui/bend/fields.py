@@ -15,7 +15,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from curvetui.core.rail import TRAFFIC
+from curvetui.core.traffic import TRAFFIC
 from curvetui.core.units import UnitSystem
 
 ROAD, RAIL = "road", "rail"

@@ -95,6 +95,13 @@ def _unknown_command(word: str, commands) -> int:
     return 2
 
 
+def _table_error() -> type[Exception]:
+    """TableError, looked up as ProjectError is (its module imports numpy)."""
+    from curvetui.storage.tables import TableError
+
+    return TableError
+
+
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the exit code (0 pass, 1 a check failed, 2 bad input)."""
     argv = list(sys.argv[1:] if argv is None else argv)
@@ -134,8 +141,6 @@ def _warn_skipped() -> None:
 
 def _run(args) -> int:
     """The sub-command's run, its errors as one line and exit code 2."""
-    from curvetui.storage.tables import TableError
-
     try:
         return int(args.run(args))
     except _project_error() as exc:
@@ -143,7 +148,7 @@ def _run(args) -> int:
         for problem in exc.problems:
             sys.stderr.write(f"  {problem}\n")
         return 2
-    except (InputError, TableError) as exc:
+    except (InputError, _table_error()) as exc:
         sys.stderr.write(f"curvetui: error: {exc}\n")
         return 2
     except BrokenPipeError:

@@ -8,7 +8,6 @@ import sys
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from curvetui.bend.messages import message_line
 from curvetui.cli.common import console, print_caution, print_json
 from curvetui.inputs import InputError
 
@@ -151,7 +150,22 @@ def _run_open(args) -> int:
         app = build_app(path)
     except ProjectError as exc:
         return report_problems(exc)
-    app.run()
+    return run_app(app)
+
+
+def run_app(app) -> int:
+    """Run a terminal app; after an unexpected error in it, one line naming the error and
+    the recovery copy of unsaved changes (curvetui.app.crash), exit code 3."""
+    from curvetui.app.crash import CRASH_EXIT, crash_line, recover
+
+    try:
+        app.run()
+    except Exception as exc:  # the app could not even start or stop; no traceback either
+        if app.crash is None:
+            app.crash = recover(app.recovery_session(), exc)
+    if app.crash is not None:
+        sys.stderr.write(crash_line(app.crash) + "\n")
+        return CRASH_EXIT
     return 0
 
 
@@ -187,8 +201,7 @@ def _open_csv(path: Path, args) -> int:
         return 2
     from curvetui.app.batch_view import BatchApp
 
-    BatchApp(source).run()
-    return 0
+    return run_app(BatchApp(source))
 
 
 def _run_check_project(args) -> int:
@@ -247,6 +260,7 @@ def print_outcomes(project, ctx, outcomes, notes) -> None:
     from rich import box
     from rich.table import Table
 
+    from curvetui.bend.messages import message_line
     from curvetui.stations import format_station
 
     units = ctx.units

@@ -20,6 +20,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from curvetui.core.traffic import TRAFFIC  # noqa: F401 - kinds of traffic, re-exported
 from curvetui.core.units import FOOT, G0, INCH, MPH
 
 # Distance between rail centres [m] for common gauges [mm]: gauge plus the rail head width.
@@ -38,9 +39,6 @@ RAIL_CENTRES_MM = {
 # s = 0.0007 in x g x 5729.578 ft / (5280/3600 ft/s per mph)^2, about 59.99 in.
 US_RAIL_CENTRES = 0.0007 * INCH * G0 * (5729.5779513 * FOOT) / MPH**2
 
-# Kinds of train traffic, in the order a CHOICE input codes them (0 passenger, 1 freight):
-# 49 CFR 213.9 sets each track class's top speed by traffic.
-TRAFFIC = ("passenger", "freight")
 
 # Status flags
 FAIL_CANT = 1 << 0  # applied cant above its maximum

@@ -9,7 +9,10 @@ coordinates (x along the tangent at the TS, y offset towards the curve)
     y(s) = int_0^s sin(t^2 / (2 A^2)) dt = A sqrt(pi) S(s / (A sqrt(pi)))
 
 with the Fresnel integrals C(z) = int_0^z cos(pi t^2 / 2) dt, S likewise with sin
-(scipy.special.fresnel): exact, not the usual series X = Ls (1 - theta^2/10 + ...).
+(scipy.special.fresnel): exact, not the usual few terms of X = Ls (1 - theta^2/10 + ...).
+Where the tangent has turned through at most 1 rad that series (the Maclaurin series of
+cos and sin integrated term by term) is summed to double precision instead, which needs
+no scipy (slow to import when the app starts).
 
 The circular arc is shifted inwards by p = Y - R (1 - cos theta) and its centre lies a
 distance k = X - R sin theta along the tangent from the TS. With the spiral in (Ls1, p1, k1)
@@ -60,13 +63,33 @@ def _check_spiral_length(ls, name: str) -> None:
     require(np.isfinite(ls) & (ls >= 0), f"{name} must be a length of 0 m or more", ls)
 
 
+# The clothoid as power series in theta = s^2 / (2 A^2), the tangent's turn at s:
+#   x = s sum_n (-1)^n theta^(2n) / ((2n)! (4n + 1)),
+#   y = s theta sum_n (-1)^n theta^(2n) / ((2n + 1)! (4n + 3))
+# (cos u and sin u of u = t^2 / (2 A^2) expanded and integrated from 0 to s term by term).
+# For theta <= 1 the terms fall from the first and the first left out, theta^22 / 22!, is
+# below 1e-21 of the sum: eleven terms give the sum to double precision.
+SERIES_THETA_MAX = 1.0
+_X_TERMS = tuple((-1) ** n / (math.factorial(2 * n) * (4 * n + 1)) for n in range(11))
+_Y_TERMS = tuple((-1) ** n / (math.factorial(2 * n + 1) * (4 * n + 3)) for n in range(11))
+
+
+def _horner(coefficients: tuple[float, ...], u: np.ndarray) -> np.ndarray:
+    """sum_n c_n u^n by Horner's rule."""
+    out = np.zeros_like(u)
+    for c in reversed(coefficients):
+        out = out * u + c
+    return out
+
+
 def clothoid_xy(s, ls, radius):
     """Local coordinates (x, y) [m] of the point a distance ``s`` from the TS along a clothoid
     that reaches ``radius`` at ``ls``.
 
     A^2 = R Ls; x = A sqrt(pi) C(s / (A sqrt(pi))), y = A sqrt(pi) S(s / (A sqrt(pi))) with
-    scipy's Fresnel integrals. x runs along the tangent at the TS, y towards the curve.
-    A zero-length spiral is straight (x = s, y = 0).
+    scipy's Fresnel integrals; where theta = s^2 / (2 A^2) <= 1 rad, their power series
+    summed to double precision (no scipy needed). x runs along the tangent at the TS, y
+    towards the curve. A zero-length spiral is straight (x = s, y = 0).
     """
     s, ls, r = np.broadcast_arrays(
         np.asarray(s, dtype=float), np.asarray(ls, dtype=float), np.asarray(radius, dtype=float)
@@ -75,13 +98,21 @@ def clothoid_xy(s, ls, radius):
     _check_spiral_length(ls, "spiral length")
     require(np.isfinite(s), "distance along the spiral must be finite", s)
     scale = np.sqrt(np.pi * r * ls)  # A sqrt(pi)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        z = np.where(scale > 0, s / np.where(scale > 0, scale, 1.0), 0.0)
-    from scipy.special import fresnel  # imported here: scipy is slow to import at start-up
+    curved = scale > 0
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        theta = np.where(curved, s * s / np.where(curved, 2 * r * ls, 1.0), 0.0)
+    near = ~curved | (theta <= SERIES_THETA_MAX)  # straight, or summed by the series
+    u = np.where(near, theta * theta, 0.0)
+    x = np.array(s * _horner(_X_TERMS, u), dtype=float)  # arrays, also for 0-d inputs
+    y = np.array(np.where(curved, s * np.where(near, theta, 0.0) * _horner(_Y_TERMS, u), 0.0))
+    if not near.all():
+        # imported only here: scipy is slow to import when the app starts
+        from scipy.special import fresnel
 
-    fs, fc = fresnel(z)  # scipy returns (S, C)
-    x = np.where(scale > 0, scale * fc, s)
-    y = np.where(scale > 0, scale * fs, 0.0)
+        far = ~near
+        fs, fc = fresnel(s[far] / scale[far])  # scipy returns (S, C)
+        x[far] = scale[far] * fc
+        y[far] = scale[far] * fs
     return x, y
 
 

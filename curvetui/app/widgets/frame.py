@@ -20,17 +20,21 @@ def caution_line() -> Static:
 class ProjectBar(Static):
     """The project's name, job number, file, units and tables; 'unsaved' while it is."""
 
-    def show_session(self, session: Session) -> None:
+    def show_session(self, session: Session, with_tables: bool = True) -> None:
+        """The bar of ``session``; with ``with_tables`` False without the tables (the app's
+        first frame, painted before the tables and the engine are loaded)."""
         d = session.project.details
-        try:
-            ctx = session.context
-            tables = f"road table {ctx.table.name} | rail limits {ctx.limits.name}"
-        except InputError as exc:
-            tables = f"TABLE PROBLEM: {exc}"
+        tables = ""
+        if with_tables:
+            try:
+                ctx = session.context
+                tables = f" | road table {ctx.table.name} | rail limits {ctx.limits.name}"
+            except InputError as exc:
+                tables = f" | TABLE PROBLEM: {exc}"
         mark = " | [b reverse] unsaved [/]" if session.dirty else ""
         name = session.path.name if session.path else "(no file)"
         text = (
-            f"[b]{escape(d.name)}[/] {escape(d.job_number)} | {escape(name)} | {d.units} | "
+            f"[b]{escape(d.name)}[/] {escape(d.job_number)} | {escape(name)} | {d.units}"
             f"{escape(tables)}{mark}"
         )
         if text != getattr(self, "_text", None):  # every update lays the screen out again

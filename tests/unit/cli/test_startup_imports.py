@@ -123,15 +123,27 @@ def test_check_road_table_output_uses_rich_but_not_the_others():
     assert not {"pyarrow", "jsonschema", "textual", "scipy"} & set(result["loaded"])
 
 
-def test_control_a_spiral_loads_scipy():
+def test_control_a_spiral_turning_more_than_a_radian_loads_scipy():
+    # Ls / (2 R) = 240 / 200 = 1.2 rad: beyond the power series, scipy's Fresnel integrals
     result = probe(
-        "check", "road", "--speed", "100", "--radius", "400", "--emax", "8",
-        "--deflection", "40", "--spiral", "70", "--json",
+        "check", "road", "--speed", "50", "--radius", "100", "--emax", "8",
+        "--deflection", "170", "--spiral", "240", "--json",
     )  # fmt: skip
     assert result["code"] in (0, 1)
     assert "geometry" in json.loads(result["out"])
     assert "scipy" in result["loaded"]
     assert not {"pyarrow", "jsonschema", "textual"} & set(result["loaded"])
+
+
+def test_a_usual_spiral_needs_no_scipy():
+    # Ls / (2 R) = 70 / 800 rad: the clothoid by its power series
+    result = probe(
+        "check", "road", "--speed", "100", "--radius", "400", "--emax", "8",
+        "--deflection", "40", "--spiral", "70", "--json",
+    )  # fmt: skip
+    assert result["code"] in (0, 1)
+    assert json.loads(result["out"])["geometry"]["type"] == "spiral-curve-spiral"
+    assert not {"scipy", "pyarrow", "jsonschema", "textual"} & set(result["loaded"])
 
 
 def test_control_a_project_file_loads_jsonschema():
@@ -140,3 +152,69 @@ def test_control_a_project_file_loads_jsonschema():
     assert json.loads(result["out"])["bends"]
     assert "jsonschema" in result["loaded"]
     assert not {"pyarrow", "textual"} & set(result["loaded"])
+
+
+# `curvetui FILE` through the command line's main() as on a terminal, the app run headless;
+# at its Ready event (its first frame is on screen) the packages loaded are noted, then the
+# worksheet is built (the bend on screen evaluated) and they are noted again.
+APP_PROBE = """
+import asyncio, json, sys, types
+from textual.app import App
+from curvetui.app import app as app_mod
+from curvetui.cli import main, project_cmd
+
+class Tty:
+    def isatty(self):
+        return True
+
+project_cmd.sys = types.SimpleNamespace(stdin=Tty(), stdout=Tty(), stderr=sys.stderr)
+seen = {}
+build = app_mod.CurveApp.on_ready
+
+def loaded():
+    return sorted({name.split(".")[0] for name in sys.modules})
+
+async def on_ready(self):
+    seen["first_frame"] = loaded()
+    seen["sheet_then"] = bool(self.project_screen.query("#worksheet"))
+    await build(self)
+    first = self.session.project.bends[0]
+    seen["first_bend"] = self.session.status(first)
+    seen["sheet_after"] = bool(self.project_screen.query("#worksheet"))
+    seen["after"] = loaded()
+    self.exit()
+
+app_mod.CurveApp.on_ready = on_ready
+app_mod.CurveApp.run = lambda self: App.run(self, headless=True, size=(120, 40))
+code = main([sys.argv[1]])
+print(json.dumps({"code": code, **seen}))
+"""
+
+
+@pytest.mark.app
+def test_app_first_frame_needs_no_engine_and_first_results_no_scipy(tmp_path):
+    project = tmp_path / PROJECT.name
+    project.write_bytes(PROJECT.read_bytes())
+    env = dict(os.environ, PYTHONPATH=str(ROOT))
+    proc = subprocess.run(
+        [sys.executable, "-c", APP_PROBE, str(project)],
+        capture_output=True,
+        text=True,
+        env=env,
+        cwd=ROOT,
+        check=False,
+        timeout=60,
+    )
+    assert proc.returncode == 0, proc.stderr
+    seen = json.loads(proc.stdout.strip().splitlines()[-1])
+    assert seen["code"] == 0
+    # the first frame: the project file read and validated, no engine, no worksheet yet
+    assert "jsonschema" in seen["first_frame"] and "textual" in seen["first_frame"]
+    heavy = {"numpy", "scipy", "pyarrow", "fpdf"} & set(seen["first_frame"])
+    assert heavy == set(), f"loaded before the first frame: {sorted(heavy)}"
+    assert seen["sheet_then"] is False
+    # then the worksheet, with the first bend evaluated (QV-01: a spiral of 80 m on R 700 m)
+    assert seen["sheet_after"] is True
+    assert seen["first_bend"] in ("pass", "fail")
+    assert "numpy" in seen["after"]
+    assert not {"scipy", "pyarrow", "fpdf"} & set(seen["after"])

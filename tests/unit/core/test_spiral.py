@@ -135,6 +135,28 @@ def test_clothoid_end_matches_series(theta):
     assert float(y) == pytest.approx(ys, rel=1e-12)
 
 
+# theta = s^2 / (2 R Ls): up to 1 rad the engine sums the power series, beyond it calls
+# scipy's fresnel; both sides of the switch against mpmath at 30 digits, to a few ulp.
+@pytest.mark.parametrize(
+    "theta", [1e-9, 1e-3, 0.05, 0.3, 0.7, 0.999999, 1.0, 1.000001, 1.3, 2.5, 6.0]
+)
+def test_clothoid_both_sides_of_the_series_limit_match_mpmath(theta):
+    r, ls = 250.0, 600.0
+    s = math.sqrt(theta * 2 * r * ls)
+    xr, yr = mp_clothoid(s, ls, r)
+    x, y = clothoid_xy(np.array([s, -s]), ls, r)
+    for sign, xi, yi in zip((1, -1), x, y, strict=True):  # x and y are odd in s
+        assert float(xi) == pytest.approx(sign * float(xr), rel=4e-15, abs=0)
+        assert float(yi) == pytest.approx(sign * float(yr), rel=4e-15, abs=0)
+
+
+def test_clothoid_mixed_arrays_and_scalars_keep_their_shape():
+    x, y = clothoid_xy(np.array([[10.0, 600.0]]), 600.0, 250.0)  # theta 3e-4 and 1.2 rad
+    assert x.shape == y.shape == (1, 2)
+    x0, y0 = clothoid_xy(30.0, 60.0, 300.0)
+    assert np.ndim(x0) == np.ndim(y0) == 0
+
+
 def test_clothoid_zero_length_and_start():
     x, y = clothoid_xy(0.0, 0.0, 300.0)
     assert float(x) == 0.0 and float(y) == 0.0
