@@ -9,12 +9,13 @@ from __future__ import annotations
 from collections.abc import Iterable
 from pathlib import Path
 
-from textual.app import App, SystemCommand
+from textual.app import SystemCommand
 from textual.binding import Binding
 from textual.screen import Screen
 
 from curvetui.app.dialogs.confirm import Confirm
 from curvetui.app.dialogs.details import DetailsDialog
+from curvetui.app.key_order import KeyOrder
 from curvetui.app.project_screen import ProjectScreen
 from curvetui.app.session import Session
 from curvetui.inputs import InputError
@@ -22,7 +23,7 @@ from curvetui.storage.project.files import ProjectError
 from curvetui.storage.project.model import Bend
 
 
-class CurveApp(App):
+class CurveApp(KeyOrder):
     """Work through an alignment bend by bend."""
 
     CSS_PATH = "app.tcss"

@@ -102,7 +102,7 @@ class ProjectScreen(Screen):
         next_view(self.query_one("#views", TabbedContent))
 
     def focus_list(self) -> None:
-        self.query_one(BendList).focus()
+        self.set_focus(self.query_one(BendList))  # now: the next key typed goes to the list
 
     @on(TabbedContent.TabActivated, "#views")
     def view_changed(self, event: TabbedContent.TabActivated) -> None:
@@ -117,8 +117,16 @@ class ProjectScreen(Screen):
 
     @on(DataTable.RowSelected, "#bends")
     def bend_selected(self, event: DataTable.RowSelected) -> None:
+        self.action_open_bend()
+
+    def action_open_bend(self) -> None:
+        """The bend under the list's cursor on the worksheet, its speed focused."""
+        bends = self.session.project.bends
+        row = self.query_one(BendList).cursor_row
+        if 0 <= row < len(bends):
+            self.session.select(bends[row])
         self.show_view("sheet")
-        self.query_one("#in-speed", Input).focus()
+        self.set_focus(self.query_one("#in-speed", Input))  # now, not after the queue
 
     @on(Input.Changed)
     def input_changed(self, event: Input.Changed) -> None:
