@@ -16,7 +16,7 @@ from pathlib import Path
 from typing import Any
 
 from curvetui.storage.files import atomic_write_text
-from curvetui.storage.project.model import FORMAT_VERSION, Bend, Details, Project
+from curvetui.storage.project.model import DETAIL_FIELDS, FORMAT_VERSION, Bend, Details, Project
 
 
 class ProjectError(ValueError):
@@ -146,19 +146,27 @@ def migrate(data: dict, path: str) -> tuple[dict, list[str]]:
 def parse_project(data: dict) -> Project:
     """A validated document as a Project."""
     d = data["details"]
-    details = Details(**{k: d[k] for k in d})
+    details = Details(**{k: d[k] for k in d}, absent=frozenset(DETAIL_FIELDS) - set(d))
     bends = [
         Bend(
             id=b["id"],
             kind=b["kind"],
             inputs=dict(b["inputs"]),
-            station=float(b.get("station", 0.0)),
+            station=_number(b.get("station", 0.0)),
             notes=b.get("notes", ""),
             results=b.get("results"),
+            absent=frozenset({"station", "notes", "results"}) - set(b),
         )
         for b in data["bends"]
     ]
     return Project(details, bends)
+
+
+def _number(value) -> float:
+    """A stored number as read (a whole number stays whole), once it is known to be one a
+    float can hold."""
+    float(value)
+    return value
 
 
 def load_project(path: str | Path) -> tuple[Project, list[str]]:
