@@ -156,6 +156,7 @@ def parse_project(data: dict) -> Project:
             notes=b.get("notes", ""),
             results=b.get("results"),
             absent=frozenset({"station", "notes", "results"}) - set(b),
+            nulls=frozenset(k for k, v in b["inputs"].items() if v is None),
         )
         for b in data["bends"]
     ]

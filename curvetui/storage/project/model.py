@@ -1,7 +1,8 @@
 """The project model: details and an ordered list of bends, each with its inputs.
 
 What a file holds is written back as it was read: inputs as stored (100 stays 100, a null
-stays null), and a key the file left out (``absent``) stays out while it keeps its default.
+the file holds stays null: ``nulls``), and a key the file left out (``absent``) stays out
+while it keeps its default. An input left empty in memory (None or '') is left out.
 """
 
 from __future__ import annotations
@@ -64,13 +65,17 @@ class Bend:
     notes: str = ""
     results: dict[str, Any] | None = None
     absent: frozenset[str] = field(default=frozenset(), repr=False, compare=False)
+    nulls: frozenset[str] = field(default=frozenset(), repr=False, compare=False)
 
     def to_json(self) -> dict[str, Any]:
+        inputs = {
+            k: v for k, v in self.inputs.items() if v != "" and (v is not None or k in self.nulls)
+        }
         out = {
             "id": self.id,
             "kind": self.kind,
             "station": self.station,
-            "inputs": dict(self.inputs),
+            "inputs": inputs,
             "notes": self.notes,
             "results": self.results,
         }
