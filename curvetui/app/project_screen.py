@@ -101,6 +101,18 @@ class ProjectScreen(Screen):
     def next_view(self) -> None:
         next_view(self.query_one("#views", TabbedContent))
 
+    def take_typed(self) -> None:
+        """What the focused field shows, taken now: its change may still be on its way
+        (ctrl+s, ctrl+q and F5 act at once, before the queued changes are handled)."""
+        box, bend = self.focused, self.session.current
+        if not isinstance(box, Input) or not (box.id or "").startswith("in-"):
+            return
+        if bend is None or bend is not self.query_one(Worksheet).bend:
+            return
+        key = box.id.removeprefix("in-")
+        if box.value != self.session.field_text(bend, key):
+            self.session.edit_field(bend, key, box.value)
+
     def focus_list(self) -> None:
         self.set_focus(self.query_one(BendList))  # now: the next key typed goes to the list
 
@@ -131,8 +143,10 @@ class ProjectScreen(Screen):
     @on(Input.Changed)
     def input_changed(self, event: Input.Changed) -> None:
         bend = self.session.current
-        if bend is None or not event.input.id:
+        if bend is None or not event.input.id or bend is not self.query_one(Worksheet).bend:
             return
+        if event.value != event.input.value:
+            return  # a later change of the box is on its way: only the last one counts
         key = event.input.id.removeprefix("in-")
         if event.value == self.session.field_text(bend, key):
             return  # the echo of the worksheet filling the box, not an edit
@@ -142,6 +156,11 @@ class ProjectScreen(Screen):
 
     @on(Select.Changed, "#kind")
     def kind_changed(self, event: Select.Changed) -> None:
+        """The kind chosen. A change the box no longer shows is not the user's: the box
+        announces its first value when mounted, after the worksheet has put the bend's kind
+        in it (a project whose first bend is rail was opened as road)."""
         bend = self.session.current
+        if event.value != event.select.value or bend is not self.query_one(Worksheet).bend:
+            return
         if bend is not None and event.value != bend.kind:
             self.session.switch_kind(bend, str(event.value))
