@@ -336,12 +336,12 @@ def test_changing_units_asks_first_then_converts_every_value_and_the_tables(demo
 def test_list_columns_widen_to_their_values(demo_path):
     async def steps(app, pilot):
         await go_to(app, pilot, "QV-04")
-        await set_box(pilot, app, "radius", "1500")
+        await set_box(pilot, app, "radius", "12500")  # wider than any radius shown before
         await set_box(pilot, app, "speed", "100")
         row = region_text(app, "#bends").splitlines()[
             [b.id for b in app.session.project.bends].index("QV-04") + 1
         ]
-        assert " 100 " in row and " 1500 " in row, row
+        assert " 100 " in row and " 12500 " in row, row
 
     drive(demo_path, steps)
 
