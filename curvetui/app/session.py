@@ -54,11 +54,17 @@ class BendState:
     # fields the project file cannot store as they are: field -> why (see app.storable)
     file_errors: dict[str, str] = field(default_factory=dict)
 
+    def engine_fields(self) -> set[str]:
+        """Every field the engine's message names ('speed: required; radius: required')."""
+        if not self.error:
+            return set()
+        return {k for k in map(_field_of, self.error.split("; ")) if k is not None}
+
     def field_errors(self) -> dict[str, str]:
         """Every field marked on the form, with the first reason for each."""
         out = dict(self.form_errors)
         for key, why in self.file_errors.items():
-            if key != self.error_field:  # the engine's message already names it
+            if key not in self.engine_fields():  # the engine's message already names it
                 out.setdefault(key, why)
         return out
 

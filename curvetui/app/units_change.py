@@ -34,8 +34,10 @@ class UnitChange:
         """The question the app asks before converting."""
         old, new = unit_system(self.old), unit_system(self.new)
         example = convert(100.0, SPEED, old, new)
-        road = self.road_table or f"the default for {_name(new)}"
-        rail = self.rail_limits or f"the default for {_name(new)}"
+        from curvetui.storage.tables import DEFAULT_RAIL_LIMITS, DEFAULT_ROAD_TABLE
+
+        road = self.road_table or f"{DEFAULT_ROAD_TABLE[new.name]} (the default)"
+        rail = self.rail_limits or f"{DEFAULT_RAIL_LIMITS[new.name]} (the default)"
         return (
             f"Change the units from {_name(old)} to {_name(new)}?\n"
             f"The speeds, radii, lengths, stations and cants of all {self.bends} bends are "

@@ -57,6 +57,7 @@ class DetailsDialog(ModalScreen[dict | None]):
     file cannot store is marked as it is typed, with its name and the allowed form, and
     Apply waits until it is put right."""
 
+    AUTO_FOCUS = "#d-units"
     BINDINGS = [
         Binding("escape", "dismiss(None)", "Cancel"),
         Binding("ctrl+s", "apply", "Apply", priority=True),
@@ -85,32 +86,39 @@ class DetailsDialog(ModalScreen[dict | None]):
         d = self.details
         with Vertical():
             yield Static("[b]Project details[/]  (ctrl+s apply, escape cancel)")
-            with VerticalScroll():
+            with VerticalScroll(can_focus=False):  # Tab goes from field to field
+                # first, one line each: a list opened shows whole, over the fields below it
+                with Horizontal(classes="row"):
+                    yield Label("units")
+                    yield Select(
+                        [("metric (km/h, m, mm)", "metric"), ("US customary (mph, ft, in)", "us")],
+                        value=d.units,
+                        allow_blank=False,
+                        id="d-units",
+                        compact=True,
+                    )
+                with Horizontal(classes="row"):
+                    yield Label("road table")
+                    yield Select(
+                        [(plain_text(n), n) for n in self.road_tables],
+                        value=d.road_table or Select.NULL,
+                        id="d-road_table",
+                        prompt="default for the units",
+                        compact=True,
+                    )
+                with Horizontal(classes="row"):
+                    yield Label("rail limits")
+                    yield Select(
+                        [(plain_text(n), n) for n in self.rail_limits],
+                        value=d.rail_limits or Select.NULL,
+                        id="d-rail_limits",
+                        prompt="default for the units",
+                        compact=True,
+                    )
                 for key in TEXT_FIELDS:
                     with Horizontal(classes="row", id=f"d-row-{key}"):
                         yield Label(key.replace("_", " "))
                         yield FieldInput(self._shown(key), id=f"d-{key}", compact=True)
-                yield Label("units")
-                yield Select(
-                    [("metric (km/h, m, mm)", "metric"), ("US customary (mph, ft, in)", "us")],
-                    value=d.units,
-                    allow_blank=False,
-                    id="d-units",
-                )
-                yield Label("road design table")
-                yield Select(
-                    [(plain_text(n), n) for n in self.road_tables],
-                    value=d.road_table or Select.NULL,
-                    id="d-road_table",
-                    prompt="default for the units",
-                )
-                yield Label("rail limits")
-                yield Select(
-                    [(plain_text(n), n) for n in self.rail_limits],
-                    value=d.rail_limits or Select.NULL,
-                    id="d-rail_limits",
-                    prompt="default for the units",
-                )
             yield Static("", id="d-problems")
             with Horizontal(id="buttons"):
                 yield Button("Apply", id="apply", variant="primary")

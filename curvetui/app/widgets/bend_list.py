@@ -77,9 +77,10 @@ def row_cells(session: Session, b) -> tuple:
 
 
 def _number(value) -> str:
-    """An input as the list shows it: a number in full (1500, not 1.5e+03), else as typed."""
+    """An input as the list shows it: a number to 6 figures (1500, not 1.5e+03), else as
+    typed."""
     if value is None:
         return ""
     if isinstance(value, int | float) and not isinstance(value, bool):
-        return f"{value:.10g}"
+        return f"{value:.6g}"  # the list is an overview; the worksheet shows all digits
     return str(value)

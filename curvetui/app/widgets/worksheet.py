@@ -121,9 +121,9 @@ class Worksheet(Horizontal):
             texts = {key: session.field_text(bend, key) for key in FORM_FIELDS + ALL_FIELDS}
             self.fill(bend.kind, units, texts)
         st = session.state(bend)
-        marked = st.field_errors()
+        marked, named = st.field_errors(), st.engine_fields()
         for key in FORM_FIELDS + ALL_FIELDS:
-            bad = st.error_field == key or key in marked
+            bad = key in named or key in marked
             self.query_one(f"#in-{key}", FieldInput).set_class(bad, "-invalid")
             self.query_one(f"#row-{key}").set_class(bad, "-invalid")
         messages = ([st.error] if st.error else []) + list(marked.values())
