@@ -28,10 +28,10 @@ from typing import Any
 import numpy as np
 
 from curvetui.bend.evaluate import STATUS_NAMES, Evaluation
-from curvetui.bend.fields import BY_KEY, STATION
+from curvetui.bend.fields import BY_KEY
 from curvetui.bend.messages import SEVERITY_WORDS, message_parts
 from curvetui.bend.outputs import OUTPUTS, TEXT
-from curvetui.bend.parse import Column
+from curvetui.bend.parse import Column, column_for
 from curvetui.bend.service import check_columns
 from curvetui.core.units import unit_system
 
@@ -41,13 +41,13 @@ def _column(values: Any, n: int, key: str, units: str) -> Column:
     arr = np.asarray(values)
     if arr.ndim == 0:
         arr = np.full(n, arr.item(), dtype=arr.dtype)
-    if arr.dtype.kind in "fiu":
+    if arr.dtype.kind in "fiu" and not BY_KEY[key].choices:
         value = arr.astype(float)
         present = ~np.isnan(value)
         bad = present & ~np.isfinite(value)
         texts = arr
         return Column(np.where(bad, np.nan, value), present, bad, lambda i: str(texts[i]))
-    return Column.from_values(list(arr), BY_KEY[key].unit == STATION, units)
+    return column_for(key, list(arr), units)
 
 
 def _context(units: str, table, limits):
@@ -147,7 +147,8 @@ def check_table(data, units: str = "metric", table=None, limits=None):
             mask = None if v.dtype == object else np.isnan(v)
             arrays.append(pa.array(v, mask=mask) if mask is not None else pa.array(list(v)))
         return pa.Table.from_arrays(arrays, names=[*names, *named])
-    out = data.copy()
-    for name, v in named.items():
-        out[name] = v
-    return out
+    import pandas as pd
+
+    # one concat, not a column at a time (pandas warns of a fragmented frame past 100)
+    kept = data.drop(columns=[c for c in named if c in data.columns])
+    return pd.concat([kept, pd.DataFrame(named, index=data.index)], axis=1)

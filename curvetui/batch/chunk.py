@@ -92,6 +92,14 @@ def _items(n: int, pieces: list[tuple[np.ndarray, str, list[str] | str]]) -> pa.
 
 
 def _column(cells: pa.Array | None, n: int, key: str, ctx: BatchContext) -> Column:
+    choices = BY_KEY[key].choices
+    if choices and cells is not None:  # a word of the field's choices, any case: its code
+        text = pc.utf8_lower(pc.utf8_trim_whitespace(cells))
+        present = pc.fill_null(pc.not_equal(text, ""), False).to_numpy(zero_copy_only=False)
+        codes = pc.index_in(text, value_set=pa.array(choices, pa.string()))
+        value = codes.to_numpy(zero_copy_only=False).astype(float)  # null: NaN
+        bad = present & np.isnan(value)
+        return Column(value, present, bad, lambda i: cells[i].as_py() or "")
     num = NumberColumn(cells, n, ctx.decimal_comma)
     if BY_KEY[key].unit == STATION and num.bad.any():  # 2+710.5: read cell by cell
         for i in np.nonzero(num.bad)[0]:

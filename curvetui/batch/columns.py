@@ -24,7 +24,11 @@ RESULTS: tuple[tuple[str, str], ...] = (
     ("units", TEXT),
     ("table", TEXT),
     ("limits", TEXT),
-    *((o.key, TEXT if o.rounding == TEXT_OUTPUT else FLOAT) for o in OUTPUTS if not o.echo),
+    *(
+        (o.key, TEXT if o.rounding == TEXT_OUTPUT else FLOAT)
+        for o in OUTPUTS
+        if not (o.echo or o.working)
+    ),
     ("row", INT),
     ("status", TEXT),
     ("messages", TEXT),

@@ -12,11 +12,14 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from curvetui.bend import working_values
+from curvetui.bend.fields import BY_KEY
+from curvetui.bend.geometry import bend_geometry
 from curvetui.bend.outputs import OUTPUTS, TEXT
 from curvetui.bend.parse import Issue, Parsed
+from curvetui.bend.road_sight import road_sight
 from curvetui.bend.road_transition import road_transition
 from curvetui.core import transitions as tr
-from curvetui.core.circular import circular_curve
 from curvetui.core.rail import RailLimits, check_rail, rail_centres_for_gauge
 from curvetui.core.road import check_road
 from curvetui.core.road_table import RoadTable
@@ -37,6 +40,8 @@ NO_SPIRAL_FITS = 1 << 5  # a spiral is given, but no length meets minimum and ma
 SPIRAL_NOT_SUITABLE = 1 << 6  # no spiral given, and none would fit: a note
 CURVE_TOO_SHORT = 1 << 7  # no spiral: the curve is too short to reach full superelevation
 GAUGE_NOT_COVERED = 1 << 8  # the curve's gauge is not the one the rail limits are set for
+TRAFFIC_NOT_USED = 1 << 9  # traffic given, but the rail limits set no speed by traffic
+SPIRAL_NOT_NEEDED = 1 << 10  # radius above the table's largest that uses a spiral: a note
 ROAD_SPIRAL_FLAGS = {
     "spiral_in_short": SPIRAL_IN_SHORT,
     "spiral_in_long": SPIRAL_IN_LONG,
@@ -45,6 +50,7 @@ ROAD_SPIRAL_FLAGS = {
     "no_fit": NO_SPIRAL_FITS,
     "not_suitable": SPIRAL_NOT_SUITABLE,
     "too_short": CURVE_TOO_SHORT,
+    "not_needed": SPIRAL_NOT_NEEDED,
 }
 
 ROAD_CHECKS = ("radius", "friction", "superelevation", "transition", "sight")
@@ -173,6 +179,7 @@ def _road(ev: Evaluation, rows: np.ndarray) -> None:
     ev.parts["road"], ev.part_rows["road"] = check, rows
     for key, values in road_columns(check, units).items():
         _put(ev, key, rows, values)
+    working_values.road_terms(ev, rows, check)
     _put(ev, "speed", rows, units.speed_from_si(v))
     _put(ev, "radius", rows, units.length_from_si(r))
     _put(ev, "e_max", rows, 100 * check.e_max)
@@ -192,9 +199,9 @@ def _road(ev: Evaluation, rows: np.ndarray) -> None:
         si["lane_width"][rows],
         DEFAULT_LANE_WIDTH[units.name],
     )
-    curve_length = _geometry(ev, rows, r)
+    curve_length = bend_geometry(ev, rows, r, GEOMETRY_SKIPPED)
     road_transition(ev, rows, v, r, check.superelevation, width, ROAD_SPIRAL_FLAGS)
-    _sight(ev, rows, v, r, width, curve_length)
+    road_sight(ev, rows, v, r, width, curve_length)
 
 
 def _spiral(ev: Evaluation, key: str, rows) -> np.ndarray:
@@ -204,118 +211,6 @@ def _spiral(ev: Evaluation, key: str, rows) -> np.ndarray:
     if key == "spiral_in":
         return ls_in
     return np.where(present["spiral_out"][rows], si["spiral_out"][rows], ls_in)
-
-
-def _geometry(ev: Evaluation, rows, r) -> np.ndarray:
-    """Circular or spiral geometry of the rows with a deflection; the curve length [m]
-    (NaN without). Spirals that overlap are an input issue of the row."""
-    from curvetui.core.spiral import overlap_message, spiral_curve
-
-    units, si, present = ev.ctx.units, ev.parsed.si, ev.parsed.present
-    length = np.full(len(rows), np.nan)
-    has_d = present["deflection"][rows]
-    given = present["spiral_in"][rows] | present["spiral_out"][rows] | present["pi_station"][rows]
-    ev.bend_flags[rows[~has_d & given]] |= GEOMETRY_SKIPPED
-    d = si["deflection"][rows]
-    pi = np.where(present["pi_station"][rows], si["pi_station"][rows], 0.0)
-    l1, l2 = _spiral(ev, "spiral_in", rows), _spiral(ev, "spiral_out", rows)
-
-    def put(key, at, values, angle=False):
-        _put(
-            ev,
-            f"geometry.{key}",
-            rows[at],
-            np.degrees(values) if angle else units.length_from_si(np.asarray(values)),
-        )
-
-    circ = np.nonzero(has_d & (l1 <= 0) & (l2 <= 0))[0]
-    if len(circ):
-        c = circular_curve(r[circ], np.radians(d[circ]), pi[circ])
-        ev.texts["geometry.type"][rows[circ]] = "circular"
-        put("deflection", circ, np.radians(d[circ]), angle=True)
-        for key in ("tangent", "length", "external", "middle_ordinate", "long_chord"):
-            put(key, circ, getattr(c, key))
-        for key in ("pi", "pc", "pt"):
-            put(key, circ, getattr(c, key))
-        length[circ] = c.length
-    spir = np.nonzero(has_d & ((l1 > 0) | (l2 > 0)))[0]
-    if len(spir):
-        with np.errstate(all="ignore"):
-            s = spiral_curve(r[spir], np.radians(d[spir]), l1[spir], l2[spir], pi[spir])
-        overlap = np.asarray(s.overlap) | ~np.isfinite(s.total_length)
-        for j in np.nonzero(overlap)[0]:
-            k = spir[j]
-            text = overlap_message(float(r[k]), float(np.radians(d[k])), float(l1[k]), float(l2[k]))
-            ev.issues.append(Issue(int(rows[k]), "spiral_in", text))
-        ok = np.nonzero(~overlap)[0]
-        at = spir[ok]
-        ev.texts["geometry.type"][rows[at]] = "spiral-curve-spiral"
-        put("deflection", at, np.radians(d[at]), angle=True)
-        put("spiral_angle", at, s.theta_in[ok], angle=True)
-        for key, name in (
-            ("xs", "xs_in"),
-            ("ys", "ys_in"),
-            ("p", "p_in"),
-            ("k", "k_in"),
-            ("total_tangent", "tangent_in"),
-            ("external", "external"),
-            ("circular_length", "circular_length"),
-            ("total_length", "total_length"),
-        ):
-            put(key, at, np.asarray(getattr(s, name))[ok])
-        unequal = ok[l1[at] != l2[at]]
-        if len(unequal):
-            put("spiral_angle_out", spir[unequal], s.theta_out[unequal], angle=True)
-            for key, name in (
-                ("xs_out", "xs_out"),
-                ("ys_out", "ys_out"),
-                ("p_out", "p_out"),
-                ("k_out", "k_out"),
-                ("total_tangent_out", "tangent_out"),
-            ):
-                put(key, spir[unequal], np.asarray(getattr(s, name))[unequal])
-        for key in ("pi", "ts", "sc", "cs", "st"):
-            put(key, at, np.asarray(getattr(s, key))[ok])
-        length[at] = np.asarray(s.total_length)[ok]
-    return length
-
-
-def _sight(ev: Evaluation, rows, v, r, width, curve_length) -> None:
-    from curvetui.core import sight as sd
-
-    units, si, present = ev.ctx.units, ev.parsed.si, ev.parsed.present
-    has = np.nonzero(present["obstruction_offset"][rows])[0]
-    if not len(has):
-        return
-    at = rows[has]
-    r_lane = r[has] - width[has] / 2.0
-    grade = np.where(present["grade"][at], si["grade"][at], 0.0)
-    with np.errstate(all="ignore"):
-        c = sd.sight_check(
-            v[has],
-            r_lane,
-            si["obstruction_offset"][at],
-            curve_length=curve_length[has],
-            units=units.name,
-            grade=grade,
-        )
-    ev.parts["sight"], ev.part_rows["sight"] = c, at
-    lane = np.full(ev.n, np.nan)
-    lane[at] = width[has]
-    ev.parts["lane_width"] = lane
-    for key in (
-        "stopping_sight_distance",
-        "sightline_offset_required",
-        "offset_available",
-        "sight_distance_available",
-        "offset_that_passes",
-    ):
-        _put(ev, f"sight.{key}", at, units.length_from_si(getattr(c, key)))
-    _put(ev, "sight.sightline_radius", at, units.length_from_si(r_lane))
-    _put(ev, "sight.speed_that_passes", at, units.speed_from_si(c.speed_that_passes))
-    failed = ~np.asarray(c.status, bool)
-    ev.texts["sight.status"][at] = np.where(failed, "fail", "pass")
-    _check(ev, "sight", at, failed)
 
 
 def _rail(ev: Evaluation, rows: np.ndarray) -> None:
@@ -329,7 +224,8 @@ def _rail(ev: Evaluation, rows: np.ndarray) -> None:
         uniq, inverse = np.unique(gauge_mm[given], return_inverse=True)
         s[given] = np.array([rail_centres_for_gauge(float(g)) for g in uniq])[inverse]
     ev.bend_flags[rows[given & np.isfinite(limits.gauge)]] |= GAUGE_NOT_COVERED
-    check = check_rail(limits, v, r, ea, low, s)
+    traffic = _traffic(ev, rows)
+    check = check_rail(limits, v, r, ea, low, s, limits.top_speeds()[traffic])
     ev.parts["rail"], ev.part_rows["rail"] = check, rows
     for key, values in rail_columns(check, units).items():
         _put(ev, key, rows, values)
@@ -356,10 +252,11 @@ def _rail(ev: Evaluation, rows: np.ndarray) -> None:
     ev.parts["rail_transition"], ev.part_rows["rail_transition"] = t, rows
     for key in ("length", "length_cant_gradient", "length_cant_rate", "length_deficiency_rate"):
         _put(ev, f"transition.{key}", rows, units.length_from_si(getattr(t, key)))
+    working_values.rail_rate_limits(ev, rows, check.speed)
     gov = np.asarray(t.governing)
     names = np.asarray((*tr.RAIL_GOVERNING, "none evaluated"), object)
     ev.texts["transition.governing"][rows] = names[np.where(gov < 0, -1, gov)]
-    _geometry(ev, rows, r)
+    bend_geometry(ev, rows, r, GEOMETRY_SKIPPED)
     need = np.asarray(t.length)
     t_failed = np.zeros(len(rows), bool)
     for key, short in (("spiral_in", SPIRAL_IN_SHORT), ("spiral_out", SPIRAL_OUT_SHORT)):
@@ -373,6 +270,20 @@ def _rail(ev: Evaluation, rows: np.ndarray) -> None:
     ev.texts["transition.status"][rows] = np.where(
         t_failed, "fail", np.where(none, "not evaluated", "pass")
     )
+
+
+def _traffic(ev: Evaluation, rows) -> np.ndarray:
+    """Each rail row's traffic code (the field's default where blank); the record names it
+    where the limits set a top speed by traffic, and a note says it is unused elsewhere."""
+    field = BY_KEY["traffic"]
+    given = ev.parsed.present["traffic"][rows]
+    code = np.where(given, ev.parsed.si["traffic"][rows], field.choices.index(field.default))
+    code = code.astype(int)
+    if ev.ctx.limits.traffic_top_speeds:
+        ev.texts["traffic"][rows] = np.asarray(field.choices, object)[code]
+    else:
+        ev.bend_flags[rows[given]] |= TRAFFIC_NOT_USED
+    return code
 
 
 def _verdict(ev: Evaluation) -> None:

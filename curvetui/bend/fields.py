@@ -7,20 +7,22 @@ input is one entry here plus its use in the evaluation.
 Ranges are in the user's units (``metric``: km/h, m, mm of cant; ``us``: mph, ft, in).
 Lengths are declared in metres and shown converted, rounded as the messages print them.
 Two ranges depend on something else: e_max on the road table, and the slow train's
-speed on the fast one (see ``curvetui.bend.parse``).
+speed on the fast one (see ``curvetui.bend.parse``). A CHOICE field takes one word of its
+``choices`` (any case); it is parsed to the word's position in that list.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 
+from curvetui.core.rail import TRAFFIC
 from curvetui.core.units import UnitSystem
 
 ROAD, RAIL = "road", "rail"
 BOTH = (ROAD, RAIL)
 
-# unit kinds: how a field's number is shown and converted to SI
-SPEED, LENGTH, CANT, PERCENT, DEGREES, FACTOR, MILLIMETRE, STATION = (
+# unit kinds: how a field's number is shown and converted to SI (CHOICE: a word, no unit)
+SPEED, LENGTH, CANT, PERCENT, DEGREES, FACTOR, MILLIMETRE, STATION, CHOICE = (
     "speed",
     "length",
     "cant",
@@ -29,6 +31,7 @@ SPEED, LENGTH, CANT, PERCENT, DEGREES, FACTOR, MILLIMETRE, STATION = (
     "factor",
     "mm",
     "station",
+    "choice",
 )
 
 
@@ -40,6 +43,7 @@ class Field:
     fields (converted for US units), else per unit system as {"metric": (lo, hi), "us": ...}
     or the same pair for both. ``lo_open`` excludes lo itself. ``needs`` names a field
     that must be given too. ``aliases`` are other batch column names for the field.
+    ``choices`` are the words a CHOICE field takes (its value is the word's position).
     """
 
     key: str
@@ -56,6 +60,7 @@ class Field:
     default: str = ""
     short: str = ""  # the label of a narrow form (the app): the key in words unless given
     hint: str = ""  # the form's hint: "blank: <default>" unless given
+    choices: tuple[str, ...] = ()  # the words of a CHOICE field, in code order
 
     @property
     def short_label(self) -> str:
@@ -80,10 +85,12 @@ class Field:
             DEGREES: "degrees",
             FACTOR: "",
             MILLIMETRE: "mm",
+            CHOICE: "",
         }[self.unit]
 
     def to_si(self, value, units: UnitSystem):
-        """A number in the user's unit to SI (m, m/s, fraction, radians kept in degrees)."""
+        """A number in the user's unit to SI (m, m/s, fraction, radians kept in degrees);
+        a CHOICE field's code is kept as it is."""
         if self.unit == SPEED:
             return units.speed_to_si(value)
         if self.unit in (LENGTH, STATION):
@@ -186,7 +193,8 @@ FIELDS: tuple[Field, ...] = (
         "Side friction factor",
         FACTOR,
         (ROAD,),
-        "side friction factor to use instead of the table's f_max",
+        "side friction factor to check against instead of the table's f_max (R_min, friction "
+        "demand, safe speed); the design superelevation keeps the table's distribution and f_max",
         {ROAD: (0.01, 1.0)},
         default="table f_max",
     ),
@@ -207,6 +215,19 @@ FIELDS: tuple[Field, ...] = (
         "track gauge in mm, for another gauge's rail centres (default: the limits')",
         {RAIL: (600.0, 1700.0)},
         default="limits' gauge",
+    ),
+    _f(
+        "traffic",
+        "Traffic",
+        CHOICE,
+        (RAIL,),
+        "passenger or freight: the 49 CFR limits' top speed differs by traffic (213.9: class "
+        "2 freight 25 mph, passenger 30); limits that set no speed by traffic, such as EN "
+        "13803, ignore it",
+        {},
+        default=TRAFFIC[0],
+        choices=TRAFFIC,
+        hint=" / ".join(TRAFFIC),
     ),
     _f(
         "spiral_in",
@@ -294,6 +315,12 @@ def input_keys(kind: str) -> tuple[str, ...]:
     return tuple(f.key for f in fields_for(kind))
 
 
+def choice_text(f: Field) -> str:
+    """'passenger' or 'freight' (a CHOICE field's words, quoted, for messages)."""
+    words = [repr(c) for c in f.choices]
+    return ", ".join(words[:-1]) + " or " + words[-1] if len(words) > 1 else words[0]
+
+
 def cli_name(key: str) -> str:
     """The command-line option of an input (``--spiral`` for spiral_in)."""
     field = BY_KEY.get(key)
@@ -339,6 +366,8 @@ def docs_table() -> str:
         allowed = "; ".join([*([dynamic[f.key]] if f.key in dynamic else []), *texts])
         if len(set(t.split(": ", 1)[-1] for t in texts)) == 1 and texts:
             allowed = texts[0].split(": ", 1)[-1]
+        if f.choices:
+            allowed = " or ".join(f"`{c}`" for c in f.choices)
         units_txt = f"{f.unit_label(METRIC) or '-'} / {f.unit_label(US) or '-'}"
         blank = "required" if f.required == f.kinds else f.default or "not used"
         if f.required and f.required != f.kinds:

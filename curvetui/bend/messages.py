@@ -15,6 +15,15 @@ import numpy as np
 
 from curvetui.bend import evaluate as ev_mod
 from curvetui.bend.evaluate import Evaluation
+from curvetui.bend.layer_texts import (
+    gauge_text,
+    sight_lane,
+    sight_offset,
+    spiral_long,
+    spiral_not_needed,
+    spiral_short,
+    traffic_text,
+)
 from curvetui.bend.rail_messages import RAIL_MESSAGES
 from curvetui.bend.road_messages import ROAD_MESSAGES
 from curvetui.core import sight as sd
@@ -73,60 +82,6 @@ class Rule:
     by_row: bool = False  # build(evaluation, row, ...) rather than build(result, position, ...)
 
 
-def _spiral_short(which: str, key: str) -> Callable:
-    def build(ev: Evaluation, i, ref, units) -> str:
-        given = float(ev.spiral_length(key, np.array([i]))[0]) / units.length
-        label = units.length_label
-        gov = ev.texts["transition.governing"][i]
-        if ev.parsed.is_rail[i]:
-            need = float(ev.values["transition.length"][i])
-            return (
-                f"{which} {given:g} {label} is shorter than the {need:.1f} {label} the {gov} needs"
-            )
-        lo = float(ev.values["transition.spiral_length_min"][i])
-        return (
-            f"{which} {given:g} {label} is shorter than the minimum {lo:.1f} {label} "
-            f"({gov} governs)"
-        )
-
-    return build
-
-
-def _spiral_long(which: str, key: str) -> Callable:
-    def build(ev: Evaluation, i, ref, units) -> str:
-        given = float(ev.spiral_length(key, np.array([i]))[0]) / units.length
-        hi = float(ev.values["transition.spiral_length_max"][i])
-        label = units.length_label
-        return (
-            f"{which} {given:g} {label} is longer than the lateral-shift maximum {hi:.1f} {label}"
-        )
-
-    return build
-
-
-def _sight_offset(ev: Evaluation, i, ref, units) -> str:
-    v = ev.values
-    lab = units.length_label
-    return (
-        f"sightline offset {float(v['sight.offset_available'][i]):g} {lab} is less than the "
-        f"{float(v['sight.sightline_offset_required'][i]):.2f} {lab} needed; clear to that "
-        f"offset or design for {float(v['sight.speed_that_passes'][i]):.1f} {units.speed_label}"
-    )
-
-
-def _sight_lane(ev: Evaluation, i, ref, units) -> str:
-    half = units.length_from_si(float(ev.parts["lane_width"][i])) / 2
-    return f"sight line on the inside lane centre, radius R - {half:g} {units.length_label}"
-
-
-def _gauge_text(ev: Evaluation, i, ref, units) -> str:
-    lim = ev.ctx.limits
-    return (
-        f"the limits {lim.name} are set for a {lim.gauge * 1000:.0f} mm gauge, this curve's is "
-        f"{float(ev.parsed.si['gauge'][i]):g} mm: check them against the rules for that gauge"
-    )
-
-
 def _const(text: str) -> Callable:
     return lambda obj, j, ref, units: text
 
@@ -180,6 +135,16 @@ RULES: tuple[Rule, ...] = (
     ),
     Rule(
         "bend",
+        ev_mod.SPIRAL_NOT_NEEDED,
+        "note",
+        "spiral_not_needed",
+        spiral_not_needed,
+        False,
+        "transition",
+        ("radius", "transition.spiral_radius_max"),
+    ),
+    Rule(
+        "bend",
         ev_mod.CURVE_TOO_SHORT,
         "warning",
         "curve_too_short_for_full_superelevation",
@@ -196,7 +161,7 @@ RULES: tuple[Rule, ...] = (
         ev_mod.SPIRAL_IN_SHORT,
         "fail",
         "spiral_in_too_short",
-        _spiral_short("spiral in", "spiral_in"),
+        spiral_short("spiral in", "spiral_in"),
         False,
         "transition",
     ),
@@ -205,7 +170,7 @@ RULES: tuple[Rule, ...] = (
         ev_mod.SPIRAL_OUT_SHORT,
         "fail",
         "spiral_out_too_short",
-        _spiral_short("spiral out", "spiral_out"),
+        spiral_short("spiral out", "spiral_out"),
         False,
         "transition",
     ),
@@ -214,7 +179,7 @@ RULES: tuple[Rule, ...] = (
         ev_mod.SPIRAL_IN_LONG,
         "fail",
         "spiral_in_too_long",
-        _spiral_long("spiral in", "spiral_in"),
+        spiral_long("spiral in", "spiral_in"),
         False,
         "transition",
     ),
@@ -223,7 +188,7 @@ RULES: tuple[Rule, ...] = (
         ev_mod.SPIRAL_OUT_LONG,
         "fail",
         "spiral_out_too_long",
-        _spiral_long("spiral out", "spiral_out"),
+        spiral_long("spiral out", "spiral_out"),
         False,
         "transition",
     ),
@@ -272,7 +237,7 @@ RULES: tuple[Rule, ...] = (
         sd.FAIL_OFFSET,
         "fail",
         "sightline_offset_short",
-        _sight_offset,
+        sight_offset,
         False,
         "sight",
         ("sight.offset_available", "sight.sightline_offset_required", "sight.speed_that_passes"),
@@ -314,15 +279,16 @@ RULES: tuple[Rule, ...] = (
         True,
         "sight",
     ),
-    Rule("sight", -1, "note", "sight_line_position", _sight_lane, False, "sight", (), True),
+    Rule("sight", -1, "note", "sight_line_position", sight_lane, False, "sight", (), True),
     Rule(
         "bend",
         ev_mod.GAUGE_NOT_COVERED,
         "warning",
         "gauge_not_covered",
-        _gauge_text,
+        gauge_text,
         False,
     ),
+    Rule("bend", ev_mod.TRAFFIC_NOT_USED, "note", "traffic_not_used", traffic_text, True),
     Rule(
         "bend",
         ev_mod.GEOMETRY_SKIPPED,

@@ -5,7 +5,9 @@ written from this list; keys with a dot (``transition.runoff``) are nested objec
 and column names in CSV. Values are held unrounded until written: ``SIG`` rounds to six
 significant figures, ``PLACES`` to six decimals (lengths and stations of the geometry),
 ``ANGLE`` to nine significant figures, ``INPUT`` (an input repeated) to twelve, so it
-reads as given; ``TEXT`` is a word from a short list.
+reads as given; ``TEXT`` is a word from a short list. ``working`` outputs are the
+intermediate values and constants a checker substitutes to redo the working by hand
+(``curvetui.reports.working``): JSON keeps them, batch files leave them out.
 """
 
 from __future__ import annotations
@@ -23,6 +25,7 @@ class Output:
     kinds: tuple[str, ...]
     rounding: str = SIG
     echo: bool = False  # repeats an input: in JSON, left out of batch files
+    working: bool = False  # an intermediate of the working: in JSON, left out of batch files
     label: str = ""  # the main results' words (the others show their key)
     short: str = ""
     unit: str = ""
@@ -76,6 +79,7 @@ ROAD_TRANSITION = (
     "relative_gradient",
     "runoff",
     "runout",
+    "spiral_radius_max",  # the table's largest radius that uses a spiral (null: none given)
 )
 ROAD_TRANSITION_CONSTANTS = (
     "comfort_rate",  # C, m/s^3 or ft/s^3
@@ -95,6 +99,25 @@ RUNOFF_STATIONS = (
     "runout_end",
 )
 RAIL_TRANSITION = ("length", "length_cant_gradient", "length_cant_rate", "length_deficiency_rate")
+# the rate limits of the design speed's band, in the user's units (mm/m or in/ft; mm/s or in/s)
+RAIL_TRANSITION_LIMITS = ("cant_gradient_max", "cant_rate_max", "deficiency_rate_max")
+# Method 5's intermediates (curvetui.core.superelevation.method5_terms) in the user's units:
+# the point-mass constant K of e + f = V^2 / (K R) in the user's units (the table's 127 or 15
+# when they are the table's own), the average running speed, the curvatures 1/R_PI and
+# 1/R_min, h, S1, S2, M0, the side friction f by the distribution and the leg used
+SUPERELEVATION_WORKING = (
+    "constant",
+    "friction_table",
+    "min_radius_table",
+    "running_speed",
+    "curvature_pi",
+    "curvature_min",
+    "friction_at_pi",
+    "slope_1",
+    "slope_2",
+    "middle_ordinate",
+    "side_friction",
+)
 CIRCULAR = ("tangent", "length", "external", "middle_ordinate", "long_chord")
 SPIRAL = ("xs", "ys", "p", "k", "total_tangent", "external", "circular_length", "total_length")
 SPIRAL_OUT = ("xs_out", "ys_out", "p_out", "k_out", "total_tangent_out")
@@ -112,12 +135,15 @@ SIGHT = (
 OUTPUTS: tuple[Output, ...] = (
     *(_o(k, (ROAD,), label=lab, short=sh, unit=u) for k, lab, sh, u in _ROAD_MAIN),
     _o("cross_section", (ROAD,), TEXT),
+    *(_o(f"superelevation_working.{k}", (ROAD,), working=True) for k in SUPERELEVATION_WORKING),
+    _o("superelevation_working.leg", (ROAD,), TEXT, working=True),
     *(_o(k, (RAIL,), label=lab, short=sh, unit=u) for k, lab, sh, u in _RAIL_MAIN),
     _o("speed", rounding=INPUT, echo=True),
     _o("radius", rounding=INPUT, echo=True),
     _o("e_max", (ROAD,)),
     _o("cant", (RAIL,), INPUT, echo=True),
     _o("low_speed", (RAIL,), INPUT, echo=True),
+    _o("traffic", (RAIL,), TEXT, echo=True),  # null where the limits set no speed by traffic
     _o("degree_of_curve_arc", (RAIL,)),
     _o("degree_of_curve_chord", (RAIL,)),
     _o("transition.governing", rounding=TEXT),
@@ -128,8 +154,11 @@ OUTPUTS: tuple[Output, ...] = (
     *(_o(f"transition.{k}", (ROAD,)) for k in ROAD_TRANSITION_CONSTANTS),
     *(_o(f"transition.{k}", (ROAD,), PLACES) for k in RUNOFF_STATIONS),
     *(_o(f"transition.{k}", (RAIL,)) for k in RAIL_TRANSITION),
+    *(_o(f"transition.{k}", (RAIL,), working=True) for k in RAIL_TRANSITION_LIMITS),
     _o("geometry.type", rounding=TEXT),
     _o("geometry.deflection", rounding=ANGLE, echo=True),
+    _o("geometry.spiral_length", rounding=INPUT, echo=True),
+    _o("geometry.spiral_length_out", rounding=INPUT, echo=True),
     _o("geometry.spiral_angle", rounding=ANGLE),
     *(_o(f"geometry.{k}", rounding=PLACES) for k in dict.fromkeys((*CIRCULAR, *SPIRAL))),
     _o("geometry.spiral_angle_out", rounding=ANGLE),
@@ -137,14 +166,27 @@ OUTPUTS: tuple[Output, ...] = (
     *(_o(f"geometry.{k}", rounding=PLACES) for k in STATIONS),
     _o("sight.status", (ROAD,), TEXT),
     *(_o(f"sight.{k}", (ROAD,)) for k in SIGHT),
+    _o("sight.grade", (ROAD,), INPUT, echo=True),
+    _o("sight.stopping_sight_distance_calculated", (ROAD,), working=True),
 )
 BY_KEY = {o.key: o for o in OUTPUTS}
 assert len(BY_KEY) == len(OUTPUTS)
 
 # keys of the geometry object by its type, in the order JSON lists them
 CIRCULAR_JSON = ("type", "deflection", *CIRCULAR, "pi", "pc", "pt")
-SPIRAL_JSON = ("type", "deflection", "spiral_angle", *SPIRAL, "pi", "ts", "sc", "cs", "st")
-SPIRAL_OUT_JSON = ("spiral_angle_out", *SPIRAL_OUT)
+SPIRAL_JSON = (
+    "type",
+    "deflection",
+    "spiral_length",
+    "spiral_angle",
+    *SPIRAL,
+    "pi",
+    "ts",
+    "sc",
+    "cs",
+    "st",
+)
+SPIRAL_OUT_JSON = ("spiral_length_out", "spiral_angle_out", *SPIRAL_OUT)
 
 
 def main_results(kind: str) -> tuple[Output, ...]:

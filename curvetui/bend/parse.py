@@ -14,7 +14,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from curvetui.bend.fields import FIELDS, RAIL, ROAD, STATION, Field
+from curvetui.bend.fields import BY_KEY, FIELDS, RAIL, ROAD, STATION, Field, choice_text
 from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem
 from curvetui.stations import parse_station
@@ -48,22 +48,40 @@ class Column:
         return cls(np.full(n, np.nan), np.zeros(n, bool), np.zeros(n, bool), lambda i: "")
 
     @classmethod
-    def from_values(cls, values: Sequence, station: bool = False, units: str = "metric"):
+    def from_values(
+        cls,
+        values: Sequence,
+        station: bool = False,
+        units: str = "metric",
+        choices: tuple[str, ...] = (),
+    ):
         """From Python values (numbers, text or None/blank) as a project file or the
-        command line gives them; stations may be written 2+710.5."""
+        command line gives them; stations may be written 2+710.5; with ``choices`` a
+        word of them (any case) becomes its position, anything else is bad."""
         n = len(values)
         value = np.full(n, np.nan)
         present = np.zeros(n, bool)
+        codes = {c: float(j) for j, c in enumerate(choices)}
         for i, v in enumerate(values):
             if v is None or (isinstance(v, str) and v.strip() == "") or isinstance(v, bool):
                 present[i] = v is not None and not (isinstance(v, str) and v.strip() == "")
                 continue
             present[i] = True
+            if choices:
+                word = v.strip().lower() if isinstance(v, str) else None
+                value[i] = codes.get(word, math.nan)
+                continue
             value[i] = to_number(v, station, units)
         texts = [str(v) for v in values]
         with np.errstate(invalid="ignore"):
             bad = present & ~np.isfinite(value)
         return cls(value, present, bad, lambda i: texts[i])
+
+
+def column_for(key: str, values: Sequence, units: str = "metric") -> Column:
+    """A column of Python values for the input ``key``, read as its field says."""
+    f = BY_KEY[key]
+    return Column.from_values(values, f.unit == STATION, units, f.choices)
 
 
 def to_number(v, station: bool = False, units: str = "metric") -> float:
@@ -137,9 +155,16 @@ def _dynamic_range(f: Field, kind: str, units: UnitSystem, table: RoadTable, col
         return 100 * table.emax_min, 100 * table.emax_max, f"% (table {table.name})"
     if f.key == "low_speed":
         return 0.0, cols["speed"].value, units.speed_label
-    if f.key == "speed" and kind == RAIL and limits is not None:  # within the limits' bands
-        hi = float(units.speed_from_si(limits.speed_max[-1]))
-        return 1.0, hi, f"{units.speed_label} (limits {limits.name})"
+    if f.key == "speed" and kind == RAIL and limits is not None:  # the top for the traffic
+        traffic = BY_KEY["traffic"]
+        code = cols["traffic"].value
+        code = np.where(np.isfinite(code), code, traffic.choices.index(traffic.default))
+        code = code.astype(int)
+        hi = units.speed_from_si(limits.top_speeds()[code])
+        if not limits.traffic_top_speeds:
+            return 1.0, hi, f"{units.speed_label} (limits {limits.name})"
+        label = [f"{units.speed_label} (limits {limits.name}, {t})" for t in traffic.choices]
+        return 1.0, hi, np.array(label, object)[code]
     if f.key == "speed" and kind == ROAD:  # never beyond the table's first or last row
         lo, hi = (float(units.speed_from_si(x)) for x in table.speeds_si[[0, -1]])
         return lo, hi, f"{units.speed_label} (table {table.name})"
@@ -194,7 +219,17 @@ def parse(
     return Parsed(n, is_road, is_rail, si, present, issues, ignored)
 
 
+def _choice_issues(f: Field, rows, col: Column) -> list[Issue]:
+    """A word that is none of the field's choices."""
+    return [
+        Issue(int(i), f.key, f"must be {choice_text(f)}, got {_shown(col.cell(int(i)))}")
+        for i in np.nonzero(rows & col.present & col.bad)[0]
+    ]
+
+
 def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n, limits=None):
+    if f.choices:
+        return _choice_issues(f, rows, col)
     allowed = f.allowed(kind, units)
     dynamic = _dynamic_range(f, kind, units, table, cols, n, limits)
     if allowed is None and dynamic is None:
@@ -210,7 +245,8 @@ def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n, limi
     wrong = rows & col.present & (col.bad | out)
     found = []
     for i in np.nonzero(wrong)[0]:
-        allowed_txt = range_text(float(lo_a[i]), float(hi_a[i]), unit, f.lo_open)
+        unit_i = unit if isinstance(unit, str) else str(unit[i])
+        allowed_txt = range_text(float(lo_a[i]), float(hi_a[i]), unit_i, f.lo_open)
         if col.bad[i]:
             if f.unit == STATION:
                 allowed_txt = "must be a station such as 2+710.5 or a number"

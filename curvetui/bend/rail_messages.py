@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
+from curvetui.bend.display import shown
 from curvetui.core import rail
 from curvetui.core.rail import RailCheck, RailLimits
 from curvetui.core.units import UnitSystem
@@ -20,7 +21,17 @@ def _cant(u: UnitSystem, x) -> str:
 
 
 def _spd(u: UnitSystem, x) -> str:
-    return f"{u.speed_from_si(float(x)):.1f} {u.speed_label}"
+    return f"{u.speed_from_si(float(x)):g} {u.speed_label}"
+
+
+def _spd_down(u: UnitSystem, x) -> str:
+    """A speed limit as people read it: whole units, rounded to the safe side (down)."""
+    return f"{shown('max_speed', u.speed_from_si(float(x)), u.name)} {u.speed_label}"
+
+
+def _spd_up(u: UnitSystem, x) -> str:
+    """A least speed: whole units, rounded to the safe side (up)."""
+    return f"{shown('min_speed', u.speed_from_si(float(x)), u.name)} {u.speed_label}"
 
 
 def _over_cant(c: RailCheck, i, lim, u) -> str:
@@ -30,14 +41,14 @@ def _over_cant(c: RailCheck, i, lim, u) -> str:
 def _deficiency(c: RailCheck, i, lim, u) -> str:
     return (
         f"cant deficiency {_cant(u, c.cant_deficiency[i])} exceeds the limit "
-        f"{_cant(u, c.deficiency_limit[i])}; maximum speed is {_spd(u, c.max_speed[i])}"
+        f"{_cant(u, c.deficiency_limit[i])}; maximum speed is {_spd_down(u, c.max_speed[i])}"
     )
 
 
 def _excess(c: RailCheck, i, lim, u) -> str:
     return (
         f"cant excess {_cant(u, c.cant_excess[i])} exceeds the limit "
-        f"{_cant(u, c.excess_limit[i])}; minimum speed is {_spd(u, c.min_speed[i])}"
+        f"{_cant(u, c.excess_limit[i])}; minimum speed is {_spd_up(u, c.min_speed[i])}"
     )
 
 

@@ -86,6 +86,8 @@ class BendRecord:
             record["geometry"] = _ordered_geometry(parts["geometry"])
         if "sight" in parts:
             record["sight"] = parts["sight"]
+        if "superelevation_working" in parts:
+            record["superelevation_working"] = parts["superelevation_working"]
         return record
 
 
@@ -95,7 +97,12 @@ def _ordered_transition(t: dict, kind: str) -> dict:
     rest = {k: t.get(k) for k in keys if k not in first}
     placed = {
         k: t[k]
-        for k in ("runoff_on_tangent", *out.ROAD_TRANSITION_CONSTANTS, *out.RUNOFF_STATIONS)
+        for k in (
+            "runoff_on_tangent",
+            *out.ROAD_TRANSITION_CONSTANTS,
+            *out.RUNOFF_STATIONS,
+            *out.RAIL_TRANSITION_LIMITS,
+        )
         if k in t
     }
     return {**first, "governing": t.get("governing"), **rest, **placed, "status": t.get("status")}

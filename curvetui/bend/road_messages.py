@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
+from curvetui.bend.display import shown
 from curvetui.core import road
 from curvetui.core.road import RoadCheck
 from curvetui.core.road_table import RoadTable
@@ -20,7 +21,12 @@ Builder = Callable[[RoadCheck, object, RoadTable, UnitSystem], str]
 
 
 def _spd(units: UnitSystem, v) -> str:
-    return f"{units.speed_from_si(float(v)):.1f} {units.speed_label}"
+    return f"{units.speed_from_si(float(v)):g} {units.speed_label}"
+
+
+def _spd_down(units: UnitSystem, v) -> str:
+    """A safe speed as people read it: whole units, rounded down (the safe side)."""
+    return f"{shown('safe_speed', units.speed_from_si(float(v)), units.name)} {units.speed_label}"
 
 
 def _lng(units: UnitSystem, x) -> str:
@@ -45,7 +51,7 @@ def _friction(c: RoadCheck, i, t: RoadTable, u: UnitSystem) -> str:
         f"side friction demand {float(c.side_friction_demand[i]):.3f} exceeds "
         f"f_max {float(c.side_friction_max[i]):.3f}; safe speed is "
         + (
-            f"{_spd(u, c.safe_speed[i])}"
+            f"{_spd_down(u, c.safe_speed[i])}"
             if c.safe_speed[i] == c.safe_speed[i]  # NaN: below the table's lowest speed
             else f"below the table's lowest speed {float(t.speeds[0]):g}"
         )
@@ -80,6 +86,11 @@ def _emax(c: RoadCheck, i, t: RoadTable, u) -> str:
 
 
 def _normal_crown(c, i, t: RoadTable, u) -> str:
+    if t.distribution == "aashto-method-2":
+        return (
+            f"side friction carries the bend with the adverse -{100 * t.normal_crown:.1f} % "
+            "crown within f_max (Method 2): normal crown kept"
+        )
     return (
         f"design e below {100 * t.normal_crown_limit:.1f} %: normal crown kept; "
         f"friction checked on the outside lane at the adverse -{100 * t.normal_crown:.1f} %"
@@ -112,7 +123,10 @@ def _table_top(t: RoadTable) -> str:
 
 
 def _friction_given(c, i, t, u) -> str:
-    return "side friction given by the user replaces the table's f_max"
+    return (
+        "side friction given by the user replaces the table's f_max in the check (R_min, "
+        "friction demand, safe speed); the design superelevation keeps the table's distribution"
+    )
 
 
 def _below_design(c: RoadCheck, i, t, u) -> str:

@@ -12,6 +12,10 @@ Two cases (sources in curvetui.core.transitions):
   when its curve is too short to reach full superelevation. Where no spiral length would
   fit, a note says a spiral is not suitable.
 
+Either way, a radius above the table's largest radius for a spiral at the design speed
+(``spiral_radius_max``; the Green Book 2018 values are from memory) gets a note that a
+spiral is not needed; never a failure.
+
 US customary bends use C = 4 ft/s^3 and p limits 0.66 / 3.3 ft (from memory, unconfirmed);
 metric C = 1.2 m/s^3 and 0.20 / 1.0 m (Green Book 2018 sec. 3.3.8, from memory).
 """
@@ -57,6 +61,11 @@ def road_transition(ev, rows: np.ndarray, v, r, e, width, spiral_flags: dict) ->
     ):
         ev.values[f"transition.{key}"][rows] = units.length_from_si(getattr(t, key))
     ev.values["transition.relative_gradient"][rows] = 100 * t.relative_gradient
+    r_spiral = table.spiral_radius_max_si(v)  # a note above it: a spiral is not needed
+    ev.values["transition.spiral_radius_max"][rows] = units.length_from_si(r_spiral)
+    with np.errstate(invalid="ignore"):
+        not_needed = r > r_spiral * (1 + 1e-12)
+    ev.bend_flags[rows[not_needed]] |= spiral_flags["not_needed"]
     v = ev.values
     v["transition.comfort_rate"][rows] = units.length_from_si(c)
     v["transition.shift_min"][rows] = units.length_from_si(p_min)

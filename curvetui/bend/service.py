@@ -13,8 +13,8 @@ from typing import Any
 import numpy as np
 
 from curvetui.bend.evaluate import Context, Evaluation, evaluate
-from curvetui.bend.fields import BY_KEY, FIELDS, STATION, cli_name
-from curvetui.bend.parse import Column, Kinds, Parsed, parse
+from curvetui.bend.fields import BY_KEY, FIELDS, cli_name
+from curvetui.bend.parse import Column, Kinds, Parsed, column_for, parse
 from curvetui.bend.record import BendRecord, record_at
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
@@ -32,7 +32,7 @@ def path_namer(prefix: str) -> Namer:
 def columns_from_values(values: Mapping[str, Sequence], units: UnitSystem) -> dict[str, Column]:
     """Columns of Python values (numbers, text, None) by input name."""
     return {
-        key: Column.from_values(list(vals), BY_KEY[key].unit == STATION, units.name)
+        key: column_for(key, list(vals), units.name)
         for key, vals in values.items()
         if key in BY_KEY
     }

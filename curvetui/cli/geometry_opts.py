@@ -32,6 +32,7 @@ def add_field_options(p: argparse.ArgumentParser, kind: str, keys: tuple = ()) -
                 "cant",
                 "low_speed",
                 "gauge",
+                "traffic",
                 "superelevation",
                 "emax",
                 "friction",

@@ -49,7 +49,8 @@ def print_rail(record: dict, units: UnitSystem) -> None:
     grid = Table(
         title=f"Rail curve: {record['speed']:g} {units.speed_label}{low}, R {record['radius']:g} "
         f"{units.length_label}, cant {record['cant']:g} {units.cant_label}",
-        caption=f"limits: {record['limits']}",
+        caption=f"limits: {record['limits']}"
+        + (f", {record['traffic']} traffic" if record.get("traffic") else ""),
     )
     grid.add_column("Quantity")
     grid.add_column("Value", justify="right")

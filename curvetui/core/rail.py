@@ -38,6 +38,10 @@ RAIL_CENTRES_MM = {
 # s = 0.0007 in x g x 5729.578 ft / (5280/3600 ft/s per mph)^2, about 59.99 in.
 US_RAIL_CENTRES = 0.0007 * INCH * G0 * (5729.5779513 * FOOT) / MPH**2
 
+# Kinds of train traffic, in the order a CHOICE input codes them (0 passenger, 1 freight):
+# 49 CFR 213.9 sets each track class's top speed by traffic.
+TRAFFIC = ("passenger", "freight")
+
 # Status flags
 FAIL_CANT = 1 << 0  # applied cant above its maximum
 FAIL_DEFICIENCY = 1 << 1
@@ -135,6 +139,8 @@ class RailLimits:
 
     Band i covers speeds up to ``speed_max[i]``; excess limits may be NaN (none set), and so
     may the transition limits (one value per band from a file; a scalar NaN by default).
+    ``traffic_top_speeds`` gives a top speed [m/s] per kind of traffic (49 CFR 213.9: class 2
+    track, freight 25 mph, passenger 30 mph); without one the last band's top applies.
     """
 
     name: str
@@ -161,6 +167,17 @@ class RailLimits:
     cant_gradient_max: np.ndarray | float = np.nan  # dE/ds [m/m]
     cant_rate_max: np.ndarray | float = np.nan  # dE/dt [m/s]
     deficiency_rate_max: np.ndarray | float = np.nan  # dD/dt [m/s]
+    traffic_top_speeds: tuple[tuple[str, float], ...] = ()  # (traffic, [m/s]) pairs
+    traffic_source: str = ""
+
+    def top_speed(self, traffic: str) -> float:
+        """The top speed [m/s] the limits allow for ``traffic`` (one of TRAFFIC): the file's
+        own for that traffic, else its last band's."""
+        return dict(self.traffic_top_speeds).get(traffic, float(self.speed_max[-1]))
+
+    def top_speeds(self) -> np.ndarray:
+        """Top speed [m/s] of each traffic, in TRAFFIC's order (index with a traffic code)."""
+        return np.array([self.top_speed(t) for t in TRAFFIC])
 
     def band(self, speed) -> tuple[np.ndarray, np.ndarray]:
         """Index of the band holding ``speed`` [m/s], and whether it lies above the last."""
@@ -201,12 +218,19 @@ class RailCheck:
 
 
 def check_rail(
-    limits: RailLimits, speed, radius, cant, low_speed=None, rail_centres=None
+    limits: RailLimits,
+    speed,
+    radius,
+    cant,
+    low_speed=None,
+    rail_centres=None,
+    top_speed=None,
 ) -> RailCheck:
     """Check rail curves against ``limits``. SI inputs; arrays broadcast.
 
     ``low_speed`` (NaN where absent) is the slowest train's speed; ``rail_centres`` [m]
-    replaces the limits' own (for another gauge).
+    replaces the limits' own (for another gauge); ``top_speed`` [m/s] caps the maximum
+    speed (the track class's top for the traffic, ``RailLimits.top_speed``).
     """
     s_given = limits.rail_centres if rail_centres is None else rail_centres
     low = np.asarray(np.nan if low_speed is None else low_speed, dtype=float)
@@ -228,6 +252,8 @@ def check_rail(
     has_low = ~np.isnan(low)
     has_x = ~np.isnan(x_max)
     v_max, v_min = band_speed_limits(limits, ea, r, s)
+    if top_speed is not None:
+        v_max = np.minimum(v_max, np.asarray(top_speed, dtype=float))
     x_for_balance = np.where(has_x, x_max, np.inf)
     with np.errstate(invalid="ignore"):
         bal, bal_lo, bal_hi = balancing_cant(

@@ -122,14 +122,27 @@ class RoadCheck:
 
 
 def design_superelevation(table: RoadTable, speed, radius, e_max, f_max=None):
-    """Design superelevation [fraction] for ``radius`` by the table's distribution."""
+    """Design superelevation [fraction] for ``radius`` by the table's distribution, with
+    the table's f_max unless ``f_max`` is given."""
     if f_max is None:
         f_max, _ = table.f_max(speed)
     if table.distribution == "linear":
         return se.linear_superelevation(radius, speed, e_max, f_max, table.k_si)
+    if table.distribution == "aashto-method-2":
+        return se.method2_superelevation(radius, speed, e_max, f_max, table.k_si)
     return se.method5_superelevation(
         radius, speed, table.running_speed_si(speed), e_max, f_max, table.k_si
     )
+
+
+def design_section(table: RoadTable, speed, radius, e_design, e_max, f_max, at_emax):
+    """The cross-section code of a design e (normal crown ... e_max), as the table's
+    distribution decides it: Method 2 by the demand with the adverse crown against f_max,
+    the others by the design e against the normal-crown limit."""
+    if table.distribution == "aashto-method-2":
+        demand = np.asarray(speed, dtype=float) ** 2 / (table.k_si * np.asarray(radius))
+        return se.method2_cross_section(demand, f_max, e_design, table.normal_crown, at_emax)
+    return se.cross_section(e_design, e_max, table.normal_crown, table.normal_crown_limit, at_emax)
 
 
 def check_road(
@@ -143,7 +156,10 @@ def check_road(
     """Check road bends against ``table``. Inputs in SI (m/s, m, fractions); any may be arrays.
 
     ``superelevation`` (NaN where absent) is the built value; without it the design value
-    from the distribution is used. ``friction`` (NaN where absent) replaces f_max.
+    from the distribution is used. ``friction`` (NaN where absent) replaces f_max in the
+    check only (R_min, the friction limit, the safe speed): the design superelevation keeps
+    the table's distribution with the table's own f_max, so it stays the one its printed
+    tables give.
     """
     v = np.asarray(speed, dtype=float)
     r = np.asarray(radius, dtype=float)
@@ -159,10 +175,9 @@ def check_road(
     r_min = minimum_radius(v, emax, f_max, k)
     below_min = r < r_min * (1 - 1e-12)
 
-    e_design = design_superelevation(table, v, r, emax, f_max)
-    section = se.cross_section(
-        e_design, emax, table.normal_crown, table.normal_crown_limit, r <= r_min
-    )
+    e_design = design_superelevation(table, v, r, emax, f_table)
+    r_min_table = minimum_radius(v, emax, f_table, k)  # where the distribution reaches e_max
+    section = design_section(table, v, r, e_design, emax, f_table, r <= r_min_table)
     has_e = ~np.isnan(e_given)
     e_use = np.where(
         has_e, e_given, se.applied_superelevation(e_design, section, table.normal_crown)

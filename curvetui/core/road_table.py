@@ -18,7 +18,7 @@ INTERPOLATED = 1
 BELOW_TABLE = 2
 ABOVE_TABLE = 3
 
-DISTRIBUTIONS = ("aashto-method-5", "linear")
+DISTRIBUTIONS = ("aashto-method-5", "linear", "aashto-method-2")
 
 
 @dataclass(frozen=True)
@@ -74,6 +74,10 @@ class RoadTable:
     superelevation_step: float = 0.001  # design e is shown rounded up to this (fraction)
     radius_rounding: RadiusRounding = field(default_factory=RadiusRounding)
     path: str = ""
+    # the largest radius on which a spiral transition is used, table length units, per row
+    # (NaN where a row gives none), and where those values come from
+    spiral_radius_max: np.ndarray | None = None
+    spiral_radius_max_source: str = ""
 
     @property
     def speed_unit(self) -> float:
@@ -127,6 +131,15 @@ class RoadTable:
         """Average running speed [m/s] for a design speed [m/s]."""
         value, _ = self.lookup(self.running_speeds, speed_si)
         return value * self.speed_unit
+
+    def spiral_radius_max_si(self, speed_si) -> np.ndarray:
+        """Largest radius [m] that uses a spiral at ``speed_si`` [m/s], interpolated between
+        rows (linear in R: a little above v^2/a between rows, so a note is never early);
+        NaN outside the table or where a neighbouring row gives none."""
+        if self.spiral_radius_max is None:
+            return np.full(np.shape(speed_si), np.nan)
+        value, _ = self.lookup(self.spiral_radius_max, speed_si)
+        return value * self.length_unit
 
     def round_radius_si(self, radius_si) -> np.ndarray:
         """Round a radius [m] the way the source table prints it, in its own units."""

@@ -61,7 +61,8 @@ def road_chart(
 ) -> RoadChart:
     """Chart data for a road bend: ``speed`` [m/s], ``e_max`` [fraction], ``radius_now`` [m].
 
-    ``f_max`` replaces the table's maximum side friction (as the check's ``friction``);
+    ``f_max`` replaces the table's maximum side friction in the check and R_min (as the
+    check's ``friction``; the design e keeps the table's distribution);
     ``superelevation`` [fraction] is the built e of the current bend (default: the design
     value). The grid is log-spaced from R_min/1.2 to 20 R_min (widened to hold the current
     radius) with R_min and the current radius added.
@@ -73,7 +74,8 @@ def road_chart(
     lo = min(r_min / 1.2, r_now / 1.1)
     hi = max(20.0 * r_min, r_now * 1.2)
     grid = np.unique(np.concatenate([np.geomspace(lo, hi, samples), [r_min, r_now]]))
-    e = np.asarray(design_superelevation(table, v, grid, emax, fmax), dtype=float)
+    # the distribution keeps the table's f_max whatever friction the check uses
+    e = np.asarray(design_superelevation(table, v, grid, emax), dtype=float)
     f = np.asarray(_friction_demand(v, grid, e, k), dtype=float)
 
     check = check_road(table, v, r_now, emax, superelevation=superelevation, friction=f_max)

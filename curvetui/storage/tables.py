@@ -79,6 +79,7 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
         "side_friction_max": [],
         "running_speed": [],
         "relative_gradient": [],
+        "spiral_radius_max": [],
     }
     sources = []
     for i, row in enumerate(rows, start=1):
@@ -93,6 +94,9 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
             vr = float(row.get("running_speed", cols["speed"][-1]))
         cols["running_speed"].append(vr)
         cols["relative_gradient"].append(_number(row, "relative_gradient", rw, 0.01, 5.0))
+        cols["spiral_radius_max"].append(
+            _number(row, "spiral_radius_max", rw, 1, 1e6) if "spiral_radius_max" in row else np.nan
+        )
         src = row.get("source")
         if not isinstance(src, str) or not src.strip():
             raise TableError(f"{rw}: every row needs a 'source' naming where its values come from")
@@ -101,6 +105,15 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
     if np.any(np.diff(speeds) <= 0):
         raise TableError(f"{label}: row speeds must rise strictly from row to row")
     constant = _number(head, "point_mass_constant", where, 1, 1000)
+    spiral_max = np.array(cols["spiral_radius_max"])
+    spiral_source = head.get("spiral_radius_max_source", "")
+    if np.isfinite(spiral_max).any() and not (
+        isinstance(spiral_source, str) and spiral_source.strip()
+    ):
+        raise TableError(
+            f"{where}: rows give spiral_radius_max, so 'spiral_radius_max_source' must say "
+            "where those values come from"
+        )
     return RoadTable(
         name=name,
         title=str(head.get("title", name)),
@@ -132,6 +145,8 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
             significant_figures=int(rounding.get("significant_figures", 3)),
         ),
         path=path,
+        spiral_radius_max=spiral_max if np.isfinite(spiral_max).any() else None,
+        spiral_radius_max_source=spiral_source if np.isfinite(spiral_max).any() else "",
     )
 
 
@@ -260,6 +275,7 @@ def parse_rail_limits(data: dict, path: str = ""):
         sources.append(src)
     if np.any(np.diff(cols["speed_max"]) <= 0):
         raise TableError(f"{label}: band speed_max must rise strictly from band to band")
+    tops, traffic_source = _traffic_top_speeds(head, where, speed_unit, cols["speed_max"][-1])
     return RailLimits(
         name=name,
         title=str(head.get("title", name)),
@@ -281,7 +297,34 @@ def parse_rail_limits(data: dict, path: str = ""):
         if "gauge" in head
         else float("nan"),
         **{k: np.array(v) for k, v in transition.items()},
+        traffic_top_speeds=tops,
+        traffic_source=traffic_source,
     )
+
+
+def _traffic_top_speeds(head: dict, where: str, speed_unit: float, last: float):
+    """The optional ``[limits.top_speed]`` table: a top speed (km/h or mph) per kind of
+    traffic (``passenger``, ``freight``) and its ``source``; none may pass the last band."""
+    from curvetui.core.rail import TRAFFIC
+
+    if "top_speed" not in head:
+        return (), ""
+    table = _need(head, "top_speed", where, dict)
+    at = f"{where} top_speed"
+    source = _need(table, "source", at, str)
+    if not source.strip():
+        raise TableError(f"{at}: 'source' must name where the speeds come from")
+    unknown = sorted(set(table) - {"source", *TRAFFIC})
+    if unknown:
+        raise TableError(f"{at}: unknown key {unknown[0]!r}; keys: {', '.join(TRAFFIC)}, source")
+    tops = []
+    for traffic in TRAFFIC:
+        if traffic in table:
+            top = _number(table, traffic, at, 1, 600) * speed_unit
+            if top > last * (1 + 1e-12):
+                raise TableError(f"{at}: '{traffic}' is above the last band's speed_max")
+            tops.append((traffic, top))
+    return tuple(tops), source
 
 
 @cache

@@ -27,7 +27,9 @@ from curvetui.results import RAIL_FIELDS, ROAD_FIELDS, unit_label
 # Every input either kind can have, in the field list's order (curvetui.bend.fields).
 ALL_FIELDS = tuple(f.key for f in FIELDS)
 UNIT_KIND = {
-    f.key: {"degrees": "deg", "percent": "%", "factor": "", "station": "length"}.get(f.unit, f.unit)
+    f.key: {"degrees": "deg", "percent": "%", "factor": "", "choice": "", "station": "length"}.get(
+        f.unit, f.unit
+    )
     for f in FIELDS
 }
 HINTS = {f.key: f.form_hint for f in FIELDS if f.form_hint}

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from curvetui.bend.display import shown
 from curvetui.bend.messages import message_line
 from curvetui.core.circular import GeometryError
 from curvetui.inputs import InputError
@@ -122,20 +123,27 @@ def _standard(outcome: Outcome, ctx: Context, units) -> list[tuple[str, str]]:
                 ("f_max in use", f"{rec['side_friction_max']:g}"),
                 (
                     "R_min at this speed",
-                    f"{rec['min_radius']:.1f} {units.length_label} "
-                    f"(table rounds to {rec['min_radius_rounded']:g} {units.length_label})",
+                    f"table rounds to {shown('min_radius', rec['min_radius'], table=t)} "
+                    f"{units.length_label} ({rec['min_radius']:g} {units.length_label} "
+                    "computed)",
                 ),
             ]
         return rows
     lim = ctx.limits
     rows = [("Rail limits", f"{lim.title} [{lim.name}]"), ("Source", lim.source)]
     if rec:
-        cl = units.cant_label
+        cl, u = units.cant_label, units.name
         excess = rec.get("excess_limit")
         rows += [
-            ("Cant limit", f"{rec['cant_limit']:g} {cl}"),
-            ("Cant deficiency limit", f"{rec['deficiency_limit']:g} {cl}"),
-            ("Cant excess limit", "none set" if excess is None else f"{excess:g} {cl}"),
+            ("Cant limit", f"{shown('cant_limit', rec['cant_limit'], u)} {cl}"),
+            (
+                "Cant deficiency limit",
+                f"{shown('deficiency_limit', rec['deficiency_limit'], u)} {cl}",
+            ),
+            (
+                "Cant excess limit",
+                "none set" if excess is None else f"{shown('excess_limit', excess, u)} {cl}",
+            ),
             ("Distance between rail centres s", f"{rec['rail_centres']:g} {cl}"),
         ]
     return rows

@@ -13,7 +13,8 @@ FIELD_NAMES = {f.key: f.label for f in FIELDS}
 # The kind of unit of each input: a kind of curvetui.results.unit_label, or "deg" and
 # "station" (printed as the project's station text).
 UNIT_KIND = {
-    f.key: {"degrees": "deg", "percent": "%", "factor": ""}.get(f.unit, f.unit) for f in FIELDS
+    f.key: {"degrees": "deg", "percent": "%", "factor": "", "choice": ""}.get(f.unit, f.unit)
+    for f in FIELDS
 }
 
 # What the check uses for an input left blank.

@@ -56,9 +56,10 @@ def pdf_summary(pdf, s: SheetSet) -> None:
     pdf.multi_cell(
         0,
         3.8,
-        "Each following page is one bend's worksheet: its inputs, the standard in use, the "
-        "working line by line (formula, values substituted, answer, source and check) for "
-        "checking by hand, its messages and a plan sketch.",
+        "Each bend's worksheet follows on a new page (a long working runs on to the next): "
+        "its inputs, the standard in use, the working line by line (formula, values "
+        "substituted, answer, source and check) for checking by hand, its messages and a "
+        "plan sketch.",
         new_x="LMARGIN",
         new_y="NEXT",
     )

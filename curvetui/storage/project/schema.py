@@ -32,6 +32,8 @@ def _bounds(f: Field) -> tuple[float, float] | None:
 
 
 def _property(f: Field) -> dict:
+    if f.choices:  # one of the field's words, any case (checked when the bend is evaluated)
+        return {"type": ["string", "null"], "description": f.help}
     required_always = set(f.required) == {"road", "rail"}
     types = ["number"] if required_always else ["number", "null"]
     if f.unit == STATION:
