@@ -13,6 +13,7 @@ from curvetui.app.session import Session
 from curvetui.stations import format_station
 
 STATUS_STYLE = {"pass": "bold green", "fail": "bold red", "error": "bold magenta", "pending": "dim"}
+COLUMNS = ("Bend", "Check", "V", "R", "Kind", "Station")
 STATUS_WORD = {"pass": "pass", "fail": "FAIL", "error": "ERROR", "pending": "..."}
 
 
@@ -29,7 +30,7 @@ class BendList(DataTable):
     def on_mount(self) -> None:
         self.cursor_type = "row"
         self.zebra_stripes = True
-        self.add_columns("Bend", "Check", "V", "R", "Kind", "Station")
+        self.add_columns(*COLUMNS)
         self._bends: list[int] = []  # id() of the bends shown, in order
         self._rows: list[tuple] = []
 
@@ -42,7 +43,8 @@ class BendList(DataTable):
         order = [id(b) for b in bends]
         with self.prevent(DataTable.RowHighlighted):
             if order != self._bends:
-                self.clear()
+                self.clear(columns=True)  # the widths start again from these values
+                self.add_columns(*COLUMNS)
                 for cells in rows:
                     self.add_row(*cells)
             else:

@@ -11,6 +11,8 @@ from __future__ import annotations
 from textual.binding import Binding
 from textual.widgets import Input
 
+from curvetui.app.plain import visible
+
 UNDO_DEPTH = 200  # values kept per field
 
 
@@ -38,6 +40,11 @@ class FieldInput(Input):
     def on_focus(self) -> None:
         if not self.select_on_focus:
             self.cursor_position = len(self.value)  # typing adds to the text
+
+    def validate_value(self, value: str) -> str:
+        """What is typed or pasted is text: a control character (ESC, BEL) shows as U+FFFD
+        and is never sent to the terminal."""
+        return visible(value)
 
     def watch_value(self, old: str, new: str) -> None:
         if not self._undoing and old != new:

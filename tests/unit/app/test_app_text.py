@@ -109,3 +109,19 @@ def test_details_applied_unchanged_keep_the_stored_text(hostile_path):
         assert not app.session.dirty
 
     drive(hostile_path, steps)
+
+
+def test_a_typed_value_quoted_in_a_message_is_shown_as_text_in_every_view(hostile_path):
+    async def steps(app, pilot):
+        await go_to(app, pilot, "QV-04")
+        app.query_one("#in-deflection", Input).value = "9\x1b[31m[/]"
+        await pilot.pause()
+        assert "deflection" in (app.session.state(app.current).error or "")
+        for view in ("sheet", "working", "plan", "chart"):
+            app.query_one("#views").active = view
+            await pilot.pause()
+            await pilot.pause()
+            assert no_control_codes(screen_text(app)), view
+        assert app.is_running
+
+    drive(hostile_path, steps)
