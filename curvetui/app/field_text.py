@@ -1,10 +1,11 @@
 """The text of a form field and back (no Textual): what the worksheet shows for a stored
-value, and the value stored for what is typed. A station is shown and may be typed as
-2+710.5 (metric: km + m) or 27+10.50 (US: 100 ft stations)."""
+value, the value stored for what is typed, and the fields named as the form names them.
+A station is shown and may be typed as 2+710.5 (metric: km + m) or 27+10.50 (US: 100 ft
+stations)."""
 
 from __future__ import annotations
 
-from curvetui.bend.fields import BY_KEY, STATION
+from curvetui.bend.fields import BY_KEY, FIELDS, STATION, cli_name
 from curvetui.stations import format_station, parse_station
 from curvetui.storage.project.model import Bend
 
@@ -63,3 +64,29 @@ def field_text(bend: Bend, key: str, units: str) -> str:
     if field is not None and field.unit == STATION:
         return station_text(value, units)
     return f"{value:.10g}"
+
+
+def field_label(key: str) -> str:
+    """A field's name as shown in the app's form (its short label in the field list)."""
+    field = BY_KEY.get(key)
+    return field.short_label if field else key.replace("_", " ")
+
+
+def labelled(message: str) -> str:
+    """An engine message with each field named as the form names it ('low_speed: ...' ->
+    'slow train speed: ...')."""
+    parts = []
+    for part in message.split("; "):
+        head, sep, rest = part.partition(":")
+        parts.append(f"{field_label(head)}{sep}{rest}" if sep and head in BY_KEY else part)
+    return "; ".join(parts)
+
+
+def field_of(message: str) -> str | None:
+    """The input named at the start of an engine message ('speed: ...', '--speed: ...' or
+    its label in the form)."""
+    head = message.split(":", 1)[0].strip()
+    for key in (f.key for f in FIELDS):
+        if head in (key, cli_name(key), field_label(key)) or head.endswith("." + key):
+            return key
+    return None

@@ -12,16 +12,21 @@ from collections.abc import Callable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from curvetui.app.field_text import field_text, input_value, same_value
-from curvetui.app.storable import file_problems, readable_problems
+from curvetui.app.field_text import (
+    field_of,
+    field_text,
+    input_value,
+    labelled,
+    same_value,
+)
+from curvetui.app.storable import file_problems, readable_problems, same_results
 from curvetui.app.units_change import UnitChange, apply_change
-from curvetui.bend.fields import BY_KEY, FIELDS, STATION, cli_name
+from curvetui.bend.fields import BY_KEY, STATION
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
 from curvetui.stations import parse_station
 from curvetui.storage.project.checking import (
     Context,
-    differences,
     evaluate,
     project_context,
     refresh_results,
@@ -34,12 +39,6 @@ from curvetui.storage.project.model import Bend, Details, Project
 FORM_FIELDS = ("bend_id", "station", "notes")
 ID_RULE = "bend id: must be 1 to 40 characters and not used by another bend"
 STATION_RULE = "station: must be a station such as 2+710.5 or a number"
-
-
-def field_label(key: str) -> str:
-    """A field's name as shown in the app's form (its short label in the field list)."""
-    field = BY_KEY.get(key)
-    return field.short_label if field else key.replace("_", " ")
 
 
 @dataclass
@@ -58,7 +57,7 @@ class BendState:
         """Every field the engine's message names ('speed: required; radius: required')."""
         if not self.error:
             return set()
-        return {k for k in map(_field_of, self.error.split("; ")) if k is not None}
+        return {k for k in map(field_of, self.error.split("; ")) if k is not None}
 
     def field_errors(self) -> dict[str, str]:
         """Every field marked on the form, with the first reason for each."""
@@ -161,8 +160,8 @@ class Session:
                 return st
         outcome = evaluate(bend, index, ctx)
         if outcome.record is None:
-            st.error = _labelled((outcome.error or "").replace(f"$.bends[{index}].inputs.", ""))
-            st.error_field = _field_of(st.error)
+            st.error = labelled((outcome.error or "").replace(f"$.bends[{index}].inputs.", ""))
+            st.error_field = field_of(st.error)
         else:
             st.record, st.error, st.error_field = outcome.record, None, None
         return st
@@ -368,7 +367,7 @@ class Session:
         kept = [b.results for b in self.project.bends]
         refresh_results(self.project, outcomes)
         for b, stored in zip(self.project.bends, kept, strict=True):
-            if _same_results(stored, b.results):
+            if same_results(stored, b.results):
                 b.results = stored  # the same results: written as they were read
         try:
             save_project(self.project, target)
@@ -402,31 +401,3 @@ class _Outcome:
 
     bend: Bend
     record: dict | None
-
-
-def _same_results(stored: dict | None, fresh: dict | None) -> bool:
-    """Stored results that say what fresh ones say (to 1e-6, as the check on opening
-    compares them; a key newer than the file that is null in the fresh ones is no change)."""
-    if stored is None or fresh is None:
-        return False
-    return stored.get("messages") == fresh.get("messages") and not differences(stored, fresh)
-
-
-def _labelled(message: str) -> str:
-    """An engine message with each field named as the form names it ('low_speed: ...' ->
-    'slow train speed: ...')."""
-    parts = []
-    for part in message.split("; "):
-        head, sep, rest = part.partition(":")
-        parts.append(f"{field_label(head)}{sep}{rest}" if sep and head in BY_KEY else part)
-    return "; ".join(parts)
-
-
-def _field_of(message: str) -> str | None:
-    """The input named at the start of an engine message ('speed: ...', '--speed: ...' or
-    its label in the form)."""
-    head = message.split(":", 1)[0].strip()
-    for key in (f.key for f in FIELDS):
-        if head in (key, cli_name(key), field_label(key)) or head.endswith("." + key):
-            return key
-    return None

@@ -11,6 +11,8 @@ from __future__ import annotations
 import re
 from functools import cache
 
+from curvetui.app.field_text import field_label
+from curvetui.storage.project.checking import differences
 from curvetui.storage.project.files import _describe, project_schema
 from curvetui.storage.project.model import Bend
 
@@ -25,12 +27,6 @@ def _bend_validator():
 
     schema = project_schema()
     return Draft202012Validator({"$defs": schema["$defs"], "$ref": "#/$defs/bend"})
-
-
-def field_label(key: str) -> str:
-    from curvetui.app.session import field_label as label
-
-    return label(key)
 
 
 def file_problems(bend: Bend) -> dict[str, str]:
@@ -82,3 +78,11 @@ def readable_problems(problems: list[str], bends: list[Bend]) -> list[str]:
         _, text = _field_and_text("$" + problem[m.end(1) + 1 :])
         out.append(f"bend {name}, {text}")
     return out
+
+
+def same_results(stored: dict | None, fresh: dict | None) -> bool:
+    """Stored results that say what fresh ones say (to 1e-6, as the check on opening
+    compares them; a key newer than the file that is null in the fresh ones is no change)."""
+    if stored is None or fresh is None:
+        return False
+    return stored.get("messages") == fresh.get("messages") and not differences(stored, fresh)

@@ -14,8 +14,9 @@ from textual.app import ComposeResult
 from textual.containers import Horizontal, VerticalScroll
 from textual.widgets import Input, Label, Select, Static
 
+from curvetui.app.field_text import field_label
 from curvetui.app.plain import plain_text, visible
-from curvetui.app.session import FORM_FIELDS, Session, field_label
+from curvetui.app.session import FORM_FIELDS, Session
 from curvetui.app.widgets.field_input import FieldInput
 from curvetui.bend.display import shown
 from curvetui.bend.fields import FIELDS, input_keys
