@@ -9,13 +9,15 @@ from __future__ import annotations
 from collections.abc import Iterable
 from pathlib import Path
 
-from textual.app import App, SystemCommand
+from textual.app import SystemCommand
 from textual.binding import Binding
 from textual.screen import Screen
 
 from curvetui.app.crash import StopsCleanly
 from curvetui.app.dialogs.confirm import Confirm
-from curvetui.app.dialogs.details import DetailsDialog
+from curvetui.app.dialogs.details import DetailsDialog, edit_details
+from curvetui.app.key_order import KeyOrder
+from curvetui.app.plain import visible
 from curvetui.app.project_screen import ProjectScreen
 from curvetui.app.session import Session
 from curvetui.inputs import InputError
@@ -23,7 +25,7 @@ from curvetui.storage.project.files import ProjectError
 from curvetui.storage.project.model import Bend
 
 
-class CurveApp(StopsCleanly, App):
+class CurveApp(StopsCleanly, KeyOrder):
     """Work through an alignment bend by bend. An unexpected error ends it with a recovery
     copy of the unsaved changes (curvetui.app.crash)."""
 
@@ -50,6 +52,12 @@ class CurveApp(StopsCleanly, App):
         self.session = session
         self.last_recompute_ms = 0.0  # the last edit's handling, engine and redraw (ms)
         self.project_screen = ProjectScreen(session)
+
+    def notify(self, message: str, *, title: str = "", markup: bool = False, **kwargs) -> None:
+        """A note on screen; its text (ids, file names, values typed) is never markup."""
+        super().notify(
+            visible(message, one_line=False), title=visible(title), markup=markup, **kwargs
+        )
 
     def get_default_screen(self) -> Screen:
         return self.project_screen
@@ -117,24 +125,13 @@ class CurveApp(StopsCleanly, App):
             self.session.move_bend(self.current, step)
 
     def action_details(self) -> None:
-        from curvetui.storage.tables import rail_limit_sets, road_tables
-
-        def done(result: dict | None) -> None:
-            if result:
-                for problem in self.session.set_details(result):
-                    self.notify(problem, severity="error")
-
-        self.push_screen(
-            DetailsDialog(
-                self.session.project.details, sorted(road_tables()), sorted(rail_limit_sets())
-            ),
-            done,
-        )
+        edit_details(self)
 
     def action_save(self) -> None:
         if isinstance(self.screen, DetailsDialog):
             self.screen.action_apply()  # ctrl+s in the dialog applies it, as it says
             return
+        self.project_screen.take_typed()
         try:
             path = self.session.save()
         except ProjectError as exc:
@@ -150,7 +147,29 @@ class CurveApp(StopsCleanly, App):
         self.notify(f"Saved {path} (previous version kept as {path.name}.bak).")
 
     def action_print_sheet(self) -> None:
-        """Write the worksheets of the project next to its file (see curvetui.reports.sheet)."""
+        """Write the worksheets of the project next to its file (see curvetui.reports.sheet);
+        unsaved work is saved first, when the user says so, never printed as the saved one."""
+        self.project_screen.take_typed()
+        if self.session.dirty:
+
+            def done(answer: str | None) -> None:
+                if answer == "save":
+                    self.action_save()
+                    if not self.session.dirty:
+                        self._print_sheet()
+
+            self.push_screen(
+                Confirm(
+                    "There are unsaved changes: a worksheet printed now would show work that "
+                    "is not in the saved file. Save first?",
+                    [("cancel", "Go back"), ("save", "Save, then print")],
+                ),
+                done,
+            )
+            return
+        self._print_sheet()
+
+    def _print_sheet(self) -> None:
         try:
             from curvetui.reports.sheet import write_sheets
         except ImportError:
@@ -164,6 +183,7 @@ class CurveApp(StopsCleanly, App):
         self.notify(f"Worksheet written: {out}", timeout=10)
 
     def action_request_quit(self) -> None:
+        self.project_screen.take_typed()
         if not self.session.dirty:
             self.exit()
             return

@@ -6,7 +6,6 @@ The file is checked in a thread worker (curvetui.app.batch_check) after the firs
 
 from __future__ import annotations
 
-from rich.markup import escape
 from rich.text import Text
 from textual import on, work
 from textual.app import ComposeResult
@@ -27,6 +26,7 @@ from curvetui.app.batch_results import (
     table_columns,
     visible,
 )
+from curvetui.app.plain import markup_safe, plain_text
 from curvetui.app.row_screen import RowScreen, status_word
 from curvetui.app.widgets.batch_table import ResultTable
 from curvetui.app.widgets.frame import caution_line
@@ -38,8 +38,8 @@ FILTER_PAUSE = 0.25  # seconds after the last key in the filter box
 
 def topbar_text(source: BatchSource) -> str:
     return (
-        f"[b]{escape(source.path.name)}[/] | {source.units.name} | "
-        f"road table {escape(source.table.name)} | rail limits {escape(source.limits.name)}"
+        f"[b]{markup_safe(source.path.name)}[/] | {source.units.name} | road table "
+        f"{markup_safe(source.table.name)} | rail limits {markup_safe(source.limits.name)}"
     )
 
 
@@ -86,7 +86,7 @@ class BatchScreen(Screen):
 
     def compose(self) -> ComposeResult:
         yield Static(topbar_text(self.source), id="topbar")
-        yield Static(escape(self.progress_text), id="counts")
+        yield Static(markup_safe(self.progress_text), id="counts")
         with Horizontal(id="filter-row"):
             yield Label("Filter (/)")
             yield Input(
@@ -120,7 +120,7 @@ class BatchScreen(Screen):
             return
         pct = f" {100 * done / total:.0f} %" if total else ""
         self.query_one("#counts", Static).update(
-            escape(f"Checking {self.source.path.name}…{pct} ({rows:,} rows)")
+            markup_safe(f"Checking {self.source.path.name}…{pct} ({rows:,} rows)")
         )
 
     def show_problem(self, message: str) -> None:
@@ -128,7 +128,7 @@ class BatchScreen(Screen):
         counts = self.query_one("#counts", Static)
         counts.add_class("-problem")
         counts.update(
-            escape(f"Cannot use {self.source.path.name}: {message}")
+            markup_safe(f"Cannot use {self.source.path.name}: {message}")
             + "\nNo results are shown: fix the file and open it again."
         )
         self.query_one("#row-detail", Static).update("")
@@ -207,7 +207,7 @@ class BatchScreen(Screen):
             label = next(c.label for c in self.columns if c.key == self.sort_key)
             order = f"{label} {'descending' if self.reverse else 'ascending'}"
         self.query_one("#scope", Static).update(
-            escape(f"showing {ONLY_WORDS[self.only]} | order: {order}")
+            markup_safe(f"showing {ONLY_WORDS[self.only]} | order: {order}")
         )
 
     def update_detail(self) -> None:
@@ -217,7 +217,7 @@ class BatchScreen(Screen):
             detail.update(Text("No rows match the filter." if self.held and self.held.rows else ""))
             return
         text = Text()
-        text.append(f"row {r.row} {r.ident} {r.kind} ", style="bold")
+        text.append(plain_text(f"row {r.row} {r.ident} {r.kind} ", "bold"))
         word = status_word(r.status)
         text.append(
             f" {word} ",
@@ -228,7 +228,7 @@ class BatchScreen(Screen):
             text.append("  no messages")
         for severity, m in msgs[:DETAIL_MESSAGES]:
             style = {"fail": "red", "error": "magenta"}.get(severity, "")
-            text.append("\n" + m, style=style)
+            text.append(plain_text("\n" + m, style, one_line=False))
         if len(msgs) > DETAIL_MESSAGES:
             text.append(
                 f"\n… {len(msgs) - DETAIL_MESSAGES} more: Enter opens the worksheet",

@@ -138,8 +138,20 @@ class ProjectScreen(Screen):
     def next_view(self) -> None:
         next_view(self.query_one("#views", TabbedContent))
 
+    def take_typed(self) -> None:
+        """What the focused field shows, taken now: its change may still be on its way
+        (ctrl+s, ctrl+q and F5 act at once, before the queued changes are handled)."""
+        box, bend = self.focused, self.session.current
+        if not isinstance(box, Input) or not (box.id or "").startswith("in-"):
+            return
+        if bend is None or bend is not self._sheet_bend():
+            return
+        key = box.id.removeprefix("in-")
+        if box.value != self.session.field_text(bend, key):
+            self.session.edit_field(bend, key, box.value)
+
     def focus_list(self) -> None:
-        self.query_one(BendList).focus()
+        self.set_focus(self.query_one(BendList))  # now: the next key typed goes to the list
 
     @on(TabbedContent.TabActivated, "#views")
     async def view_changed(self, event: TabbedContent.TabActivated) -> None:
@@ -157,17 +169,33 @@ class ProjectScreen(Screen):
 
     @on(DataTable.RowSelected, "#bends")
     def bend_selected(self, event: DataTable.RowSelected) -> None:
+        self.action_open_bend()
+
+    def action_open_bend(self) -> None:
+        """The bend under the list's cursor on the worksheet, its speed focused."""
+        bends = self.session.project.bends
+        row = self.query_one(BendList).cursor_row
+        if 0 <= row < len(bends):
+            self.session.select(bends[row])
         self.show_view("sheet")
         if self.query("#in-speed"):
-            self.query_one("#in-speed", Input).focus()
+            self.set_focus(self.query_one("#in-speed", Input))  # now, not after the queue
         else:  # Enter before the worksheet is built: the field is focused once it is
             self._focus_when_built = "#in-speed"
+
+    def _sheet_bend(self):
+        """The bend the worksheet shows; None before the worksheet is built."""
+        for sheet in self.query("#worksheet"):
+            return sheet.bend
+        return None
 
     @on(Input.Changed)
     def input_changed(self, event: Input.Changed) -> None:
         bend = self.session.current
-        if bend is None or not event.input.id:
+        if bend is None or not event.input.id or bend is not self._sheet_bend():
             return
+        if event.value != event.input.value:
+            return  # a later change of the box is on its way: only the last one counts
         key = event.input.id.removeprefix("in-")
         if event.value == self.session.field_text(bend, key):
             return  # the echo of the worksheet filling the box, not an edit
@@ -177,6 +205,11 @@ class ProjectScreen(Screen):
 
     @on(Select.Changed, "#kind")
     def kind_changed(self, event: Select.Changed) -> None:
+        """The kind chosen. A change the box no longer shows is not the user's: the box
+        announces its first value when mounted, after the worksheet has put the bend's kind
+        in it (a project whose first bend is rail was opened as road)."""
         bend = self.session.current
+        if event.value != event.select.value or bend is not self._sheet_bend():
+            return
         if bend is not None and event.value != bend.kind:
             self.session.switch_kind(bend, str(event.value))

@@ -3,7 +3,6 @@ in the same tabs as a project's bend, or the row's messages when it cannot be ch
 
 from __future__ import annotations
 
-from rich.markup import escape
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -12,6 +11,7 @@ from textual.screen import Screen
 from textual.widgets import Footer, Static, TabbedContent
 
 from curvetui.app.batch_results import BatchSource, ResultRow, RowSheet, evaluate_row
+from curvetui.app.plain import markup_safe, visible
 from curvetui.app.widgets.bend_list import STATUS_WORD
 from curvetui.app.widgets.bend_views import bend_views, next_view
 from curvetui.app.widgets.frame import caution_line
@@ -49,9 +49,9 @@ class RowScreen(Screen):
     def compose(self) -> ComposeResult:
         r, s = self.row, self.source
         yield Static(
-            f"[b]row {r.row}[/] {escape(r.ident)} | {escape(r.kind or '?')} | batch: "
-            f"[b]{status_word(r.status)}[/] | {escape(s.path.name)} | {s.units.name} | "
-            f"road table {escape(s.table.name)} | rail limits {escape(s.limits.name)}",
+            f"[b]row {r.row}[/] {markup_safe(r.ident)} | {markup_safe(r.kind or '?')} | batch: "
+            f"[b]{status_word(r.status)}[/] | {markup_safe(s.path.name)} | {s.units.name} | "
+            f"road table {markup_safe(s.table.name)} | rail limits {markup_safe(s.limits.name)}",
             id="topbar",
         )
         yield Static(self._note(), id="sheet-note")
@@ -91,7 +91,7 @@ class RowScreen(Screen):
             )
             messages = [self.sheet.error or ""]
         for m in messages:
-            text.append(f"- {m}\n", style="bold")
+            text.append(f"- {visible(m, one_line=False)}\n", style="bold")
         text.append("\nCells as read:\n", style="bold")
         for key, value in r.cells.items():
             text.append(f"  {self.source.column_name(key)}: {value!r}\n")

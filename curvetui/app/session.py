@@ -13,11 +13,20 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from curvetui.bend.fields import BY_KEY, FIELDS, cli_name
+from curvetui.app.field_text import (
+    field_of,
+    field_text,
+    input_value,
+    labelled,
+    same_value,
+)
+from curvetui.app.storable import file_problems, readable_problems, same_results
+from curvetui.app.units_change import UnitChange, apply_change
+from curvetui.bend.fields import BY_KEY, STATION
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
-from curvetui.stations import format_station, parse_station
-from curvetui.storage.project.files import load_project, save_project
+from curvetui.stations import parse_station
+from curvetui.storage.project.files import ProjectError, load_project, save_project
 from curvetui.storage.project.model import Bend, Details, Project
 
 if TYPE_CHECKING:
@@ -33,12 +42,6 @@ ID_RULE = "bend id: must be 1 to 40 characters and not used by another bend"
 STATION_RULE = "station: must be a station such as 2+710.5 or a number"
 
 
-def field_label(key: str) -> str:
-    """A field's name as shown in the app's form (its short label in the field list)."""
-    field = BY_KEY.get(key)
-    return field.short_label if field else key.replace("_", " ")
-
-
 @dataclass
 class BendState:
     """What the app knows of one bend: its last good record and the current error, if any."""
@@ -48,6 +51,22 @@ class BendState:
     error_field: str | None = None
     # bend id or station typed but not taken (the bend keeps the old one): field -> why
     form_errors: dict[str, str] = field(default_factory=dict)
+    # fields the project file cannot store as they are: field -> why (see app.storable)
+    file_errors: dict[str, str] = field(default_factory=dict)
+
+    def engine_fields(self) -> set[str]:
+        """Every field the engine's message names ('speed: required; radius: required')."""
+        if not self.error:
+            return set()
+        return {k for k in map(field_of, self.error.split("; ")) if k is not None}
+
+    def field_errors(self) -> dict[str, str]:
+        """Every field marked on the form, with the first reason for each."""
+        out = dict(self.form_errors)
+        for key, why in self.file_errors.items():
+            if key not in self.engine_fields():  # the engine's message already names it
+                out.setdefault(key, why)
+        return out
 
 
 @dataclass(frozen=True)
@@ -146,6 +165,7 @@ class Session:
         """Evaluate a bend; on bad input keep the last good record and note the error."""
         st = self.state(bend)
         index = self.project.bends.index(bend)
+        st.file_errors = file_problems(bend)
         if ctx is None:
             try:
                 ctx = self.context
@@ -156,8 +176,8 @@ class Session:
 
         outcome = evaluate(bend, index, ctx)
         if outcome.record is None:
-            st.error = (outcome.error or "").replace(f"$.bends[{index}].inputs.", "")
-            st.error_field = _field_of(st.error)
+            st.error = labelled((outcome.error or "").replace(f"$.bends[{index}].inputs.", ""))
+            st.error_field = field_of(st.error)
         else:
             st.record, st.error, st.error_field = outcome.record, None, None
         return st
@@ -184,14 +204,19 @@ class Session:
 
     # -- edits --------------------------------------------------------------------------
     def set_input(self, bend: Bend, key: str, text: str) -> BendState:
-        """Set one input from typed text ('' clears it) and recompute."""
-        value = input_value(text)
+        """Set one input from typed text ('' clears it; a station may be written 2+710.5)
+        and recompute. A value equal to the stored one leaves it as stored (100 stays 100,
+        not 100.0) and changes nothing."""
+        field = BY_KEY.get(key)
+        value = input_value(text, self.units.name if field and field.unit == STATION else None)
+        old = bend.inputs.get(key)
         if value is None:
-            bend.inputs.pop(key, None)
-        else:
+            if bend.inputs.pop(key, None) is not None:
+                self.dirty = True
+        elif not same_value(old, value):
             bend.inputs[key] = value  # text that is no number is kept as typed: the
             # engine's message then names the field
-        self.dirty = True
+            self.dirty = True
         st = self.recompute(bend)
         self._changed("field", bend, key)
         return st
@@ -215,8 +240,9 @@ class Session:
             st.form_errors["bend_id"] = ID_RULE
         else:
             st.form_errors.pop("bend_id", None)
-            bend.id = new_id
-            self.dirty = True
+            if new_id != bend.id:
+                bend.id = new_id
+                self.dirty = True
         self._changed("field", bend, "bend_id")
         return st
 
@@ -224,45 +250,44 @@ class Session:
         """The PI station from text such as 2+710.5 (blank: 0); refused: the old one stays."""
         st = self.state(bend)
         try:
-            bend.station = parse_station(text or "0", self.units.name)
+            station = parse_station(text or "0", self.units.name)
         except ValueError:
             st.form_errors["station"] = STATION_RULE
         else:
             st.form_errors.pop("station", None)
-            self.dirty = True
+            if station != bend.station:
+                bend.station = station
+                self.dirty = True
         self._changed("field", bend, "station")
         return st
 
     def set_notes(self, bend: Bend, text: str) -> BendState:
-        bend.notes = text
-        self.dirty = True
+        if text != bend.notes:
+            bend.notes = text
+            self.dirty = True
         self._changed("field", bend, "notes")
         return self.state(bend)
 
     def set_kind(self, bend: Bend, kind: str) -> BendState:
         if kind not in ("road", "rail"):
             raise InputError(f"kind: must be 'road' or 'rail', got {kind!r}")
-        bend.kind = kind
-        self.dirty = True
+        if kind != bend.kind:
+            bend.kind = kind
+            self.dirty = True
         st = self.recompute(bend)
         self._changed("kind", bend)
         return st
 
     def switch_kind(self, bend: Bend, kind: str) -> BendState:
-        """``set_kind`` as the worksheet's kind box does it: a rail curve without a cant
-        starts with cant 0 (shown in its field, ready to be typed over)."""
-        if kind == "rail" and bend.kind != "rail" and "cant" not in bend.inputs:
-            bend.inputs["cant"] = 0.0
+        """``set_kind`` as the worksheet's kind box does it. Nothing is made up: a rail
+        curve without a cant waits for one (its field is marked as required)."""
         return self.set_kind(bend, kind)
 
     def add_bend(self, kind: str = "road", after: Bend | None = None) -> Bend:
-        """A new bend after ``after`` (default: at the end), put on screen."""
-        inputs = (
-            {"speed": 80.0, "radius": 400.0}
-            if kind == "road"
-            else {"speed": 100.0, "radius": 1000.0, "cant": 60.0}
-        )
-        bend = Bend(self.project.new_bend_id(), kind, inputs)
+        """A new bend after ``after`` (default: at the end), put on screen. It starts with no
+        inputs: nothing is made up, and it shows no result until its required fields are
+        typed (the station is the one of the bend before it)."""
+        bend = Bend(self.project.new_bend_id(), kind, {})
         pos = len(self.project.bends) if after is None else self.project.bends.index(after) + 1
         if after is not None:
             bend.station = after.station
@@ -319,20 +344,31 @@ class Session:
         """Project details (as the details dialog gives them), every bend recomputed once;
         returns the messages of the values refused (the others are taken)."""
         problems = []
+        d = self.project.details
         for key, value in values.items():
             if key == "units" and value not in ("metric", "us"):
                 problems.append("units: must be 'metric' or 'us'")
                 continue
-            setattr(
-                self.project.details,
-                key,
-                value or (None if key in ("road_table", "rail_limits") else ""),
-            )
-        self.dirty = True
+            if key == "units" and value != d.units and self.project.bends:
+                problems.append("units: the bends' values must be converted (change_units)")
+                continue
+            value = value or (None if key in ("road_table", "rail_limits") else "")
+            if getattr(d, key) != value:
+                setattr(d, key, value)
+                self.dirty = True
         self.recompute_all()
         self._clear_form_errors()
         self._changed("details")
         return problems
+
+    def change_units(self, change: UnitChange) -> None:
+        """Convert every bend's values to ``change.new`` units and switch the tables as
+        ``change`` says (curvetui.app.units_change); every bend is recomputed."""
+        apply_change(self.project, change)
+        self.dirty = True
+        self.recompute_all()
+        self._clear_form_errors()
+        self._changed("details")
 
     # -- files --------------------------------------------------------------------------
     def save(self, path: str | Path | None = None) -> Path:
@@ -346,8 +382,20 @@ class Session:
         ]
         from curvetui.storage.project.checking import refresh_results
 
+        kept = [b.results for b in self.project.bends]
         refresh_results(self.project, outcomes)
-        save_project(self.project, target)
+        for b, stored in zip(self.project.bends, kept, strict=True):
+            if same_results(stored, b.results):
+                b.results = stored  # the same results: written as they were read
+        try:
+            save_project(self.project, target)
+        except BaseException as exc:  # nothing written: the bends keep what they had
+            for b, results in zip(self.project.bends, kept, strict=True):
+                b.results = results
+            if isinstance(exc, ProjectError):
+                problems = readable_problems(exc.problems, self.project.bends)
+                raise ProjectError(exc.path, problems) from None
+            raise
         self.path, self.dirty = target, False
         self._changed("saved")
         return target
@@ -362,27 +410,7 @@ class Session:
 
     def field_text(self, bend: Bend, key: str) -> str:
         """The text the worksheet shows for a field of the model."""
-        if key == "bend_id":
-            return bend.id
-        if key == "station":
-            return format_station(bend.station, self.units.name)
-        if key == "notes":
-            return bend.notes
-        value = bend.inputs.get(key)
-        if value is None:
-            return ""
-        return f"{value:g}" if isinstance(value, int | float) else str(value)
-
-
-def input_value(text: str) -> float | str | None:
-    """An input as ``set_input`` stores it: None when blank, a number, or the text itself."""
-    text = text.strip()
-    if text == "":
-        return None
-    try:
-        return float(text)
-    except ValueError:
-        return text
+        return field_text(bend, key, self.units.name)
 
 
 @dataclass
@@ -391,12 +419,3 @@ class _Outcome:
 
     bend: Bend
     record: dict | None
-
-
-def _field_of(message: str) -> str | None:
-    """The input named at the start of an engine message ('speed: ...' or '--speed: ...')."""
-    head = message.split(":", 1)[0].strip()
-    for key in (f.key for f in FIELDS):
-        if head in (key, cli_name(key)) or head.endswith("." + key):
-            return key
-    return None

@@ -15,6 +15,7 @@ from textual.widgets import DataTable
 from textual.widgets.data_table import RowDoesNotExist
 
 from curvetui.app.batch_results import Column, ResultRow
+from curvetui.app.plain import visible
 from curvetui.app.widgets.bend_list import STATUS_STYLE, STATUS_WORD
 
 REASON_WIDTH = 60
@@ -26,7 +27,7 @@ class Cell:
     __slots__ = ("style", "text")
 
     def __init__(self, text: str, style: str = ""):
-        self.text = text
+        self.text = visible(text)  # a cell is text: control characters shown, never sent
         self.style = style
 
     def __rich_console__(self, console, options):

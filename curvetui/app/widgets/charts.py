@@ -16,6 +16,7 @@ from rich.text import Text
 from textual.widget import Widget
 
 from curvetui.app.canvas import BrailleCanvas, log_ticks, nice_ticks, short_number
+from curvetui.app.plain import visible
 from curvetui.app.session import Session
 from curvetui.core.rail import FAIL_EXCESS
 from curvetui.core.units import METRIC, UnitSystem
@@ -42,6 +43,7 @@ F_PATTERN = (3, 1)
 
 def _message(width: int, height: int, message: str) -> Text:
     canvas = BrailleCanvas(width, height)
+    message = visible(message)  # it may quote what was typed
     canvas.text_cell(width // 2, height // 2, message[:width], "italic", "center", clamp=True)
     return canvas.render()
 

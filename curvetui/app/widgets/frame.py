@@ -3,11 +3,11 @@ local road or rail authority standards govern; a qualified engineer checks the r
 
 from __future__ import annotations
 
-from rich.markup import escape
 from rich.text import Text
 from textual.widgets import Static
 
 from curvetui import CAUTION
+from curvetui.app.plain import markup_safe
 from curvetui.app.session import Session
 from curvetui.inputs import InputError
 
@@ -18,7 +18,8 @@ def caution_line() -> Static:
 
 
 class ProjectBar(Static):
-    """The project's name, job number, file, units and tables; 'unsaved' while it is."""
+    """The word 'unsaved' while it is (first: a narrow terminal never cuts it off), then
+    the project's name, job number, file, units and tables."""
 
     def show_session(self, session: Session, with_tables: bool = True) -> None:
         """The bar of ``session``; with ``with_tables`` False without the tables (the app's
@@ -31,11 +32,11 @@ class ProjectBar(Static):
                 tables = f" | road table {ctx.table.name} | rail limits {ctx.limits.name}"
             except InputError as exc:
                 tables = f" | TABLE PROBLEM: {exc}"
-        mark = " | [b reverse] unsaved [/]" if session.dirty else ""
+        mark = "[b reverse] unsaved [/] " if session.dirty else ""
         name = session.path.name if session.path else "(no file)"
         text = (
-            f"[b]{escape(d.name)}[/] {escape(d.job_number)} | {escape(name)} | {d.units}"
-            f"{escape(tables)}{mark}"
+            f"{mark}[b]{markup_safe(d.name)}[/] {markup_safe(d.job_number)} | "
+            f"{markup_safe(name)} | {markup_safe(d.units)}{markup_safe(tables)}"
         )
         if text != getattr(self, "_text", None):  # every update lays the screen out again
             self._text = text

@@ -13,6 +13,7 @@ from rich.text import Text
 from textual.widget import Widget
 
 from curvetui.app.canvas import BrailleCanvas, nice_step
+from curvetui.app.plain import visible
 from curvetui.app.session import Session
 from curvetui.core.spiral import GeometryError
 from curvetui.core.units import METRIC, UnitSystem
@@ -47,6 +48,7 @@ LEGEND = (
 
 def _message(width: int, height: int, message: str) -> Text:
     canvas = BrailleCanvas(width, height)
+    message = visible(message)  # it may quote what was typed
     lines = [message[i : i + max(width, 1)] for i in range(0, len(message), max(width, 1))]
     top = max((height - len(lines)) // 2, 0)
     for i, line in enumerate(lines):

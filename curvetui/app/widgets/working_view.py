@@ -6,6 +6,7 @@ from rich.table import Table
 from rich.text import Text
 from textual.widgets import Static
 
+from curvetui.app.plain import plain_text
 from curvetui.app.session import Session
 from curvetui.inputs import InputError
 from curvetui.reports.working import Step, rail_working, road_working
@@ -44,11 +45,11 @@ class WorkingView(Static):
         grid.add_column("Check", width=5)
         for s in steps:
             mark = {"pass": Text("ok", style="green"), "fail": Text("FAIL", style="bold red")}
-            grid.add_row(
-                Text(s.label),
-                Text(f"{s.formula}\n{s.substituted}\n", style="")
-                + Text(s.source, style="dim italic"),
-                Text(s.result),
+            grid.add_row(  # table names and sources come from files: shown as text
+                plain_text(s.label),
+                plain_text(f"{s.formula}\n{s.substituted}\n", one_line=False)
+                + plain_text(s.source, "dim italic", one_line=False),
+                plain_text(s.result, one_line=False),
                 mark.get(s.check, Text("")),
             )
         self.update(grid)

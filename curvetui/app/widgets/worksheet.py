@@ -8,14 +8,16 @@ its cells read-only (``fill``, ``read_only``).
 from __future__ import annotations
 
 from rich.console import Group
-from rich.markup import escape
 from rich.table import Table
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.containers import Horizontal, VerticalScroll
 from textual.widgets import Input, Label, Select, Static
 
-from curvetui.app.session import FORM_FIELDS, Session, field_label
+from curvetui.app.field_text import field_label
+from curvetui.app.plain import plain_text, visible
+from curvetui.app.session import FORM_FIELDS, Session
+from curvetui.app.widgets.field_input import FieldInput
 from curvetui.bend.display import shown
 from curvetui.bend.fields import FIELDS, input_keys
 from curvetui.bend.messages import message_line
@@ -48,15 +50,17 @@ class Worksheet(Horizontal):
 
     DEFAULT_CSS = """
     Worksheet { height: 1fr; }
-    Worksheet #form { width: 40; height: 1fr; }
+    Worksheet #form { width: 42; height: 1fr; }
     Worksheet .row { height: 1; }
     Worksheet .row Label { width: 15; padding: 0 1 0 0; }
-    Worksheet .row Input { width: 13; border: none; height: 1; padding: 0 1; }
-    Worksheet .row .unit { width: 10; color: $text-muted; padding: 0 0 0 1; }
-    Worksheet .row Input.-invalid { background: $error 30%; }
+    Worksheet .row FieldInput { width: 1fr; border: none; height: 1; padding: 0 1; }
+    Worksheet .row .unit { width: 5; color: $text-muted; padding: 0 0 0 1; }
+    Worksheet .row FieldInput.-invalid { background: $error 30%; }
+    Worksheet .row.-invalid Label { color: $error; text-style: bold; }
     Worksheet #kind { width: 30; margin: 0 0 1 0; }
     Worksheet #field-error { color: $error; height: auto; }
     Worksheet #results { width: 1fr; height: 1fr; padding: 0 1; }
+    Worksheet #results:focus { background: $boost; border-left: thick $accent; }
     """
 
     def compose(self) -> ComposeResult:
@@ -71,12 +75,13 @@ class Worksheet(Horizontal):
             for key in ("bend_id", "station", "notes"):
                 with Horizontal(classes="row", id=f"row-{key}"):
                     yield Label({"bend_id": "bend id", "station": "station", "notes": "notes"}[key])
-                    yield Input(id=f"in-{key}", compact=True)
+                    # a number (or a station) typed after Tab replaces it; text is kept
+                    yield FieldInput(id=f"in-{key}", compact=True, select_on_focus=key == "station")
                     yield Static("", classes="unit", id=f"unit-{key}")
             for key in ALL_FIELDS:
                 with Horizontal(classes="row", id=f"row-{key}"):
                     yield Label(field_label(key))
-                    yield Input(id=f"in-{key}", compact=True, placeholder="")
+                    yield FieldInput(id=f"in-{key}", compact=True, select_on_focus=True)
                     yield Static("", classes="unit", id=f"unit-{key}")
             yield Static("", id="field-error")
         with VerticalScroll(id="results"):
@@ -92,9 +97,14 @@ class Worksheet(Horizontal):
             self.query_one(f"#row-{key}").display = key in wanted
             unit = field_unit(key, units)
             hint = HINTS.get(key, "")
-            self.query_one(f"#unit-{key}", Static).update(escape(unit))
-            self.query_one(f"#in-{key}", Input).placeholder = hint
-        self.query_one("#unit-station", Static).update(escape(units.length_label))
+            self.query_one(f"#unit-{key}", Static).update(plain_text(unit))
+            self.query_one(f"#in-{key}", FieldInput).placeholder = hint
+        self.query_one("#unit-station", Static).update(plain_text(units.length_label))
+
+    @property
+    def bend(self):
+        """The bend whose fields the form shows (None before the first)."""
+        return getattr(self, "_bend", None)
 
     def show_session(self, session: Session) -> None:
         """The bend on screen: its fields filled from the model when another bend, kind or
@@ -114,11 +124,14 @@ class Worksheet(Horizontal):
             texts = {key: session.field_text(bend, key) for key in FORM_FIELDS + ALL_FIELDS}
             self.fill(bend.kind, units, texts)
         st = session.state(bend)
-        for key in ALL_FIELDS:
-            self.query_one(f"#in-{key}", Input).set_class(st.error_field == key, "-invalid")
-        messages = ([st.error] if st.error else []) + list(st.form_errors.values())
+        marked, named = st.field_errors(), st.engine_fields()
+        for key in FORM_FIELDS + ALL_FIELDS:
+            bad = key in named or key in marked
+            self.query_one(f"#in-{key}", FieldInput).set_class(bad, "-invalid")
+            self.query_one(f"#row-{key}").set_class(bad, "-invalid")
+        messages = ([st.error] if st.error else []) + list(marked.values())
         self.show_field_error("\n".join(messages))
-        self.show_results(st.record, st.error, units, stale=st.error is not None)
+        self.show_results(st.record, "\n".join(messages) or None, units, stale=st.error is not None)
 
     def fill(self, kind: str, units: UnitSystem, texts: dict[str, str]) -> None:
         """Put a bend's kind and field texts (by key; absent: blank) in the form."""
@@ -126,8 +139,8 @@ class Worksheet(Horizontal):
             self.query_one("#kind", Select).value = kind
             self.show_fields(kind, units)
             for key in FORM_FIELDS + ALL_FIELDS:
-                box = self.query_one(f"#in-{key}", Input)
-                box.value = texts.get(key, "")
+                box = self.query_one(f"#in-{key}", FieldInput)
+                box.load(visible(texts.get(key, "")))  # shown as text, control codes too
                 box.remove_class("-invalid")
 
     def read_only(self, hidden: tuple[str, ...] = ()) -> None:
@@ -141,7 +154,7 @@ class Worksheet(Horizontal):
         if message != getattr(self, "_error", ""):
             self._error = message
             self.query_one("#field-error", Static).update(
-                Text(message, style="bold") if message else ""
+                plain_text(message, "bold", one_line=False) if message else ""
             )
 
     def show_results(
@@ -172,8 +185,10 @@ def results_renderable(
 ):
     """The results of a record as a Rich renderable: status first, then values, then reasons."""
     if record is None:
-        return Text(
-            "No result yet: give valid inputs." + (f"\n{error}" if error else ""), style="italic"
+        return plain_text(
+            "No result yet: give valid inputs." + (f"\n{error}" if error else ""),
+            "italic",
+            one_line=False,
         )
     status = record["status"]
     word = "PASS" if status == "pass" else "FAIL"
@@ -188,7 +203,7 @@ def results_renderable(
     if stale:
         head.append("\nshowing the last valid inputs' results", style="bold yellow")
     if error:
-        head.append(f"\n{error}", style="bold red")
+        head.append(f"\n{visible(error, one_line=False)}", style="bold red")
     grid = Table(show_header=False, box=None, padding=(0, 1), expand=False)
     grid.add_column("q", no_wrap=True, overflow="ellipsis", max_width=20)
     grid.add_column("v", justify="right", no_wrap=True, min_width=9)
@@ -230,5 +245,5 @@ def results_renderable(
     for m in record["messages"]:
         style = {"fail": "bold red", "error": "bold red", "warning": "yellow"}
         style = style.get(m["severity"], "")
-        msgs.append(f"- {message_line(m)}\n", style=style)
+        msgs.append(f"- {visible(message_line(m))}\n", style=style)
     return Group(head, Text(""), grid, Text(""), msgs)

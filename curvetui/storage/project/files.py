@@ -16,7 +16,7 @@ from pathlib import Path
 from typing import Any
 
 from curvetui.storage.files import atomic_write_text
-from curvetui.storage.project.model import FORMAT_VERSION, Bend, Details, Project
+from curvetui.storage.project.model import DETAIL_FIELDS, FORMAT_VERSION, Bend, Details, Project
 from curvetui.storage.table_files import TableError, read_limited
 
 MAX_PROJECT_BYTES = 200_000_000  # 200 MB: some 150,000 bends with notes and stored results
@@ -149,19 +149,28 @@ def migrate(data: dict, path: str) -> tuple[dict, list[str]]:
 def parse_project(data: dict) -> Project:
     """A validated document as a Project."""
     d = data["details"]
-    details = Details(**{k: d[k] for k in d})
+    details = Details(**{k: d[k] for k in d}, absent=frozenset(DETAIL_FIELDS) - set(d))
     bends = [
         Bend(
             id=b["id"],
             kind=b["kind"],
             inputs=dict(b["inputs"]),
-            station=float(b.get("station", 0.0)),
+            station=_number(b.get("station", 0.0)),
             notes=b.get("notes", ""),
             results=b.get("results"),
+            absent=frozenset({"station", "notes", "results"}) - set(b),
+            nulls=frozenset(k for k, v in b["inputs"].items() if v is None),
         )
         for b in data["bends"]
     ]
     return Project(details, bends)
+
+
+def _number(value) -> float:
+    """A stored number as read (a whole number stays whole), once it is known to be one a
+    float can hold."""
+    float(value)
+    return value
 
 
 def load_project(path: str | Path) -> tuple[Project, list[str]]:

@@ -1,8 +1,13 @@
-"""The project model: details and an ordered list of bends, each with its inputs."""
+"""The project model: details and an ordered list of bends, each with its inputs.
+
+What a file holds is written back as it was read: inputs as stored (100 stays 100, a null
+the file holds stays null: ``nulls``), and a key the file left out (``absent``) stays out
+while it keeps its default. An input left empty in memory (None or '') is left out.
+"""
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, fields
 from pathlib import Path
 from typing import Any
 
@@ -39,9 +44,15 @@ class Details:
     road_table: str | None = None
     rail_limits: str | None = None
     notes: str = ""
+    absent: frozenset[str] = field(default=frozenset(), repr=False, compare=False)
 
     def to_json(self) -> dict[str, Any]:
-        return {k: getattr(self, k) for k in DETAIL_FIELDS}
+        default = {f.name: f.default for f in fields(self)}
+        return {
+            k: getattr(self, k)
+            for k in DETAIL_FIELDS
+            if not (k in self.absent and getattr(self, k) == default[k])
+        }
 
 
 @dataclass
@@ -54,10 +65,14 @@ class Bend:
     station: float = 0.0
     notes: str = ""
     results: dict[str, Any] | None = None
+    absent: frozenset[str] = field(default=frozenset(), repr=False, compare=False)
+    nulls: frozenset[str] = field(default=frozenset(), repr=False, compare=False)
 
     def to_json(self) -> dict[str, Any]:
-        inputs = {k: v for k, v in self.inputs.items() if v is not None and v != ""}
-        return {
+        inputs = {
+            k: v for k, v in self.inputs.items() if v != "" and (v is not None or k in self.nulls)
+        }
+        out = {
             "id": self.id,
             "kind": self.kind,
             "station": self.station,
@@ -65,6 +80,8 @@ class Bend:
             "notes": self.notes,
             "results": self.results,
         }
+        default = {"station": 0.0, "notes": "", "results": None}
+        return {k: v for k, v in out.items() if not (k in self.absent and v == default.get(k))}
 
 
 @dataclass

@@ -269,6 +269,11 @@ def test_switching_to_rail_shows_cant_and_hides_superelevation(demo_path):
         assert app.query_one("#row-low_speed").display
         assert not app.query_one("#row-superelevation").display
         assert not app.query_one("#row-emax").display
+        # issue 14: no made-up cant; the field is marked until one is typed
+        st = app.session.state(app.current)
+        assert st.error == "cant: required"
+        assert app.query_one("#in-cant", Input).has_class("-invalid")
+        await set_box(pilot, app, "cant", "40")
         st = app.session.state(app.current)
         assert st.error is None and st.record["kind"] == "rail"
         assert row_cells(app, "QV-03")[4] == "rail"
@@ -403,9 +408,10 @@ def test_f3_adds_f4_copies_f8_deletes_ctrl_down_moves(demo_path):
         assert list_ids(app)[2] == added
         assert app.query_one(BendList).cursor_row == 2
         assert app.query_one("#in-bend_id", Input).value == added
-        assert app.query_one("#in-speed", Input).value == "80"
-        assert app.query_one("#in-radius", Input).value == "400"
-        assert status_word(app, added) == "pass"
+        # issue 14: a new bend starts empty, not with made-up values that PASS
+        assert app.query_one("#in-speed", Input).value == ""
+        assert app.query_one("#in-radius", Input).value == ""
+        assert status_word(app, added) == "ERROR"
 
         await go_to(app, pilot, "QV-04")
         await pilot.press("f4")
@@ -483,7 +489,7 @@ def test_f2_details_escape_changes_nothing_apply_changes_the_name(demo_path):
         assert app.session.project.details.name == "Hollow Lane"
         top = str(app.query_one("#topbar").content)
         assert "Hollow Lane" in top and "unsaved" in top
-        assert screen_text(app).splitlines()[0].strip().startswith("Hollow Lane FSH-0427")
+        assert screen_text(app).splitlines()[0].strip().startswith("unsaved  Hollow Lane FSH-0427")
 
     drive(demo_path, steps)
 

@@ -102,7 +102,7 @@ def test_valid_input_updates_the_record(session):
             "-5",
             "speed: must be a number from 15 to 130 km/h (table aashto-2018-metric), got -5",  # noqa: E501
         ),
-        ("emax", "30", "emax: must be a number from 4 to 12 %"),
+        ("emax", "30", "e max: must be a number from 4 to 12 %"),  # the label in the form
         ("radius", "abc", "radius: must be a number from 1 to 100000 m, got 'abc'"),
     ],
 )
@@ -192,7 +192,11 @@ def test_add_bend_after_the_current_one(session):
     assert ids(session)[2] == new.id
     assert new.id not in {"QV-01", "QV-02"} and ids(session).count(new.id) == 1
     assert new.station == after.station
-    assert session.state(new).record["status"] == "pass"
+    # issue 14: a new bend starts incomplete, no made-up values and no result (no PASS)
+    assert new.inputs == {}
+    assert session.state(new).record is None
+    assert session.status(new) == "error"
+    assert session.state(new).error == "speed: required; radius: required"
     assert session.dirty is True
 
 
@@ -200,6 +204,10 @@ def test_add_rail_bend_at_the_end(session):
     new = session.add_bend("rail")
     assert ids(session)[-1] == new.id
     assert new.kind == "rail"
+    assert new.inputs == {}
+    assert session.state(new).error == "speed: required; radius: required; cant: required"
+    for key, text in (("speed", "100"), ("radius", "1000"), ("cant", "60")):
+        session.set_input(new, key, text)
     assert session.state(new).error is None
     assert session.state(new).record["kind"] == "rail"
 
@@ -252,6 +260,8 @@ def test_save_writes_the_edits_and_keeps_a_backup(demo_path, session):
     original = demo_path.read_bytes()
     session.set_input(bend(session, "QV-04"), "radius", "260")
     added = session.add_bend("road")
+    session.set_input(added, "speed", "60")  # a new bend is saved once it has its inputs
+    session.set_input(added, "radius", "300")
     session.delete_bend(bend(session, "QV-02"))
     session.set_detail("name", "Quillmere edits (invented)")
     assert session.dirty is True
@@ -291,7 +301,11 @@ def test_dirty_flag(session):
             s.set_kind(bend(s, "QV-01"), "rail"),
             s.set_input(bend(s, "QV-01"), "cant", "60"),
         ),
-        lambda s: s.add_bend(),
+        lambda s: (
+            s.add_bend(),
+            s.set_input(s.current, "speed", "60"),
+            s.set_input(s.current, "radius", "300"),
+        ),
         lambda s: s.duplicate_bend(bend(s, "QV-02")),
         lambda s: s.delete_bend(bend(s, "QV-03")),
         lambda s: s.move_bend(bend(s, "QV-05"), -1),
@@ -362,6 +376,7 @@ def test_every_change_is_told_to_the_watchers_until_they_stop(session):
     session.select(b)
     session.set_input(b, "radius", "260")
     session.switch_kind(b, "rail")
+    session.set_input(b, "cant", "60")  # a rail curve is saved once it has its cant
     session.move_bend(b, 1)
     session.set_details({"name": "Quillmere edits (invented)"})
     session.save()
@@ -369,6 +384,7 @@ def test_every_change_is_told_to_the_watchers_until_they_stop(session):
         ("select", None),
         ("field", "radius"),
         ("kind", None),
+        ("field", "cant"),
         ("bends", None),
         ("details", None),
         ("saved", None),
@@ -377,7 +393,7 @@ def test_every_change_is_told_to_the_watchers_until_they_stop(session):
     session.select(b)  # already on screen: no change
     stop()
     session.set_input(b, "radius", "250")
-    assert len(seen) == 6
+    assert len(seen) == 7
 
 
 def test_the_first_bend_is_on_screen_and_new_or_copied_bends_come_on_screen(session):
@@ -432,12 +448,15 @@ def test_a_bad_station_is_refused_and_the_message_goes_once_it_is_fixed(session)
     assert st.form_errors == {}
 
 
-def test_switching_to_rail_starts_the_cant_at_zero_and_keeps_a_given_cant(session):
+def test_switching_to_rail_asks_for_the_cant_and_keeps_a_given_cant(session):
     b = bend(session, "QV-03")
     st = session.switch_kind(b, "rail")
-    assert b.kind == "rail" and b.inputs["cant"] == 0.0
-    assert st.error is None and st.record["kind"] == "rail"
+    # issue 14: no made-up cant; the bend waits for one and keeps its last good record
+    assert b.kind == "rail" and "cant" not in b.inputs
+    assert st.error == "cant: required" and st.error_field == "cant"
+    assert st.file_errors == {"cant": "cant: required by the project file"}
     session.set_input(b, "cant", "60")
+    assert session.state(b).error is None and session.state(b).record["kind"] == "rail"
     session.switch_kind(b, "road")
     session.switch_kind(b, "rail")
     assert b.inputs["cant"] == 60.0
