@@ -205,12 +205,16 @@ def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n, limi
     v = col.value
     with np.errstate(invalid="ignore"):
         out = (v < lo_a) | (v > hi_a) | ((v == lo_a) if f.lo_open else False)
+        tiny = ~out & (v < f.least) if f.least else np.zeros(n, bool)
+    out |= tiny
     if f.key == "low_speed":  # no range to check against while the speed itself is bad
         out &= np.isfinite(hi_a)
     wrong = rows & col.present & (col.bad | out)
     found = []
     for i in np.nonzero(wrong)[0]:
         allowed_txt = range_text(float(lo_a[i]), float(hi_a[i]), unit, f.lo_open)
+        if tiny[i] and not col.bad[i]:  # above lo, yet too small to compute with
+            allowed_txt = range_text(f.least, float(hi_a[i]), unit)
         if col.bad[i]:
             if f.unit == STATION:
                 allowed_txt = "must be a station such as 2+710.5 or a number"

@@ -170,23 +170,17 @@ def test_human_output_shows_caution_and_status():
 
 
 def test_inputs_found_in_review_give_messages_not_tracebacks(capsys):
-    # a deflection of 1e-320 degrees with a spiral: the spirals overlap; no radius fits
-    code = main(
-        [
-            "check",
-            "road",
-            "--speed",
-            "80",
-            "--radius",
-            "400",
-            "--deflection",
-            "1e-320",
-            "--spiral",
-            "50",
-        ]
-    )
+    # a deflection of 1e-300 degrees with a spiral: the spirals overlap; no radius fits
+    base = ["check", "road", "--speed", "80", "--radius", "400", "--spiral", "50"]
+    code = main([*base, "--deflection", "1e-300"])
     err = capsys.readouterr().err
     assert code == 2 and "spirals overlap" in err and "Traceback" not in err
+    assert "radius of at least" not in err  # no radius a bend could have would do
+    # 1e-320 and 5e-324 degrees are subnormal in radians: refused with the usable range
+    for tiny in ("1e-320", "5e-324"):
+        code = main([*base, "--deflection", tiny, "--spiral-out", "20"])
+        err = capsys.readouterr().err
+        assert code == 2 and "--deflection: must be a number from 1e-300 to 179" in err
     # R 2 m at 20 km/h, e 0: even 15 km/h needs f 0.89 > 0.40 (Green Book 2018 Table 3-7),
     # so the safe speed is unknown: the table prints "-" and the JSON null
     assert (
