@@ -211,7 +211,17 @@ def non_finite_numbers(data, parts=()) -> list[str]:
 
 
 def project_text(project: Project) -> str:
-    return json.dumps(project.to_json(), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+    """The file's JSON text: UTF-8 characters as they are, except when a text holds a lone
+    surrogate (a file name's undecodable byte, or a \\ud800 escape read from a file),
+    which UTF-8 cannot write: then every non-ASCII character is escaped, so the same
+    text loads back."""
+    data = project.to_json()
+    text = json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+    try:
+        text.encode("utf-8")
+    except UnicodeEncodeError:
+        text = json.dumps(data, indent=2, ensure_ascii=True, allow_nan=False) + "\n"
+    return text
 
 
 def save_project(project: Project, path: str | Path) -> None:
