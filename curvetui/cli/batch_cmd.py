@@ -11,6 +11,8 @@ from typing import TYPE_CHECKING
 from curvetui import CAUTION
 from curvetui.batch import columns as cols
 from curvetui.cli.common import add_units_option
+from curvetui.inputs import InputError
+from curvetui.screen_text import clean, markup
 
 if TYPE_CHECKING:
     from rich.console import Console
@@ -44,11 +46,15 @@ def add_parser(sub) -> None:
 
 
 def _output_path(args) -> str:
+    if args.input != "-" and os.path.isdir(args.input):
+        raise InputError(f"{args.input}: is a folder; name a CSV file to check (or - for stdin)")
     if args.output:
         return args.output
     if args.input == "-":
         return "-"
     path = Path(args.input)
+    if not path.name:
+        raise InputError(f"{args.input!r}: not a file name; name a CSV file to check")
     return str(path.with_name(path.stem + ".checked.csv"))
 
 
@@ -69,7 +75,10 @@ def run(args: argparse.Namespace) -> int:
     out_path = _output_path(args)
     if args.input != "-" and out_path != "-":
         if os.path.exists(out_path) and os.path.samefile(args.input, out_path):
-            err.print(f"curvetui: error: {out_path}: the output would overwrite the input")
+            err.print(
+                clean(f"curvetui: error: {out_path}: the output would overwrite the input"),
+                markup=False,
+            )
             return 2
     source = sys.stdin.buffer if args.input == "-" else args.input
     progress = Progress(
@@ -96,7 +105,7 @@ def run(args: argparse.Namespace) -> int:
                     summary = run_batch(source, sink, units, table, limits, tick)
     except BatchFileError as exc:
         name = "standard input" if args.input == "-" else args.input
-        err.print(f"curvetui: error: {name}: {exc}", markup=False)
+        err.print(clean(f"curvetui: error: {name}: {exc}"), markup=False)
         return 2
     print_summary(err, summary, out_path, table, limits)
     return summary.exit_code
@@ -124,7 +133,7 @@ def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> Non
             worst.add_column(name, overflow="fold")
         for w in s.worst:
             ratio = f"{100 * w.utilisation:.0f} %" if w.utilisation > 0 else "-"
-            worst.add_row(str(w.row), w.id, w.kind, ratio, w.message)
+            worst.add_row(str(w.row), markup(w.id, True), w.kind, ratio, markup(w.message))
         err.print(worst)
     if s.first_errors:
         errors = Table(title=f"Rows with errors (first {len(s.first_errors)} of {s.errors:,})")
@@ -132,10 +141,10 @@ def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> Non
         errors.add_column("id")
         errors.add_column("message", overflow="fold")
         for w in s.first_errors:
-            errors.add_row(str(w.row), w.id, w.message)
+            errors.add_row(str(w.row), markup(w.id, True), markup(w.message))
         err.print(errors)
-    err.print(f"road table: {table.name} ({table.source})", markup=False)
-    err.print(f"rail limits: {limits.name} ({limits.source})", markup=False)
+    err.print(clean(f"road table: {table.name} ({table.source})"), markup=False)
+    err.print(clean(f"rail limits: {limits.name} ({limits.source})"), markup=False)
     if out_path != "-":
-        err.print(f"results written to {out_path}", markup=False)
+        err.print(clean(f"results written to {out_path}"), markup=False)
     err.print(f"[bold yellow]{CAUTION}[/]")

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from curvetui.cli.common import console, print_caution, print_json
+from curvetui.screen_text import clean, markup
 
 
 def add_parser(sub) -> None:
@@ -54,12 +55,16 @@ def run(args) -> int:
         lo, hi = r["speeds"]
         how = f", {r['distribution']}" if r["distribution"] else ""
         span = f"{lo:g}-{hi:g}" if lo else f"up to {hi:g}"
-        out.print(f"[bold]{r['name']}[/]  {r['kind']}, {r['units']}, {span} {unit}{how}")
-        out.print(f"  {r['title']}", markup=False)
-        out.print(f"  source: {r['source']}", markup=False)
-        out.print(f"  file: {r['file']}\n", markup=False)
+        out.print(
+            f"[bold]{markup(r['name'], True)}[/]  {r['kind']}, {r['units']}, {span} {unit}"
+            + markup(how, True)
+        )
+        out.print(clean(f"  {r['title']}"), markup=False)
+        out.print(clean(f"  source: {r['source']}"), markup=False)
+        out.print(clean(f"  file: {r['file']}\n"), markup=False)
     out.print(
-        "User tables are read from: " + ", ".join(str(d) for d in user_table_dirs()), markup=False
+        clean("User tables are read from: " + ", ".join(str(d) for d in user_table_dirs())),
+        markup=False,
     )
     print_caution(out)
     return 0
