@@ -14,6 +14,7 @@ import numpy as np
 
 from curvetui.bend.outputs import OUTPUTS, TEXT
 from curvetui.bend.parse import Issue, Parsed
+from curvetui.bend.road_sight import road_sight
 from curvetui.bend.road_transition import road_transition
 from curvetui.core import transitions as tr
 from curvetui.core.circular import circular_curve
@@ -194,7 +195,7 @@ def _road(ev: Evaluation, rows: np.ndarray) -> None:
     )
     curve_length = _geometry(ev, rows, r)
     road_transition(ev, rows, v, r, check.superelevation, width, ROAD_SPIRAL_FLAGS)
-    _sight(ev, rows, v, r, width, curve_length)
+    road_sight(ev, rows, v, r, width, curve_length)
 
 
 def _spiral(ev: Evaluation, key: str, rows) -> np.ndarray:
@@ -278,44 +279,6 @@ def _geometry(ev: Evaluation, rows, r) -> np.ndarray:
             put(key, at, np.asarray(getattr(s, key))[ok])
         length[at] = np.asarray(s.total_length)[ok]
     return length
-
-
-def _sight(ev: Evaluation, rows, v, r, width, curve_length) -> None:
-    from curvetui.core import sight as sd
-
-    units, si, present = ev.ctx.units, ev.parsed.si, ev.parsed.present
-    has = np.nonzero(present["obstruction_offset"][rows])[0]
-    if not len(has):
-        return
-    at = rows[has]
-    r_lane = r[has] - width[has] / 2.0
-    grade = np.where(present["grade"][at], si["grade"][at], 0.0)
-    with np.errstate(all="ignore"):
-        c = sd.sight_check(
-            v[has],
-            r_lane,
-            si["obstruction_offset"][at],
-            curve_length=curve_length[has],
-            units=units.name,
-            grade=grade,
-        )
-    ev.parts["sight"], ev.part_rows["sight"] = c, at
-    lane = np.full(ev.n, np.nan)
-    lane[at] = width[has]
-    ev.parts["lane_width"] = lane
-    for key in (
-        "stopping_sight_distance",
-        "sightline_offset_required",
-        "offset_available",
-        "sight_distance_available",
-        "offset_that_passes",
-    ):
-        _put(ev, f"sight.{key}", at, units.length_from_si(getattr(c, key)))
-    _put(ev, "sight.sightline_radius", at, units.length_from_si(r_lane))
-    _put(ev, "sight.speed_that_passes", at, units.speed_from_si(c.speed_that_passes))
-    failed = ~np.asarray(c.status, bool)
-    ev.texts["sight.status"][at] = np.where(failed, "fail", "pass")
-    _check(ev, "sight", at, failed)
 
 
 def _rail(ev: Evaluation, rows: np.ndarray) -> None:

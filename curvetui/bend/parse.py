@@ -219,7 +219,8 @@ def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n, limi
             if f.unit == STATION:
                 allowed_txt = "must be a station such as 2+710.5 or a number"
             got = _shown(col.cell(int(i)))
-        else:
-            got = f"{float(v[i]):g}"
+        else:  # a subnormal number in shortest form (1e-320, not 9.99989e-321)
+            x = float(v[i])
+            got = f"{x:g}" if x == 0 or abs(x) >= 1e-300 else repr(x)
         found.append(Issue(int(i), f.key, f"{allowed_txt}, got {got}"))
     return found
