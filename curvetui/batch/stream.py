@@ -13,8 +13,10 @@ with status ``error`` in its place.
 from __future__ import annotations
 
 import collections
+import contextlib
 import io
 import os
+import sys
 from collections.abc import Callable
 from pathlib import Path
 from typing import BinaryIO
@@ -81,6 +83,8 @@ class _Numbering:
         self.delivered = 0
 
     def handler(self, row) -> str:
+        # pyarrow decodes the row's text before calling this; a row that is not UTF-8 never
+        # gets here: pyarrow reports that decoding error as "unraisable" (see _undecodable)
         number = row.number if row.number is not None else -1
         self.skipped.append(number)
         if row.text.strip():
@@ -204,10 +208,13 @@ def _run(
     try:
         while True:
             try:
-                batch = reader.read_next_batch()
+                with _undecodable() as undecodable:
+                    batch = reader.read_next_batch()
             except StopIteration:
                 break
             except pa.ArrowInvalid as exc:
+                if undecodable:
+                    raise BatchFileError(_NOT_UTF8) from None
                 raise BatchFileError(_arrow_words(exc)) from None
             rows = numbering.numbers(batch.num_rows)
             keep = _not_blank(batch, header.known["kind"])
@@ -268,11 +275,36 @@ def _not_blank(batch: pa.RecordBatch, kind_pos: int) -> np.ndarray | None:
     return ~blank.to_numpy(zero_copy_only=False)
 
 
+_NOT_UTF8 = "the file is not UTF-8 text; save it as UTF-8 (with or without a BOM)"
+
+
 def _arrow_words(exc: Exception) -> str:
     text = str(exc).split("\n")[0]
     if "UTF8" in text or "utf8" in text.lower():
-        return "the file is not UTF-8 text; save it as UTF-8 (with or without a BOM)"
+        return _NOT_UTF8
     return f"cannot read the file as CSV: {text}"
+
+
+@contextlib.contextmanager
+def _undecodable():
+    """While pyarrow reads a block: a row with the wrong number of fields that is not UTF-8
+    makes pyarrow's call of our row handler fail on decoding the row's text, which Python
+    would print as "Exception ignored ... Traceback". Such errors are kept in the list
+    yielded instead (pyarrow then stops with a parse error, reported as not UTF-8)."""
+    seen: list[BaseException] = []
+    previous = sys.unraisablehook
+
+    def hook(info) -> None:
+        if isinstance(info.exc_value, UnicodeDecodeError):
+            seen.append(info.exc_value)
+        else:
+            previous(info)
+
+    sys.unraisablehook = hook
+    try:
+        yield seen
+    finally:
+        sys.unraisablehook = previous
 
 
 def batch_bytes(text: str | bytes, units, table, limits, **kw) -> tuple[bytes, Summary]:

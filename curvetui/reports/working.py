@@ -148,7 +148,10 @@ def road_working(record: dict, table: RoadTable, units: UnitSystem) -> list[Step
             "Safe speed",
             "largest V with V^2/(C R) - e <= f_max(V)",
             "solved exactly on the table's piecewise-linear f_max",
-            f"{record['safe_speed']:.1f} {sp}",
+            f"{record['safe_speed']:.1f} {sp}"
+            if record["safe_speed"] is not None
+            else f"below the table's lowest speed, "
+            f"{float(units.speed_from_si(table.speeds_si[0])):g} {sp} (none found)",
             src,
             _verdict(record, "friction"),
         )
@@ -257,8 +260,12 @@ def rail_working(record: dict, limits: RailLimits, units: UnitSystem) -> list[St
                 "Cants serving both trains",
                 "max(E - D_lim, 0) <= E_a <= min(E_low + X_lim, E_max)",
                 f"max({record['equilibrium_cant']:.1f} - {record['deficiency_limit']:g}, 0) to "
-                f"min({record['equilibrium_cant_low']:.1f} + {record['excess_limit']:g}, "
-                f"{record['cant_limit']:g})",
+                + (
+                    f"min({record['equilibrium_cant_low']:.1f} + {record['excess_limit']:g}, "
+                    f"{record['cant_limit']:g})"
+                    if record["excess_limit"] is not None
+                    else f"{record['cant_limit']:g} (these limits set no cant excess)"
+                ),
                 f"{lo:.1f} to {hi:.1f} {cl}" if lo <= hi else f"none ({lo:.1f} > {hi:.1f})",
                 limits.name,
                 _verdict(record, "balance"),
