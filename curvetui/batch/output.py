@@ -13,6 +13,7 @@ import pyarrow.csv as pcsv
 
 from curvetui.batch import columns as cols
 from curvetui.batch.chunk import MESSAGE_ITEM, BatchContext, evaluate_chunk
+from curvetui.batch.formulas import neutralise
 from curvetui.batch.header import Header
 from curvetui.batch.summary import (
     Tally,
@@ -79,6 +80,7 @@ class Job:
     schema: pa.Schema
     ctx: BatchContext
     want_bytes: bool
+    keep_formulas: bool = False  # write cells that would run as formulas verbatim
 
 
 @dataclass
@@ -114,6 +116,8 @@ def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> Par
         row_at = width + cols.result_names(list(job.header.names)).index("row")
         tbl = tbl.take(pc.sort_indices(tbl.column(row_at)))
     if job.want_bytes:
+        if not job.keep_formulas:
+            tbl = neutralise(tbl)
         options = pcsv.WriteOptions(
             include_header=False, delimiter=job.header.delimiter, quoting_style="needed"
         )

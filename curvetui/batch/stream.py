@@ -27,6 +27,7 @@ import pyarrow.compute as pc
 import pyarrow.csv as pcsv
 
 from curvetui.batch.chunk import BatchContext
+from curvetui.batch.formulas import neutral_text, neutralise
 from curvetui.batch.header import HEAD_BYTES, BatchFileError, read_header
 from curvetui.batch.output import Job, Part, output_schema, process_chunk
 from curvetui.batch.summary import Summary, finish, merge
@@ -112,10 +113,14 @@ def run_batch(
     on_table: Callable[[pa.Table], None] | None = None,
     block_size: int = BLOCK_SIZE,
     workers: int | None = None,
+    keep_formulas: bool = False,
 ) -> Summary:
     """Check every row of ``source`` (a path or a binary stream) and write the rows with
     their results to ``sink`` as CSV (the input's separator); ``on_table`` gets each output
     chunk as a pyarrow table too. Raises BatchFileError when the file cannot be used.
+    Text cells that a spreadsheet would run as formulas are written with a leading
+    apostrophe unless ``keep_formulas`` (see curvetui.batch.formulas); ``on_table`` gets
+    them as read.
 
     Chunks are checked on ``workers`` threads (default: one per core), each taking whole
     chunks; their output is written in the input's order."""
@@ -141,6 +146,7 @@ def run_batch(
             on_table,
             block_size,
             workers,
+            keep_formulas,
         )
     finally:
         if isinstance(source, str | Path):
@@ -148,7 +154,18 @@ def run_batch(
 
 
 def _run(
-    header, stream, total, sink, units, table, limits, progress, on_table, block_size, workers
+    header,
+    stream,
+    total,
+    sink,
+    units,
+    table,
+    limits,
+    progress,
+    on_table,
+    block_size,
+    workers,
+    keep_formulas=False,
 ):
     width = len(header.names)
     names = [f"c{i}" for i in range(width)]
@@ -162,33 +179,20 @@ def _run(
         decimal_comma=header.decimal_comma,
     )
     try:
-        reader = pcsv.open_csv(
-            pa.PythonFile(stream, mode="r"),
-            read_options=pcsv.ReadOptions(
-                column_names=names, skip_rows=1, block_size=block_size, use_threads=False
-            ),
-            parse_options=pcsv.ParseOptions(
-                delimiter=header.delimiter,
-                newlines_in_values=True,
-                ignore_empty_lines=False,
-                invalid_row_handler=numbering.handler,
-            ),
-            convert_options=pcsv.ConvertOptions(
-                column_types={name: pa.string() for name in names},
-                strings_can_be_null=False,
-                quoted_strings_can_be_null=False,
-            ),
-        )
+        with _undecodable() as undecodable:
+            reader = _open(stream, names, block_size, header, numbering)
     except pa.ArrowInvalid as exc:
-        raise BatchFileError(_arrow_words(exc)) from None
+        raise BatchFileError(_NOT_UTF8 if undecodable else _arrow_words(exc)) from None
     except StopIteration:  # pragma: no cover - header only, handled below
         reader = None
 
     summary = Summary(delimiter=header.delimiter, columns=tuple(schema.names))
-    job = Job(header, schema, ctx, want_bytes=sink is not None and on_table is None)
+    job = Job(header, schema, ctx, sink is not None and on_table is None, keep_formulas)
+    written = (lambda t: t) if keep_formulas else neutralise
     options = pcsv.WriteOptions(delimiter=header.delimiter, quoting_style="needed")
     if sink is not None:
-        pcsv.write_csv(schema.empty_table(), sink, options)  # the header row
+        names = schema.names if keep_formulas else [neutral_text(n) for n in schema.names]
+        pcsv.write_csv(schema.empty_table().rename_columns(names), sink, options)  # header
     worst: list[tuple[float, int, str, str, str]] = []
     pool = None
     pending: collections.deque = collections.deque()
@@ -198,7 +202,7 @@ def _run(
             sink.write(part.data)
         if part.table is not None:
             if sink is not None:
-                pcsv.write_csv(part.table, sink, _no_header(options))
+                pcsv.write_csv(written(part.table), sink, _no_header(options))
             if on_table is not None:
                 on_table(part.table)
         merge(summary, part, worst)
@@ -313,3 +317,24 @@ def batch_bytes(text: str | bytes, units, table, limits, **kw) -> tuple[bytes, S
     sink = io.BytesIO()
     summary = run_batch(io.BytesIO(data), sink, units, table, limits, **kw)
     return sink.getvalue(), summary
+
+
+def _open(stream, names, block_size, header, numbering):
+    """pyarrow's streaming CSV reader (it reads the first block at once)."""
+    return pcsv.open_csv(
+        pa.PythonFile(stream, mode="r"),
+        read_options=pcsv.ReadOptions(
+            column_names=names, skip_rows=1, block_size=block_size, use_threads=False
+        ),
+        parse_options=pcsv.ParseOptions(
+            delimiter=header.delimiter,
+            newlines_in_values=True,
+            ignore_empty_lines=False,
+            invalid_row_handler=numbering.handler,
+        ),
+        convert_options=pcsv.ConvertOptions(
+            column_types={name: pa.string() for name in names},
+            strings_can_be_null=False,
+            quoted_strings_can_be_null=False,
+        ),
+    )

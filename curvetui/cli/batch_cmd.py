@@ -29,7 +29,9 @@ def add_parser(sub) -> None:
         help="check every bend of a CSV file",
         description="Check every road bend and rail curve of a CSV file. Columns (any case, "
         "any order): " + ", ".join(cols.INPUTS) + "; other columns are carried through. "
-        "Writes every input column, the results, row, status and messages. Exit code 0 when "
+        "Writes every input column, the results, row, status and messages; a text cell that "
+        "a spreadsheet would run as a formula (not a number, starting with =, +, -, @, tab or "
+        "CR) is written with a leading apostrophe unless --keep-formulas. Exit code 0 when "
         "every bend passes, 1 when any fails or has an error, 2 when the file cannot be used.",
     )
     p.add_argument("input", help="CSV file to check, or - for standard input")
@@ -42,6 +44,12 @@ def add_parser(sub) -> None:
     add_units_option(p)
     p.add_argument("--table", help="road design table by name or .toml path")
     p.add_argument("--limits", help="rail limits by name or .toml path")
+    p.add_argument(
+        "--keep-formulas",
+        action="store_true",
+        help="write text cells that start with =, +, -, @, tab or CR as they are (by default "
+        "they get a leading apostrophe, so a spreadsheet shows them instead of running them)",
+    )
     p.set_defaults(run=run)
 
 
@@ -91,6 +99,7 @@ def run(args: argparse.Namespace) -> int:
         disable=not err.is_terminal,
     )
     task = progress.add_task("batch", total=None, rows=0)
+    keep = args.keep_formulas
 
     def tick(done: int, total: int | None, rows: int) -> None:
         progress.update(task, completed=done, total=total, rows=rows)
@@ -98,11 +107,15 @@ def run(args: argparse.Namespace) -> int:
     try:
         with progress:
             if out_path == "-":
-                summary = run_batch(source, sys.stdout.buffer, units, table, limits, tick)
+                summary = run_batch(
+                    source, sys.stdout.buffer, units, table, limits, tick, keep_formulas=keep
+                )
                 sys.stdout.buffer.flush()
             else:
                 with atomic_binary(out_path) as sink:
-                    summary = run_batch(source, sink, units, table, limits, tick)
+                    summary = run_batch(
+                        source, sink, units, table, limits, tick, keep_formulas=keep
+                    )
     except BatchFileError as exc:
         name = "standard input" if args.input == "-" else args.input
         err.print(clean(f"curvetui: error: {name}: {exc}"), markup=False)

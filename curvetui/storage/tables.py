@@ -50,7 +50,7 @@ def _number(mapping: dict, key: str, where: str, lo: float, hi: float) -> float:
     try:
         value = float(given)
     except OverflowError:  # an integer beyond any float
-        value = math.copysign(math.inf, given)
+        value = math.inf if given > 0 else -math.inf
     if not (lo <= value <= hi):
         raise TableError(
             f"{where}: '{key}' = {value:g} is outside the allowed range {lo:g} to {hi:g}"
