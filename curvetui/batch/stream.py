@@ -225,7 +225,11 @@ def _run(
             if keep is not None:
                 summary.blank += int(np.sum(~keep))
                 batch, rows = batch.filter(pa.array(keep)), rows[keep]
-            bad, numbering.bad = numbering.bad, []
+            # malformed rows up to this chunk's last row go with it; pyarrow may report
+            # later ones while reading ahead, and they wait for their own chunk
+            last = int(rows[-1]) if len(rows) else -1
+            bad = [b for b in numbering.bad if b[0] <= last]
+            numbering.bad = [b for b in numbering.bad if b[0] > last]
             if not job.want_bytes or workers < 2:
                 take(process_chunk(job, batch, rows, bad))  # in order, here (the app, one core)
                 continue
