@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import json
 import math
+import sys
 from functools import cache
 from importlib import resources
 from pathlib import Path
@@ -189,6 +190,8 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
         ) from None
     except RecursionError:
         raise ProjectError(name, ["not a project: nested too deeply to read (corrupt?)"]) from None
+    except ValueError as exc:  # a whole number beyond Python's digit limit for int()
+        raise ProjectError(name, [f"not a project: a number cannot be read ({exc})"]) from None
     data, notes = migrate(data, name)
     problems = validate(data) + non_finite_numbers(data)
     if problems:
@@ -197,7 +200,8 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
 
 
 def non_finite_numbers(data, parts=()) -> list[str]:
-    """Paths of numbers too large to be finite (1e999 reads as infinity)."""
+    """Paths of numbers too large to be finite (1e999 reads as infinity; an integer such as
+    1 followed by 400 zeros is read exactly, but no float holds it)."""
     out: list[str] = []
     if isinstance(data, dict):
         for k, v in data.items():
@@ -207,6 +211,11 @@ def non_finite_numbers(data, parts=()) -> list[str]:
             out += non_finite_numbers(v, (*parts, i))
     elif isinstance(data, float) and not math.isfinite(data):
         out.append(f"{json_path(parts)}: must be a finite number, got {data}")
+    elif isinstance(data, int) and not isinstance(data, bool) and abs(data) > sys.float_info.max:
+        out.append(
+            f"{json_path(parts)}: must be a finite number (within +/-{sys.float_info.max:.4g}), "
+            f"got a whole number of {len(str(abs(data)))} digits"
+        )
     return out
 
 
