@@ -79,6 +79,7 @@ SETOUT_0 = ["setout", "--radius", "400", "--pi-easting", "0", "--pi-northing", "
 @given(setout_args())
 @example([*SETOUT_0, "--bearing", "0", "--deflection", "5e-324"])
 @example([*SETOUT_0, "--bearing", "0", "--deflection", "1e-320", "--spiral", "50"])
+@example([*SETOUT_0, "--bearing", "0", "--deflection", "  "])  # found by benchmarks/robustness
 def test_setout_arguments(argv):
     code, _, err = run(argv)
     assert code in (0, 2)
