@@ -245,8 +245,139 @@ def cli_cases(rng: random.Random, tally: Tally, n: int) -> None:
         if rng.random() < 0.3:
             argv.append("--json")
         tally.run("cli", argv)
-    for words in (["tabels"], ["batch", "."], ["check"], ["sheet", "."], ["open", "--print", "."]):
-        tally.run("cli", words)
+    for _ in range(n // 5):
+        argv = ["setout"]
+        for opt in ("--radius", "--pi-easting", "--pi-northing", "--bearing", "--deflection"):
+            argv += [opt, number(rng) if rng.random() < 0.4 else rng.choice(["300", "20", "0"])]
+        for opt in rng.sample(SETOUT_OPTS, rng.randint(0, len(SETOUT_OPTS))):
+            argv += [opt, number(rng)]
+        if rng.random() < 0.3:
+            argv += ["--units", "us"]
+        tally.run("cli", argv)
+    for argv in NAMED_CLI:
+        tally.run("cli", list(argv))
+
+
+# what issue 14 names, each run once per run of the generator
+NAMED_CLI = (
+    ["tabels"],
+    ["batch", "."],
+    ["batch", "\udcff.csv"],
+    ["check"],
+    ["check", "--project", "\udc80.json"],
+    ["check", "--project", "."],
+    ["sheet", "."],
+    ["sheet", "\udc80.json", "--format", "md"],
+    ["open", "--print", "."],
+    ["open", "--print", "\udc80"],
+    [
+        "check",
+        "road",
+        "--speed",
+        "80",
+        "--radius",
+        "400",
+        "--deflection",
+        "1e-320",
+        "--spiral",
+        "60",
+    ],
+    [
+        "check",
+        "road",
+        "--speed",
+        "80",
+        "--radius",
+        "400",
+        "--deflection",
+        "5e-324",
+        "--spiral",
+        "60",
+        "--spiral-out",
+        "20",
+    ],
+    [
+        "check",
+        "rail",
+        "--speed",
+        "80",
+        "--radius",
+        "400",
+        "--cant",
+        "50",
+        "--deflection",
+        "5e-324",
+        "--spiral",
+        "60",
+    ],
+    ["check", "road", "--speed", "80", "--radius", "400", "--deflection", "5e-324"],
+    ["check", "road", "--speed", "30", "--radius", "1.8", "--obstruction-offset", "2"],
+    [
+        "check",
+        "road",
+        "--speed",
+        "30",
+        "--radius",
+        "2",
+        "--obstruction-offset",
+        "2",
+        "--lane-width",
+        "4",
+    ],
+    [
+        "check",
+        "road",
+        "--speed",
+        "80",
+        "--radius",
+        "400",
+        "--pi-station",
+        "1e306",
+        "--deflection",
+        "20",
+    ],
+    [
+        "check",
+        "road",
+        "--speed",
+        "80",
+        "--radius",
+        "400",
+        "--pi-station",
+        "9e305+0",
+        "--deflection",
+        "20",
+    ],
+    [
+        "setout",
+        "--radius",
+        "400",
+        "--pi-easting",
+        "0",
+        "--pi-northing",
+        "0",
+        "--bearing",
+        "0",
+        "--deflection",
+        "5e-324",
+    ],
+    [
+        "setout",
+        "--radius",
+        "400",
+        "--pi-easting",
+        "0",
+        "--pi-northing",
+        "0",
+        "--bearing",
+        "0",
+        "--deflection",
+        "1e-320",
+        "--spiral",
+        "50",
+    ],
+)
+SETOUT_OPTS = ["--pi-station", "--spiral", "--spiral-out", "--interval", "--versine-chord"]
 
 
 def _mutate(rng: random.Random, data, depth: int = 0):
@@ -276,10 +407,17 @@ def project_cases(rng: random.Random, tally: Tally, n: int, folder: Path) -> Non
             # one bend's inputs or texts
             bend = rng.choice(data["bends"])
             target = bend.get("inputs", bend)
-            key = rng.choice(list(target))
+            key = rng.choice(list(target) + ["deflection", "spiral_in", "pi_station"])
             target[key] = rng.choice(EDGE_NUMBERS) if rng.random() < 0.7 else rng.choice(TEXT)
+            if rng.random() < 0.2:  # what issue 14 names: a tiny deflection with a spiral
+                target.update(deflection=rng.choice([1e-320, 5e-324]), spiral_in=60)
+            if rng.random() < 0.1:
+                bend["station"] = rng.choice(EDGE_NUMBERS)
             if rng.random() < 0.5:
-                bend[rng.choice(["id", "name", "note", "kind"])] = rng.choice(TEXT)
+                bend[rng.choice(["id", "notes", "kind"])] = rng.choice(TEXT)
+            if rng.random() < 0.3:
+                key = rng.choice(["name", "client", "designer", "revision", "notes", "drawing"])
+                data["details"][key] = rng.choice(TEXT)
         else:
             for _ in range(rng.randint(1, 4)):
                 data = _mutate(rng, data)
@@ -297,7 +435,8 @@ def project_cases(rng: random.Random, tally: Tally, n: int, folder: Path) -> Non
             ["check", "--project", str(path), "--json"],
             ["open", "--print", str(path)],
             ["sheet", str(path), "--format", "text", "-o", "-"],
-        ):
+            ["sheet", str(path), "--format", "md", "-o", "-"],
+        ) + ((["sheet", str(path), "-o", str(folder / "sheet.pdf")],) if i % 5 == 0 else ()):
             tally.run("project", argv)
             if path.read_bytes() != raw:
                 tally.files_changed["project"] += 1
@@ -317,11 +456,82 @@ def _cell(rng: random.Random, column: str) -> str:
     return rng.choice(NUMBER_TEXT)
 
 
+NAMED_ROW = [
+    "kind",
+    "speed",
+    "radius",
+    "deflection",
+    "spiral",
+    "obstruction_offset",
+    "lane_width",
+    "pi_station",
+]
+NAMED_ROWS = [
+    {
+        "kind": "road",
+        "speed": "80",
+        "radius": "400",
+        "deflection": "1e-320",
+        "spiral": "60",
+        "obstruction_offset": "",
+        "lane_width": "",
+        "pi_station": "",
+    },
+    {
+        "kind": "rail",
+        "speed": "80",
+        "radius": "400",
+        "deflection": "5e-324",
+        "spiral": "60",
+        "obstruction_offset": "",
+        "lane_width": "",
+        "pi_station": "",
+        "cant": "50",
+    },
+    {
+        "kind": "road",
+        "speed": "30",
+        "radius": "1.8",
+        "deflection": "",
+        "spiral": "",
+        "obstruction_offset": "3",
+        "lane_width": "3.6",
+        "pi_station": "",
+    },
+    {
+        "kind": "road",
+        "speed": "80",
+        "radius": "400",
+        "deflection": "20",
+        "spiral": "",
+        "obstruction_offset": "",
+        "lane_width": "",
+        "pi_station": "1e306",
+    },
+    {
+        "kind": "road",
+        "speed": "80",
+        "radius": "400",
+        "deflection": "5e-324",
+        "spiral": "",
+        "obstruction_offset": "",
+        "lane_width": "",
+        "pi_station": "9e305+0",
+    },
+]
+
+
 def batch_cases(rng: random.Random, tally: Tally, n: int, folder: Path) -> None:
     for i in range(n):
         cols = ["kind", "speed", "radius"] + rng.sample(BATCH_COLUMNS, rng.randint(0, 8))
         cols = list(dict.fromkeys(cols))
+        if rng.random() < 0.3:
+            cols += [c for c in NAMED_ROW if c not in cols]
         rows = [[_cell(rng, c) for c in cols] for _ in range(rng.randint(1, 60))]
+        if rng.random() < 0.3:  # one named hostile row (issue 14) among the rest
+            named = rng.choice(NAMED_ROWS)
+            row = [named.get(c, _cell(rng, c)) for c in cols]
+            rows.insert(rng.randrange(len(rows) + 1), row)
         end = rng.choice(["\n", "\r\n", "\r"])
         buf = io.StringIO()
         writer = csv.writer(buf, lineterminator=end)
@@ -334,11 +544,14 @@ def batch_cases(rng: random.Random, tally: Tally, n: int, folder: Path) -> None:
         src.write_bytes(raw)
         if out.exists():
             out.unlink()
-        code, _, err = tally.run("batch", ["batch", str(src), "-o", str(out)])
+        argv = ["batch", str(src), "-o", str(out)]
+        if rng.random() < 0.2:
+            argv.append(rng.choice(["--units=us", "--keep-formulas"]))
+        code, _, err = tally.run("batch", argv)
         if code == 2:
             tally.refusals[err.strip().splitlines()[-1][:90] if err.strip() else "?"] += 1
         tally.rows_in["batch"] += len(rows)
-        if code in (0, 1):
+        if code != 2:  # a run that ended in a traceback lost every row
             try:
                 with out.open(encoding="utf-8", newline="") as fh:
                     written = sum(1 for _ in csv.reader(fh)) - 1

@@ -4,11 +4,18 @@ from __future__ import annotations
 
 import math
 
+STATION_MAX = 1e12  # beyond this, value * 10**decimals leaves the exact integers of a double
+
 
 def format_station(value: float, units: str = "metric", decimals: int | None = None) -> str:
-    """Format a station given in the project's length unit ('metric' m or 'us' ft)."""
+    """Format a station given in the project's length unit ('metric' m or 'us' ft).
+
+    A value too large to split into whole steps (beyond 1e12 units, or not finite) is
+    written as a plain number instead: such a station is an input error, shown as given."""
     step, width = (1000.0, 3) if units == "metric" else (100.0, 2)
     decimals = (3 if units == "metric" else 2) if decimals is None else decimals
+    if not math.isfinite(value) or abs(value) > STATION_MAX:
+        return f"{value:g}"
     sign = "-" if value < 0 else ""
     value = abs(value)
     scale = 10**decimals

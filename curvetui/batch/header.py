@@ -38,10 +38,11 @@ def read_header(head: bytes) -> Header:
             "the file is empty: it needs a header row naming at least the columns "
             + ", ".join(cols.REQUIRED)
         )
-    end = head.find(b"\n")
-    line = head if end < 0 else head[:end]
+    # the header row ends at the first line end: LF, CR LF or a lone CR (old Mac files)
+    ends = [i for i in (head.find(b"\n"), head.find(b"\r")) if i >= 0]
+    line = head[: min(ends)] if ends else head
     try:
-        text = line.decode("utf-8").rstrip("\r")
+        text = line.decode("utf-8")
     except UnicodeDecodeError as exc:
         raise BatchFileError(
             f"the header row is not UTF-8 text (byte {exc.start + 1}); save the file as UTF-8"

@@ -13,8 +13,15 @@ import pyarrow.csv as pcsv
 
 from curvetui.batch import columns as cols
 from curvetui.batch.chunk import MESSAGE_ITEM, BatchContext, evaluate_chunk
+from curvetui.batch.formulas import neutralise
 from curvetui.batch.header import Header
-from curvetui.batch.summary import Tally, tally_bad_rows, tally_rows
+from curvetui.batch.summary import (
+    Tally,
+    add_tally,
+    tally_bad_rows,
+    tally_error_row,
+    tally_rows,
+)
 
 MESSAGE_ITEMS = "__messages__"  # the extra column ``on_table`` readers get (never written)
 
@@ -34,19 +41,23 @@ def output_schema(header: Header) -> pa.Schema:
 def bad_rows_table(bad: list[tuple[int, int, str]], header: Header, schema: pa.Schema) -> pa.Table:
     """Rows whose field count differs from the header's, as error rows."""
     width = len(header.names)
-    data: dict[str, list] = {f"c{i}": [] for i in range(width)}
-    rows, messages = [], []
+    cells, rows, messages = [], [], []
     for number, actual, text in bad:
-        fields = next(csv.reader([text], delimiter=header.delimiter), [])
-        fields = (fields + [""] * width)[:width]
-        for i in range(width):
-            data[f"c{i}"].append(fields[i])
+        cells.append(next(csv.reader([text], delimiter=header.delimiter), []))
         rows.append(number)
         messages.append(
             f"ERROR row {number}: {actual} field{'s' if actual != 1 else ''} where the header "
             f"has {width}; row not checked (a separator or quote out of place?)"
         )
-    arrays = [pa.array(data[f"c{i}"], pa.string()) for i in range(width)]
+    return error_rows_table(cells, rows, messages, width, schema)
+
+
+def error_rows_table(
+    cells: list[list[str]], rows: list[int], messages: list[str], width: int, schema: pa.Schema
+) -> pa.Table:
+    """Rows written as read with status ``error``, their row and message, no results."""
+    cells = [(list(c) + [""] * width)[:width] for c in cells]
+    arrays = [pa.array([c[i] for c in cells], pa.string()) for i in range(width)]
     n = len(rows)
     for fld in list(schema)[width:]:
         base = fld.name.removeprefix("check.") if fld.name.startswith("check.") else fld.name
@@ -69,6 +80,7 @@ class Job:
     schema: pa.Schema
     ctx: BatchContext
     want_bytes: bool
+    keep_formulas: bool = False  # write cells that would run as formulas verbatim
 
 
 @dataclass
@@ -80,46 +92,34 @@ class Part(Tally):
 
 
 def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> Part:
-    """Check one chunk and build its output rows (in row order, malformed rows included)."""
-    header, schema = job.header, job.schema
-    width = len(header.names)
-    id_pos = header.known.get("id")
+    """Check one chunk and build its output rows (in row order, malformed rows included).
+
+    One row must never cost the others their results: should the chunk's check raise (a
+    defect: every input the generator of benchmarks/robustness.py finds is refused with a
+    message), the chunk is checked again in halves, down to the row at fault, which is
+    written as an error row naming its row."""
+    width = len(job.header.names)
     part = Part()
-    tables = []
-    if batch.num_rows:
-        cells = {key: batch.column(pos) for key, pos in header.known.items()}
-        result = evaluate_chunk(cells, rows, job.ctx, items=not job.want_bytes)
-        arrays = [batch.column(i) for i in range(width)]
-        arrays += [result.columns[name] for name in cols.result_names(list(header.names))]
-        tbl = pa.Table.from_arrays(arrays, schema=schema)
-        if not job.want_bytes:  # the reader gets each row's messages as a list too
-            tbl = tbl.append_column(MESSAGE_ITEMS, result.items)
-        tables.append(tbl)
-        tally_rows(part, result, rows, batch, id_pos)
+    tables = _checked_tables(job, batch, rows, part)
     if bad:
-        bad_table = bad_rows_table(bad, header, schema)
+        bad_table = bad_rows_table(bad, job.header, job.schema)
         if not job.want_bytes:
-            at = width + cols.result_names(list(header.names)).index("messages")
-            lines = bad_table.column(at).to_pylist()
-            bad_table = bad_table.append_column(
-                MESSAGE_ITEMS,
-                pa.array(
-                    [[{"severity": "error", "line": m}] for m in lines], pa.list_(MESSAGE_ITEM)
-                ),
-            )
+            bad_table = _with_items(job, bad_table)
         tables.append(bad_table)
-        tally_bad_rows(part, bad, header)
+        tally_bad_rows(part, bad, job.header)
     if not tables:
-        tbl = schema.empty_table()
+        tbl = job.schema.empty_table()
     elif len(tables) == 1:
         tbl = tables[0]
     else:
         tbl = pa.concat_tables(tables)
-        row_at = width + cols.result_names(list(header.names)).index("row")
+        row_at = width + cols.result_names(list(job.header.names)).index("row")
         tbl = tbl.take(pc.sort_indices(tbl.column(row_at)))
     if job.want_bytes:
+        if not job.keep_formulas:
+            tbl = neutralise(tbl)
         options = pcsv.WriteOptions(
-            include_header=False, delimiter=header.delimiter, quoting_style="needed"
+            include_header=False, delimiter=job.header.delimiter, quoting_style="needed"
         )
         buf = io.BytesIO()
         pcsv.write_csv(tbl, buf, options)
@@ -127,3 +127,60 @@ def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> Par
     else:
         part.table = tbl
     return part
+
+
+def _checked_tables(job: Job, batch: pa.RecordBatch, rows: np.ndarray, part: Part) -> list:
+    """The chunk's rows checked, as output tables in row order (empty list for none)."""
+    if not batch.num_rows:
+        return []
+    try:
+        return [_checked_table(job, batch, rows, part)]
+    except Exception as exc:  # noqa: BLE001 - a defect; the rows at fault are found below
+        if batch.num_rows > 1:
+            half = batch.num_rows // 2
+            return _checked_tables(job, batch.slice(0, half), rows[:half], part) + (
+                _checked_tables(job, batch.slice(half), rows[half:], part)
+            )
+        return [_unchecked_row(job, batch, int(rows[0]), exc, part)]
+
+
+def _checked_table(job: Job, batch: pa.RecordBatch, rows: np.ndarray, part: Part) -> pa.Table:
+    header, schema = job.header, job.schema
+    width = len(header.names)
+    cells = {key: batch.column(pos) for key, pos in header.known.items()}
+    result = evaluate_chunk(cells, rows, job.ctx, items=not job.want_bytes)
+    arrays = [batch.column(i) for i in range(width)]
+    arrays += [result.columns[name] for name in cols.result_names(list(header.names))]
+    tbl = pa.Table.from_arrays(arrays, schema=schema)
+    if not job.want_bytes:  # the reader gets each row's messages as a list too
+        tbl = tbl.append_column(MESSAGE_ITEMS, result.items)
+    own = Tally()  # counted apart, so a chunk that raises half-way counts nothing twice
+    tally_rows(own, result, rows, batch, header.known.get("id"))
+    add_tally(part, own)
+    return tbl
+
+
+def _unchecked_row(job: Job, batch: pa.RecordBatch, number: int, exc: Exception, part: Part):
+    """The one row whose check raised, written as read with an error naming its row."""
+    width = len(job.header.names)
+    cells = [batch.column(i)[0].as_py() or "" for i in range(width)]
+    text = (
+        f"ERROR row {number}: this row could not be checked (internal error: "
+        f"{type(exc).__name__}); please report it with the row"
+    )
+    tbl = error_rows_table([cells], [number], [text], width, job.schema)
+    if not job.want_bytes:
+        tbl = _with_items(job, tbl)
+    id_pos = job.header.known.get("id")
+    tally_error_row(part, number, "" if id_pos is None else str(cells[id_pos]).strip(), text)
+    return tbl
+
+
+def _with_items(job: Job, tbl: pa.Table) -> pa.Table:
+    """An error table with the messages column the app reads, one error item per row."""
+    at = len(job.header.names) + cols.result_names(list(job.header.names)).index("messages")
+    lines = tbl.column(at).to_pylist()
+    return tbl.append_column(
+        MESSAGE_ITEMS,
+        pa.array([[{"severity": "error", "line": m}] for m in lines], pa.list_(MESSAGE_ITEM)),
+    )

@@ -13,8 +13,10 @@ with status ``error`` in its place.
 from __future__ import annotations
 
 import collections
+import contextlib
 import io
 import os
+import sys
 from collections.abc import Callable
 from pathlib import Path
 from typing import BinaryIO
@@ -25,6 +27,7 @@ import pyarrow.compute as pc
 import pyarrow.csv as pcsv
 
 from curvetui.batch.chunk import BatchContext
+from curvetui.batch.formulas import neutral_text, neutralise
 from curvetui.batch.header import HEAD_BYTES, BatchFileError, read_header
 from curvetui.batch.output import Job, Part, output_schema, process_chunk
 from curvetui.batch.summary import Summary, finish, merge
@@ -81,6 +84,8 @@ class _Numbering:
         self.delivered = 0
 
     def handler(self, row) -> str:
+        # pyarrow decodes the row's text before calling this; a row that is not UTF-8 never
+        # gets here: pyarrow reports that decoding error as "unraisable" (see _undecodable)
         number = row.number if row.number is not None else -1
         self.skipped.append(number)
         if row.text.strip():
@@ -108,10 +113,14 @@ def run_batch(
     on_table: Callable[[pa.Table], None] | None = None,
     block_size: int = BLOCK_SIZE,
     workers: int | None = None,
+    keep_formulas: bool = False,
 ) -> Summary:
     """Check every row of ``source`` (a path or a binary stream) and write the rows with
     their results to ``sink`` as CSV (the input's separator); ``on_table`` gets each output
     chunk as a pyarrow table too. Raises BatchFileError when the file cannot be used.
+    Text cells that a spreadsheet would run as formulas are written with a leading
+    apostrophe unless ``keep_formulas`` (see curvetui.batch.formulas); ``on_table`` gets
+    them as read.
 
     Chunks are checked on ``workers`` threads (default: one per core), each taking whole
     chunks; their output is written in the input's order."""
@@ -137,6 +146,7 @@ def run_batch(
             on_table,
             block_size,
             workers,
+            keep_formulas,
         )
     finally:
         if isinstance(source, str | Path):
@@ -144,7 +154,18 @@ def run_batch(
 
 
 def _run(
-    header, stream, total, sink, units, table, limits, progress, on_table, block_size, workers
+    header,
+    stream,
+    total,
+    sink,
+    units,
+    table,
+    limits,
+    progress,
+    on_table,
+    block_size,
+    workers,
+    keep_formulas=False,
 ):
     width = len(header.names)
     names = [f"c{i}" for i in range(width)]
@@ -158,33 +179,20 @@ def _run(
         decimal_comma=header.decimal_comma,
     )
     try:
-        reader = pcsv.open_csv(
-            pa.PythonFile(stream, mode="r"),
-            read_options=pcsv.ReadOptions(
-                column_names=names, skip_rows=1, block_size=block_size, use_threads=False
-            ),
-            parse_options=pcsv.ParseOptions(
-                delimiter=header.delimiter,
-                newlines_in_values=True,
-                ignore_empty_lines=False,
-                invalid_row_handler=numbering.handler,
-            ),
-            convert_options=pcsv.ConvertOptions(
-                column_types={name: pa.string() for name in names},
-                strings_can_be_null=False,
-                quoted_strings_can_be_null=False,
-            ),
-        )
+        with _undecodable() as undecodable:
+            reader = _open(stream, names, block_size, header, numbering)
     except pa.ArrowInvalid as exc:
-        raise BatchFileError(_arrow_words(exc)) from None
+        raise BatchFileError(_NOT_UTF8 if undecodable else _arrow_words(exc)) from None
     except StopIteration:  # pragma: no cover - header only, handled below
         reader = None
 
     summary = Summary(delimiter=header.delimiter, columns=tuple(schema.names))
-    job = Job(header, schema, ctx, want_bytes=sink is not None and on_table is None)
+    job = Job(header, schema, ctx, sink is not None and on_table is None, keep_formulas)
+    written = (lambda t: t) if keep_formulas else neutralise
     options = pcsv.WriteOptions(delimiter=header.delimiter, quoting_style="needed")
     if sink is not None:
-        pcsv.write_csv(schema.empty_table(), sink, options)  # the header row
+        names = schema.names if keep_formulas else [neutral_text(n) for n in schema.names]
+        pcsv.write_csv(schema.empty_table().rename_columns(names), sink, options)  # header
     worst: list[tuple[float, int, str, str, str]] = []
     pool = None
     pending: collections.deque = collections.deque()
@@ -194,7 +202,7 @@ def _run(
             sink.write(part.data)
         if part.table is not None:
             if sink is not None:
-                pcsv.write_csv(part.table, sink, _no_header(options))
+                pcsv.write_csv(written(part.table), sink, _no_header(options))
             if on_table is not None:
                 on_table(part.table)
         merge(summary, part, worst)
@@ -204,17 +212,24 @@ def _run(
     try:
         while True:
             try:
-                batch = reader.read_next_batch()
+                with _undecodable() as undecodable:
+                    batch = reader.read_next_batch()
             except StopIteration:
                 break
             except pa.ArrowInvalid as exc:
+                if undecodable:
+                    raise BatchFileError(_NOT_UTF8) from None
                 raise BatchFileError(_arrow_words(exc)) from None
             rows = numbering.numbers(batch.num_rows)
             keep = _not_blank(batch, header.known["kind"])
             if keep is not None:
                 summary.blank += int(np.sum(~keep))
                 batch, rows = batch.filter(pa.array(keep)), rows[keep]
-            bad, numbering.bad = numbering.bad, []
+            # malformed rows up to this chunk's last row go with it; pyarrow may report
+            # later ones while reading ahead, and they wait for their own chunk
+            last = int(rows[-1]) if len(rows) else -1
+            bad = [b for b in numbering.bad if b[0] <= last]
+            numbering.bad = [b for b in numbering.bad if b[0] > last]
             if not job.want_bytes or workers < 2:
                 take(process_chunk(job, batch, rows, bad))  # in order, here (the app, one core)
                 continue
@@ -268,11 +283,36 @@ def _not_blank(batch: pa.RecordBatch, kind_pos: int) -> np.ndarray | None:
     return ~blank.to_numpy(zero_copy_only=False)
 
 
+_NOT_UTF8 = "the file is not UTF-8 text; save it as UTF-8 (with or without a BOM)"
+
+
 def _arrow_words(exc: Exception) -> str:
     text = str(exc).split("\n")[0]
     if "UTF8" in text or "utf8" in text.lower():
-        return "the file is not UTF-8 text; save it as UTF-8 (with or without a BOM)"
+        return _NOT_UTF8
     return f"cannot read the file as CSV: {text}"
+
+
+@contextlib.contextmanager
+def _undecodable():
+    """While pyarrow reads a block: a row with the wrong number of fields that is not UTF-8
+    makes pyarrow's call of our row handler fail on decoding the row's text, which Python
+    would print as "Exception ignored ... Traceback". Such errors are kept in the list
+    yielded instead (pyarrow then stops with a parse error, reported as not UTF-8)."""
+    seen: list[BaseException] = []
+    previous = sys.unraisablehook
+
+    def hook(info) -> None:
+        if isinstance(info.exc_value, UnicodeDecodeError):
+            seen.append(info.exc_value)
+        else:
+            previous(info)
+
+    sys.unraisablehook = hook
+    try:
+        yield seen
+    finally:
+        sys.unraisablehook = previous
 
 
 def batch_bytes(text: str | bytes, units, table, limits, **kw) -> tuple[bytes, Summary]:
@@ -281,3 +321,24 @@ def batch_bytes(text: str | bytes, units, table, limits, **kw) -> tuple[bytes, S
     sink = io.BytesIO()
     summary = run_batch(io.BytesIO(data), sink, units, table, limits, **kw)
     return sink.getvalue(), summary
+
+
+def _open(stream, names, block_size, header, numbering):
+    """pyarrow's streaming CSV reader (it reads the first block at once)."""
+    return pcsv.open_csv(
+        pa.PythonFile(stream, mode="r"),
+        read_options=pcsv.ReadOptions(
+            column_names=names, skip_rows=1, block_size=block_size, use_threads=False
+        ),
+        parse_options=pcsv.ParseOptions(
+            delimiter=header.delimiter,
+            newlines_in_values=True,
+            ignore_empty_lines=False,
+            invalid_row_handler=numbering.handler,
+        ),
+        convert_options=pcsv.ConvertOptions(
+            column_types={name: pa.string() for name in names},
+            strings_can_be_null=False,
+            quoted_strings_can_be_null=False,
+        ),
+    )

@@ -129,3 +129,21 @@ def tally_bad_rows(part: Tally, bad, header: Header) -> None:
                 f"ERROR row {number}: {actual} fields where the header has {len(header.names)}",
             )
         )
+
+
+def tally_error_row(part: Tally, number: int, ident: str, text: str) -> None:
+    """Count one row written as an error (a row whose check raised), keeping its message."""
+    part.rows += 1
+    part.errors += 1
+    if len(part.first_errors) < WORST_SHOWN:
+        part.first_errors.append(Worst(np.nan, number, ident, "", text))
+
+
+def add_tally(part: Tally, other: Tally) -> None:
+    """Add ``other``'s counts, worst failures and first errors to ``part``."""
+    part.rows += other.rows
+    part.passed += other.passed
+    part.failed += other.failed
+    part.errors += other.errors
+    part.worst += other.worst
+    part.first_errors += other.first_errors[: max(WORST_SHOWN - len(part.first_errors), 0)]

@@ -41,9 +41,11 @@ class Field:
 
     ``ranges`` maps a kind ("road"/"rail") to (lo, hi): in metres for LENGTH and STATION
     fields (converted for US units), else per unit system as {"metric": (lo, hi), "us": ...}
-    or the same pair for both. ``lo_open`` excludes lo itself. ``needs`` names a field
-    that must be given too. ``aliases`` are other batch column names for the field.
-    ``choices`` are the words a CHOICE field takes (its value is the word's position).
+    or the same pair for both. ``lo_open`` excludes lo itself. ``least`` is the smallest
+    value above lo that the arithmetic can use (0: any): below it a value is refused with
+    the range from ``least``. ``needs`` names a field that must be given too. ``aliases``
+    are other batch column names for the field. ``choices`` are the words a CHOICE field
+    takes (its value is the word's position).
     """
 
     key: str
@@ -54,6 +56,7 @@ class Field:
     ranges: dict
     required: tuple[str, ...] = ()
     lo_open: bool = False
+    least: float = 0.0
     needs: str = ""
     option: str = ""
     aliases: tuple[str, ...] = ()
@@ -157,6 +160,9 @@ FIELDS: tuple[Field, ...] = (
         "deflection angle at the PI (0 to 179 degrees)",
         {ROAD: (0.0, 179.0), RAIL: (0.0, 179.0)},
         lo_open=True,
+        # in radians, smaller angles are subnormal or zero: T, L and the spiral angles would
+        # lose their digits without a word (numerical floor, no source)
+        least=1e-300,
     ),
     _f(
         "pi_station",
@@ -359,6 +365,7 @@ def docs_table() -> str:
                 r = f.allowed(kind, units)
                 if r is not None:
                     lo = f"more than {r[0]:g}" if f.lo_open else f"{r[0]:g}"
+                    lo += f" (at least {f.least:g})" if f.least else ""
                     pair.append(f"{lo} to {r[1]:g}")
             if pair:
                 text = pair[0] if pair[0] == pair[1] else " / ".join(pair)

@@ -250,6 +250,8 @@ def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n, limi
         lo_a, hi_a = lo_a - 1e-12 * np.abs(lo_a), hi_a + 1e-12 * np.abs(hi_a)
     with np.errstate(invalid="ignore"):
         out = (v < lo_a) | (v > hi_a) | ((v == lo_a) if f.lo_open else False)
+        tiny = ~out & (v < f.least) if f.least else np.zeros(n, bool)
+    out |= tiny
     if f.key == "low_speed":  # no range to check against while the speed itself is bad
         out &= np.isfinite(hi_a)
     wrong = rows & col.present & (col.bad | out)
@@ -257,11 +259,14 @@ def _range_issues(f: Field, kind, rows, col: Column, units, table, cols, n, limi
     for i in np.nonzero(wrong)[0]:
         unit_i = unit if isinstance(unit, str) else str(unit[i])
         allowed_txt = range_text(float(lo_a[i]), float(hi_a[i]), unit_i, f.lo_open)
+        if tiny[i] and not col.bad[i]:  # above lo, yet too small to compute with
+            allowed_txt = range_text(f.least, float(hi_a[i]), unit_i)
         if col.bad[i]:
             if f.unit == STATION:
                 allowed_txt = "must be a station such as 2+710.5 or a number"
             got = _shown(col.cell(int(i)))
-        else:
-            got = _bound(float(v[i]))
+        else:  # a subnormal number in shortest form (1e-320, not 9.99989e-321)
+            x = float(v[i])
+            got = _bound(x) if x == 0 or abs(x) >= 1e-300 else repr(x)
         found.append(Issue(int(i), f.key, f"{allowed_txt}, got {got}"))
     return found

@@ -4,9 +4,11 @@ from __future__ import annotations
 
 import argparse
 import sys
+from pathlib import Path
 
 from curvetui import __version__
 from curvetui.inputs import InputError
+from curvetui.screen_text import clean
 
 # Each sub-command's module imports what its run needs when it runs (the engine, Rich,
 # pyarrow, jsonschema, Textual), and main() builds only the sub-command given, so a start
@@ -17,7 +19,7 @@ class _Parser(argparse.ArgumentParser):
     """An argument parser whose errors are one line and exit code 2."""
 
     def error(self, message: str):  # noqa: D401 - argparse hook
-        sys.stderr.write(f"{self.prog}: error: {message}\n")
+        sys.stderr.write(clean(f"{self.prog}: error: {message}", one_line=True) + "\n")
         raise SystemExit(2)
 
 
@@ -102,8 +104,30 @@ def _table_error() -> type[Exception]:
     return TableError
 
 
+INTERNAL_ERROR = 3  # a defect in curvetui, never bad input nor a failed check
+
+
 def main(argv: list[str] | None = None) -> int:
-    """Run the command line; returns the exit code (0 pass, 1 a check failed, 2 bad input)."""
+    """Run the command line; returns the exit code (0 pass, 1 a check failed, 2 bad input,
+    3 an internal error: a defect, reported in one line instead of a traceback)."""
+    try:
+        return _main(argv)
+    except KeyboardInterrupt:
+        sys.stderr.write("curvetui: interrupted\n")
+        return 130
+    except Exception as exc:  # noqa: BLE001 - the last resort: every cause is fixed where it arises
+        tb = exc.__traceback__
+        while tb is not None and tb.tb_next is not None:
+            tb = tb.tb_next
+        where = f" at {Path(tb.tb_frame.f_code.co_filename).name}:{tb.tb_lineno}" if tb else ""
+        sys.stderr.write(
+            f"curvetui: internal error ({type(exc).__name__}{where}); this is a defect in "
+            "curvetui, not in your input: please report it with the command that caused it\n"
+        )
+        return INTERNAL_ERROR
+
+
+def _main(argv: list[str] | None) -> int:
     argv = list(sys.argv[1:] if argv is None else argv)
     from curvetui.cli import project_cmd
 
@@ -144,12 +168,11 @@ def _run(args) -> int:
     try:
         return int(args.run(args))
     except _project_error() as exc:
-        sys.stderr.write(f"curvetui: error: {exc.path}: cannot use this project file:\n")
-        for problem in exc.problems:
-            sys.stderr.write(f"  {problem}\n")
-        return 2
+        from curvetui.cli.project_cmd import report_problems
+
+        return report_problems(exc)
     except (InputError, _table_error()) as exc:
-        sys.stderr.write(f"curvetui: error: {exc}\n")
+        sys.stderr.write(clean(f"curvetui: error: {exc}") + "\n")
         return 2
     except BrokenPipeError:
         # the reader (e.g. `head`) closed the pipe: stop quietly, as shell tools do
@@ -157,5 +180,5 @@ def _run(args) -> int:
         return 0
     except OSError as exc:
         where = exc.filename or "file"
-        sys.stderr.write(f"curvetui: error: {where}: {exc.strerror or exc}\n")
+        sys.stderr.write(clean(f"curvetui: error: {where}: {exc.strerror or exc}") + "\n")
         return 2

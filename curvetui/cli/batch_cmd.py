@@ -11,6 +11,8 @@ from typing import TYPE_CHECKING
 from curvetui import CAUTION
 from curvetui.batch import columns as cols
 from curvetui.cli.common import add_units_option
+from curvetui.inputs import InputError
+from curvetui.screen_text import clean, markup
 
 if TYPE_CHECKING:
     from rich.console import Console
@@ -27,7 +29,9 @@ def add_parser(sub) -> None:
         help="check every bend of a CSV file",
         description="Check every road bend and rail curve of a CSV file. Columns (any case, "
         "any order): " + ", ".join(cols.INPUTS) + "; other columns are carried through. "
-        "Writes every input column, the results, row, status and messages. Exit code 0 when "
+        "Writes every input column, the results, row, status and messages; a text cell that "
+        "a spreadsheet would run as a formula (not a number, starting with =, +, -, @, tab or "
+        "CR) is written with a leading apostrophe unless --keep-formulas. Exit code 0 when "
         "every bend passes, 1 when any fails or has an error, 2 when the file cannot be used.",
     )
     p.add_argument("input", help="CSV file to check, or - for standard input")
@@ -40,15 +44,25 @@ def add_parser(sub) -> None:
     add_units_option(p)
     p.add_argument("--table", help="road design table by name or .toml path")
     p.add_argument("--limits", help="rail limits by name or .toml path")
+    p.add_argument(
+        "--keep-formulas",
+        action="store_true",
+        help="write text cells that start with =, +, -, @, tab or CR as they are (by default "
+        "they get a leading apostrophe, so a spreadsheet shows them instead of running them)",
+    )
     p.set_defaults(run=run)
 
 
 def _output_path(args) -> str:
+    if args.input != "-" and os.path.isdir(args.input):
+        raise InputError(f"{args.input}: is a folder; name a CSV file to check (or - for stdin)")
     if args.output:
         return args.output
     if args.input == "-":
         return "-"
     path = Path(args.input)
+    if not path.name:
+        raise InputError(f"{args.input!r}: not a file name; name a CSV file to check")
     return str(path.with_name(path.stem + ".checked.csv"))
 
 
@@ -69,7 +83,10 @@ def run(args: argparse.Namespace) -> int:
     out_path = _output_path(args)
     if args.input != "-" and out_path != "-":
         if os.path.exists(out_path) and os.path.samefile(args.input, out_path):
-            err.print(f"curvetui: error: {out_path}: the output would overwrite the input")
+            err.print(
+                clean(f"curvetui: error: {out_path}: the output would overwrite the input"),
+                markup=False,
+            )
             return 2
     source = sys.stdin.buffer if args.input == "-" else args.input
     progress = Progress(
@@ -82,6 +99,7 @@ def run(args: argparse.Namespace) -> int:
         disable=not err.is_terminal,
     )
     task = progress.add_task("batch", total=None, rows=0)
+    keep = args.keep_formulas
 
     def tick(done: int, total: int | None, rows: int) -> None:
         progress.update(task, completed=done, total=total, rows=rows)
@@ -89,14 +107,18 @@ def run(args: argparse.Namespace) -> int:
     try:
         with progress:
             if out_path == "-":
-                summary = run_batch(source, sys.stdout.buffer, units, table, limits, tick)
+                summary = run_batch(
+                    source, sys.stdout.buffer, units, table, limits, tick, keep_formulas=keep
+                )
                 sys.stdout.buffer.flush()
             else:
                 with atomic_binary(out_path) as sink:
-                    summary = run_batch(source, sink, units, table, limits, tick)
+                    summary = run_batch(
+                        source, sink, units, table, limits, tick, keep_formulas=keep
+                    )
     except BatchFileError as exc:
         name = "standard input" if args.input == "-" else args.input
-        err.print(f"curvetui: error: {name}: {exc}", markup=False)
+        err.print(clean(f"curvetui: error: {name}: {exc}"), markup=False)
         return 2
     print_summary(err, summary, out_path, table, limits)
     return summary.exit_code
@@ -124,7 +146,7 @@ def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> Non
             worst.add_column(name, overflow="fold")
         for w in s.worst:
             ratio = f"{100 * w.utilisation:.0f} %" if w.utilisation > 0 else "-"
-            worst.add_row(str(w.row), w.id, w.kind, ratio, w.message)
+            worst.add_row(str(w.row), markup(w.id, True), w.kind, ratio, markup(w.message))
         err.print(worst)
     if s.first_errors:
         errors = Table(title=f"Rows with errors (first {len(s.first_errors)} of {s.errors:,})")
@@ -132,10 +154,10 @@ def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> Non
         errors.add_column("id")
         errors.add_column("message", overflow="fold")
         for w in s.first_errors:
-            errors.add_row(str(w.row), w.id, w.message)
+            errors.add_row(str(w.row), markup(w.id, True), markup(w.message))
         err.print(errors)
-    err.print(f"road table: {table.name} ({table.source})", markup=False)
-    err.print(f"rail limits: {limits.name} ({limits.source})", markup=False)
+    err.print(clean(f"road table: {table.name} ({table.source})"), markup=False)
+    err.print(clean(f"rail limits: {limits.name} ({limits.source})"), markup=False)
     if out_path != "-":
-        err.print(f"results written to {out_path}", markup=False)
+        err.print(clean(f"results written to {out_path}"), markup=False)
     err.print(f"[bold yellow]{CAUTION}[/]")

@@ -10,6 +10,7 @@ from typing import TYPE_CHECKING
 
 from curvetui.cli.common import console, print_caution, print_json
 from curvetui.inputs import InputError
+from curvetui.screen_text import clean, markup
 
 if TYPE_CHECKING:
     from curvetui.storage.project.files import ProjectError
@@ -101,9 +102,9 @@ def add_open_parser(sub) -> None:
 
 
 def report_problems(exc: ProjectError) -> int:
-    sys.stderr.write(f"curvetui: error: {exc.path}: cannot use this project file:\n")
+    sys.stderr.write(clean(f"curvetui: error: {exc.path}: cannot use this project file:\n"))
     for p in exc.problems:
-        sys.stderr.write(f"  {p}\n")
+        sys.stderr.write(clean(f"  {p}", one_line=True) + "\n")
     return 2
 
 
@@ -118,7 +119,7 @@ def _run_new(args) -> int:
         raise InputError(f"{path}: already exists; choose another name")
     project = Project(Details(name=args.name or path.stem, units=args.units))
     save_project(project, path, exclusive=True)
-    console().print(f"Created {path} ({args.units} units).", markup=False)
+    console().print(clean(f"Created {path} ({args.units} units)."), markup=False)
     return 0
 
 
@@ -191,13 +192,15 @@ def _open_csv(path: Path, args) -> int:
             summary = run_batch(path, None, units, table, limits, workers=1)
             out = console()
             out.print(
-                f"{path}: checked (`curvetui batch {path}` writes every row with its results)",
+                clean(
+                    f"{path}: checked (`curvetui batch {path}` writes every row with its results)"
+                ),
                 markup=False,
             )
             print_summary(out, summary, "-", table, limits)
             return 0
     except BatchFileError as exc:
-        sys.stderr.write(f"curvetui: error: {path}: cannot use this CSV file: {exc}\n")
+        sys.stderr.write(clean(f"curvetui: error: {path}: cannot use this CSV file: {exc}") + "\n")
         return 2
     from curvetui.app.batch_view import BatchApp
 
@@ -267,9 +270,10 @@ def print_outcomes(project, ctx, outcomes, notes) -> None:
     out = console()
     d = project.details
     grid = Table(
-        title=f"{d.name} - job {d.job_number}",
-        caption=f"road table {ctx.table.name}; rail limits {ctx.limits.name}; speeds "
-        f"{units.speed_label}, lengths {units.length_label}, cant {units.cant_label}",
+        title=f"{markup(d.name, True)} - job {markup(d.job_number, True)}",
+        caption=f"road table {markup(ctx.table.name, True)}; rail limits "
+        f"{markup(ctx.limits.name, True)}; speeds {units.speed_label}, lengths "
+        f"{units.length_label}, cant {units.cant_label}",
         box=box.SIMPLE_HEAD,
         padding=(0, 1, 0, 0),
         pad_edge=False,
@@ -285,25 +289,26 @@ def print_outcomes(project, ctx, outcomes, notes) -> None:
     for o in outcomes:
         b, r = o.bend, o.record
         station = format_station(b.station, units.name, 1)
+        ident, kind = markup(b.id, True), markup(b.kind, True)
         if r is None:
-            grid.add_row(b.id, b.kind, station, "", "", "", "", "", "[bold magenta]ERROR[/]")
+            grid.add_row(ident, kind, station, "", "", "", "", "", "[bold magenta]ERROR[/]")
             lines.append(f"{b.id}: ERROR {o.error}")
             continue
         if b.kind == "road":
-            key = f"f {r['side_friction_demand']:.3f}"
-            limit = f"{r['side_friction_max']:.3f}"
-            safe = f"{r['safe_speed']:.1f}"
+            key = f"f {_num(r['side_friction_demand'], '.3f')}"
+            limit = _num(r["side_friction_max"], ".3f")
+            safe = _num(r["safe_speed"], ".1f")
         else:
-            key = f"D {r['cant_deficiency']:.1f}"
-            limit = f"{r['deficiency_limit']:.1f}"
-            safe = f"{r['max_speed']:.1f}"
+            key = f"D {_num(r['cant_deficiency'], '.1f')}"
+            limit = _num(r["deficiency_limit"], ".1f")
+            safe = _num(r["max_speed"], ".1f")
         colour = "red" if r["status"] == "fail" else "green"
         grid.add_row(
-            b.id,
-            b.kind,
+            ident,
+            kind,
             station,
-            f"{r['speed']:g}",
-            f"{r['radius']:g}",
+            _num(r["speed"], "g"),
+            _num(r["radius"], "g"),
             key,
             limit,
             safe,
@@ -312,5 +317,10 @@ def print_outcomes(project, ctx, outcomes, notes) -> None:
         lines += [f"{b.id}: {message_line(m)}" for m in r["messages"]]
     out.print(grid)
     for line in lines + notes:
-        out.print(f"  - {line}", markup=False)
+        out.print(clean(f"  - {line}"), markup=False)
     print_caution(out)
+
+
+def _num(value, spec: str) -> str:
+    """A number of a record as the table shows it; "-" where the record has none (null)."""
+    return "-" if value is None else format(value, spec)

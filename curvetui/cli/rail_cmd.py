@@ -7,6 +7,7 @@ from typing import TYPE_CHECKING
 
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution
+from curvetui.screen_text import markup
 
 if TYPE_CHECKING:
     from curvetui.core.units import UnitSystem
@@ -49,8 +50,8 @@ def print_rail(record: dict, units: UnitSystem) -> None:
     grid = Table(
         title=f"Rail curve: {record['speed']:g} {units.speed_label}{low}, R {record['radius']:g} "
         f"{units.length_label}, cant {record['cant']:g} {units.cant_label}",
-        caption=f"limits: {record['limits']}"
-        + (f", {record['traffic']} traffic" if record.get("traffic") else ""),
+        caption=f"limits: {markup(record['limits'])}"
+        + (f", {markup(record['traffic'])} traffic" if record.get("traffic") else ""),
     )
     grid.add_column("Quantity")
     grid.add_column("Value", justify="right")

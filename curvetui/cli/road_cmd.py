@@ -7,6 +7,7 @@ from typing import TYPE_CHECKING
 
 from curvetui.cli import geometry_opts as geo
 from curvetui.cli.common import add_units_option, console, print_caution
+from curvetui.screen_text import clean, markup
 
 if TYPE_CHECKING:
     from curvetui.core.units import UnitSystem
@@ -52,7 +53,7 @@ def print_road(record: dict, units: UnitSystem) -> None:
         f"Road bend: {record['speed']:g} {units.speed_label}, R {record['radius']:g} "
         f"{units.length_label}, e_max {record['e_max']:g} %"
     )
-    grid = Table(title=title, caption=f"table: {record['table']}")
+    grid = Table(title=title, caption=f"table: {markup(record['table'])}")
     grid.add_column("Quantity")
     grid.add_column("Value", justify="right")
     grid.add_column("Unit")
@@ -104,4 +105,4 @@ def print_messages(out, record: dict) -> None:
     from curvetui.bend.messages import message_line
 
     for m in record["messages"]:
-        out.print(f"  - {message_line(m)}", markup=False)
+        out.print(f"  - {clean(message_line(m))}", markup=False)

@@ -52,9 +52,9 @@ def run(args: argparse.Namespace) -> int:
     from curvetui.core.units import unit_system
 
     units = unit_system(args.units)
-    if args.deflection is None:
-        raise InputError("--deflection: needed for setting out (degrees, 0 to 179)")
     g = geometry_inputs(geo.raw_inputs(args, GEOMETRY_KEYS), units, cli_name)
+    if g is None:  # not given, or given blank
+        raise InputError("--deflection: needed for setting out (degrees, 0 to 179)")
     radius = units.length_to_si(parse_number("--radius", args.radius, 1, 1e5, units.length_label))
     big = 1e8
     e = units.length_to_si(parse_number("--pi-easting", args.pi_easting, -big, big))

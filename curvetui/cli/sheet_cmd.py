@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import sys
 
+from curvetui.screen_text import clean
+
 
 def add_parser(sub) -> None:
     p = sub.add_parser(
@@ -54,5 +56,5 @@ def _run_sheet(args) -> int:
         atomic_write_bytes(target, result)
     else:
         atomic_write_text(target, result)
-    sys.stderr.write(f"Worksheets written: {target}\n")
+    sys.stderr.write(clean(f"Worksheets written: {target}") + "\n")
     return 0

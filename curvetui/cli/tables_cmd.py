@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from curvetui.cli.common import console, print_caution, print_json
+from curvetui.screen_text import clean, markup
 
 
 def add_parser(sub) -> None:
@@ -12,7 +13,6 @@ def add_parser(sub) -> None:
 
 
 def run(args) -> int:
-    from curvetui.cli.common import printable
     from curvetui.storage.tables import (
         rail_limit_sets,
         road_tables,
@@ -60,18 +60,22 @@ def run(args) -> int:
         lo, hi = r["speeds"]
         how = f", {r['distribution']}" if r["distribution"] else ""
         span = f"{lo:g}-{hi:g}" if lo else f"up to {hi:g}"
-        out.print(f"[bold]{r['name']}[/]  {r['kind']}, {r['units']}, {span} {unit}{how}")
-        out.print(f"  {r['title']}", markup=False)
-        out.print(f"  source: {r['source']}", markup=False)
-        out.print(f"  file: {r['file']}\n", markup=False)
+        out.print(
+            f"[bold]{markup(r['name'], True)}[/]  {r['kind']}, {r['units']}, {span} {unit}"
+            + markup(how, True)
+        )
+        out.print(clean(f"  {r['title']}"), markup=False)
+        out.print(clean(f"  source: {r['source']}"), markup=False)
+        out.print(clean(f"  file: {r['file']}\n"), markup=False)
     skipped = skipped_files()
     if skipped:
         out.print(f"[bold red]Skipped ({len(skipped)}): these user files were not loaded[/]")
         for path, why in skipped.items():
-            out.print(f"  {printable(path)}: {printable(why)}", markup=False, soft_wrap=True)
+            out.print(clean(f"  {path}: {why}"), markup=False, soft_wrap=True)
         out.print()
     out.print(
-        "User tables are read from: " + ", ".join(str(d) for d in user_table_dirs()), markup=False
+        clean("User tables are read from: " + ", ".join(str(d) for d in user_table_dirs())),
+        markup=False,
     )
     print_caution(out)
     return 0

@@ -56,6 +56,7 @@ __all__ = [
 # theta1 + theta2 may exceed Delta by this relative amount (float rounding, e.g. a
 # spiral-spiral bend whose Ls was computed as R Delta) before the spirals count as overlapping.
 OVERLAP_TOLERANCE = 1e-12
+RADIUS_SUGGESTED_MAX = 1e6  # [m] a larger radius (over 1000 km) is no bend: not suggested
 
 
 def _check_spiral_length(ls, name: str) -> None:
@@ -287,8 +288,8 @@ def overlap_message(r: float, d: float, l1: float, l2: float, where: str = "") -
     r_need = (l1 + l2) / (2.0 * d) * 100.0
     radius = (
         f"use a radius of at least {math.ceil(r_need) / 100.0:.2f} m, "
-        if math.isfinite(r_need)
-        else ""  # a deflection so small that no radius would do
+        if r_need <= RADIUS_SUGGESTED_MAX * 100.0
+        else ""  # a deflection so small that no radius a bend could have would do
     )
     return (
         f"spirals overlap{where}: spiral angles {a}° + {b}° exceed the deflection {c}°; "

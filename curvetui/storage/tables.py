@@ -9,6 +9,7 @@ where a table name is asked for. Files are read once per process.
 
 from __future__ import annotations
 
+import math
 import os
 from functools import cache
 from importlib import resources
@@ -50,12 +51,29 @@ def _need(mapping: dict, key: str, where: str, kind: type | tuple[type, ...]):
 
 
 def _number(mapping: dict, key: str, where: str, lo: float, hi: float) -> float:
-    value = float(_need(mapping, key, where, (int, float)))
+    given = _need(mapping, key, where, (int, float))
+    try:
+        value = float(given)
+    except OverflowError:  # an integer beyond any float
+        value = math.inf if given > 0 else -math.inf
     if not (lo <= value <= hi):
         raise TableError(
             f"{where}: '{key}' = {value:g} is outside the allowed range {lo:g} to {hi:g}"
         )
     return value
+
+
+def _optional(mapping: dict, key: str, where: str, lo: float, hi: float, default: float) -> float:
+    """_number where the key may be left out (``default`` then)."""
+    return _number(mapping, key, where, lo, hi) if key in mapping else default
+
+
+def _numbers(mapping: dict, key: str, where: str, lo: float, hi: float) -> list[float]:
+    """An optional list of numbers, each within [lo, hi]."""
+    values = mapping.get(key, [])
+    if not isinstance(values, list):
+        raise TableError(f"{where}: '{key}' must be a list of numbers, got {values!r}")
+    return [_number({key: v}, key, where, lo, hi) for v in values]
 
 
 def parse_road_table(data: dict, path: str = "") -> RoadTable:
@@ -74,8 +92,14 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
     emin = _number(emax, "min", f"{where} emax", 0, 20)
     emx = _number(emax, "max", f"{where} emax", emin, 20)
     edef = _number(emax, "default", f"{where} emax", emin, emx)
-    tabulated = emax.get("tabulated", [])
+    tabulated = _numbers(emax, "tabulated", f"{where} emax", 0, 20)
     rounding = head.get("radius_rounding", {})
+    if not isinstance(rounding, dict):
+        raise TableError(f"{where}: 'radius_rounding' must be a table of values")
+    rw = f"{where} radius_rounding"
+    sig = _optional(rounding, "significant_figures", rw, 1, 15, 3)
+    if sig != int(sig):
+        raise TableError(f"{rw}: 'significant_figures' must be a whole number, got {sig:g}")
     rows = _need(data, "rows", label, list)
     if len(rows) < 2:
         raise TableError(f"{label}: needs at least two [[rows]]")
@@ -96,7 +120,7 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
         if distribution == "aashto-method-5":
             vr = _number(row, "running_speed", rw, 1, 400)
         else:
-            vr = float(row.get("running_speed", cols["speed"][-1]))
+            vr = _optional(row, "running_speed", rw, 1, 400, cols["speed"][-1])
         cols["running_speed"].append(vr)
         cols["relative_gradient"].append(_number(row, "relative_gradient", rw, 0.01, 5.0))
         cols["spiral_radius_max"].append(
@@ -134,7 +158,7 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
         emax_default=edef / 100.0,
         emax_min=emin / 100.0,
         emax_max=emx / 100.0,
-        emax_tabulated=tuple(float(t) / 100.0 for t in tabulated),
+        emax_tabulated=tuple(t / 100.0 for t in tabulated),
         normal_crown=_number(head, "normal_crown", where, 0, 10) / 100.0
         if "normal_crown" in head
         else 0.02,
@@ -145,9 +169,9 @@ def parse_road_table(data: dict, path: str = "") -> RoadTable:
         if "normal_crown_limit" in head
         else 0.015,
         radius_rounding=RadiusRounding(
-            whole_below=float(rounding.get("whole_below", 1000)),
-            step=float(rounding.get("step", 1)),
-            significant_figures=int(rounding.get("significant_figures", 3)),
+            whole_below=_optional(rounding, "whole_below", rw, 0, 1e6, 1000),
+            step=_optional(rounding, "step", rw, 1e-3, 1e3, 1),
+            significant_figures=int(sig),
         ),
         path=path,
         spiral_radius_max=spiral_max if np.isfinite(spiral_max).any() else None,
@@ -169,7 +193,7 @@ def road_tables() -> dict[str, RoadTable]:
     tables: dict[str, RoadTable] = {}
     for _, path in _packaged_files("road"):
         data = read_table_file(path)
-        if "table" not in data or data["table"].get("kind", "road") != "road":
+        if not isinstance(data.get("table"), dict) or data["table"].get("kind", "road") != "road":
             continue
         table = parse_road_table(data, str(path))
         tables[table.name] = table
@@ -277,7 +301,7 @@ def parse_rail_limits(data: dict, path: str = ""):
         rail_centres=centres,
         **{k: np.array(v) for k, v in cols.items()},
         band_sources=tuple(sources),
-        cant_min=float(head.get("cant_min", 0)) * cant_unit,
+        cant_min=_optional(head, "cant_min", where, 0, cant_hi, 0) * cant_unit,
         path=path,
         radius_min=_number(head, "radius_min", where, 0, 10000)
         * (1.0 if units == "metric" else FOOT)

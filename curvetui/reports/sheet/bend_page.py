@@ -13,6 +13,7 @@ from curvetui.reports.sheet.layout import (
     headed_table,
     heading,
     key_value_table,
+    page_of,
     status_colour,
 )
 from curvetui.reports.sheet.plan_sketch import pdf_plan
@@ -30,8 +31,7 @@ def _title_block(pdf, s: SheetSet, b: BendSheet, page: int) -> None:
     pdf.set_text_color(0, 0, 0)
     pdf.set_font(FONT, "", 7.5)
     fields = [
-        (k, f"page {pdf.page_no()} of {{nb}}" if k == "Sheet" else v)
-        for k, v in s.title_fields(b, page)
+        (k, page_of(pdf.page_no()) if k == "Sheet" else v) for k, v in s.title_fields(b, page)
     ]
     label = FontFace(emphasis="BOLD", fill_color=(235, 235, 235))
     with pdf.table(

@@ -2,19 +2,23 @@
 
 from __future__ import annotations
 
+import dataclasses
+import math
 from dataclasses import dataclass, field
 
 from curvetui.bend.display import shown
 from curvetui.bend.messages import message_line
+from curvetui.bend.parse import to_number
 from curvetui.core.circular import GeometryError
 from curvetui.inputs import InputError
 from curvetui.reports.sheet.labels import DEFAULTS, FIELD_NAMES, FIELD_ORDER, UNIT_KIND
 from curvetui.reports.working import Step, rail_working, road_working
 from curvetui.results import unit_label
+from curvetui.screen_text import clean
 from curvetui.stations import format_station
 from curvetui.storage.project.checking import Context, Outcome, evaluate_project, project_context
 from curvetui.storage.project.files import load_project
-from curvetui.storage.project.model import Project
+from curvetui.storage.project.model import Details, Project
 
 
 @dataclass
@@ -41,13 +45,20 @@ class BendSheet:
 
 @dataclass
 class SheetSet:
-    """The project, its units and notes, and one BendSheet per printed bend."""
+    """The project, its units and notes, and one BendSheet per printed bend. ``details`` are
+    the project's details as printed: every text cleaned of control characters (see
+    curvetui.screen_text), as every text of the bend sheets and notes is."""
 
     project: Project
     source: str
     units: object
     bends: list[BendSheet]
     notes: list[str]
+    details: Details | None = None
+
+    def __post_init__(self) -> None:
+        if self.details is None:
+            self.details = cleaned(self.project.details)
 
     @property
     def pages(self) -> int:
@@ -55,7 +66,7 @@ class SheetSet:
 
     def title_fields(self, sheet: BendSheet, page: int) -> list[tuple[str, str]]:
         """A bend page's title block as (label, value) pairs, in reading order."""
-        d = self.project.details
+        d = self.details
         return [
             ("Project", d.name),
             ("Client", d.client or "-"),
@@ -90,8 +101,8 @@ def _inputs(bend, units) -> list[tuple[str, str, str]]:
         unit = {"deg": "deg", "station": units.length_label}.get(kind, unit_label(kind, units))
         if value is None or value == "":
             continue
-        if key == "pi_station" and isinstance(value, int | float):
-            text, unit = format_station(float(value), units.name), ""
+        if key == "pi_station" and math.isfinite(to_number(value)):
+            text, unit = format_station(to_number(value), units.name), ""
         else:
             text = _value_text(value)
         rows.append((FIELD_NAMES[key], text, unit))
@@ -202,7 +213,7 @@ def build(project_or_path, bend_ids=None) -> SheetSet:
         sheet = BendSheet(
             bend_id=bend.id,
             kind=bend.kind,
-            station=format_station(float(bend.station), units.name),
+            station=_station_text(bend.station, units),
             status=_status(outcome),
             speed="-" if speed is None else f"{_value_text(speed)} {units.speed_label}",
             radius="-" if radius is None else f"{_value_text(radius)} {units.length_label}",
@@ -215,8 +226,34 @@ def build(project_or_path, bend_ids=None) -> SheetSet:
             error=outcome.error,
         )
         _plan(outcome, units, sheet)
-        sheets.append(sheet)
-    return SheetSet(project, source, units, sheets, list(notes))
+        sheets.append(cleaned(sheet))
+    return SheetSet(project, source, units, sheets, cleaned(list(notes)))
+
+
+def _station_text(value, units) -> str:
+    number = to_number(value)
+    return format_station(number, units.name) if math.isfinite(number) else _value_text(value)
+
+
+def cleaned(obj):
+    """``obj`` with every text in it (lists, tuples, dicts, sheets, steps) cleaned of
+    control characters, bidirectional overrides and lone surrogates: what the user wrote
+    prints as text in every format, and never holds the PDF's page-count alias (which is
+    made of control characters: see layout.PAGES)."""
+    if isinstance(obj, str):
+        return clean(obj)
+    if isinstance(obj, list | tuple):
+        return type(obj)(cleaned(v) for v in obj)
+    if isinstance(obj, dict):
+        return {k: cleaned(v) for k, v in obj.items()}
+    if isinstance(obj, BendSheet | Step | Details):  # the plan's own names are not text read
+        changes = {
+            f.name: cleaned(getattr(obj, f.name))
+            for f in dataclasses.fields(obj)
+            if isinstance(getattr(obj, f.name), str | list | tuple | dict | Step)
+        }
+        return dataclasses.replace(obj, **changes)
+    return obj
 
 
 def check_word(step: Step) -> str:

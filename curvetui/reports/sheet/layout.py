@@ -18,6 +18,15 @@ MARGIN = 12  # mm, left, top and right
 INPUTS_WIDTH = 86  # mm, the inputs column on a bend page
 PLAN_X = 102  # mm from the page's left edge, the plan sketch column on a bend page
 PLAN_HEIGHTS = (62.0, 52.0, 42.0)  # mm, the plan sketch's least height, tried in turn
+# The PDF library puts the page count where a text holds its alias (by default "{nb}"). This
+# alias is made of control characters, which every text the user wrote is cleaned of
+# (content.cleaned), so a "{nb}" in a note or a name prints as written.
+PAGES = "\x1bnb\x1b"
+
+
+def page_of(page: int) -> str:
+    """'page 2 of N', N filled in by the PDF library when the document is closed."""
+    return f"page {page} of {PAGES}"
 
 
 def _fonts_dir():
@@ -32,7 +41,7 @@ def new_pdf(s: SheetSet, paper: str):
 
     if paper not in PAPERS:
         raise InputError(f"--paper must be one of {', '.join(PAPERS)}; got {paper!r}")
-    d = s.project.details
+    d = s.details
 
     class _PDF(FPDF):
         def footer(self):
@@ -51,10 +60,11 @@ def new_pdf(s: SheetSet, paper: str):
                 f"curvetui {__version__}",
             )
             self.set_x(self.l_margin)
-            self.cell(0, 3.4, f"page {self.page_no()} of {{nb}}", align="R")
+            self.cell(0, 3.4, page_of(self.page_no()), align="R")
             self.set_text_color(0, 0, 0)
 
     pdf = _PDF(orientation="P", unit="mm", format=paper.upper() if paper == "a4" else "Letter")
+    pdf.alias_nb_pages(PAGES)
     fonts = _fonts_dir()
     with resources.as_file(fonts / "DejaVuSans.ttf") as regular:
         pdf.add_font(FONT, "", str(regular))

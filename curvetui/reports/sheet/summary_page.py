@@ -9,6 +9,7 @@ from curvetui.reports.sheet.layout import (
     headed_table,
     heading,
     key_value_table,
+    page_of,
     status_colour,
 )
 
@@ -18,7 +19,7 @@ def pdf_summary(pdf, s: SheetSet) -> None:
     (status in colour), the project file's notes and what the following pages hold."""
     from fpdf.fonts import FontFace
 
-    d = s.project.details
+    d = s.details
     pdf.add_page()
     pdf.set_font(FONT, "B", 15)
     pdf.cell(0, 8, "Bend worksheets: project summary", new_x="LMARGIN", new_y="NEXT")
@@ -35,7 +36,7 @@ def pdf_summary(pdf, s: SheetSet) -> None:
         ("Date", d.date),
         ("Revision", d.revision),
         ("Units", s.units.name),
-        ("Sheet", "page 1 of {nb}"),
+        ("Sheet", page_of(1)),
     ]
     key_value_table(pdf, [(k, v or "-") for k, v in info], (30, 156), 4.6, 1)
     heading(pdf, counts_line(s), 10)

@@ -16,7 +16,7 @@ from curvetui.reports.sheet.content import (
 def render_text(project_or_path, bend_ids=None, paper: str = "a4") -> str:
     """The worksheets as plain text, pages separated by form feeds."""
     s = build(project_or_path, bend_ids)
-    d = s.project.details
+    d = s.details
     pages = []
     out = [
         f"BEND WORKSHEETS - {d.name}",
@@ -75,7 +75,7 @@ def _md(text: str) -> str:
 def render_markdown(project_or_path, bend_ids=None, paper: str = "a4") -> str:
     """The worksheets as Markdown: a heading per page, tables for the summary and working."""
     s = build(project_or_path, bend_ids)
-    d = s.project.details
+    d = s.details
     out = [
         f"# Bend worksheets: {_md(d.name)}",
         "",

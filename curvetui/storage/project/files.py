@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import json
 import math
+import sys
 from functools import cache
 from importlib import resources
 from pathlib import Path
@@ -201,6 +202,8 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
         ) from None
     except RecursionError:
         raise ProjectError(name, ["not a project: nested too deeply to read (corrupt?)"]) from None
+    except ValueError as exc:  # a whole number beyond Python's digit limit for int()
+        raise ProjectError(name, [f"not a project: a number cannot be read ({exc})"]) from None
     data, notes = migrate(data, name)
     problems = validate(data) + non_finite_numbers(data)
     if problems:
@@ -211,7 +214,8 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
 
 
 def non_finite_numbers(data, parts=()) -> list[str]:
-    """Paths of numbers too large to be finite (1e999 reads as infinity)."""
+    """Paths of numbers too large to be finite (1e999 reads as infinity; an integer such as
+    1 followed by 400 zeros is read exactly, but no float holds it)."""
     out: list[str] = []
     if isinstance(data, dict):
         for k, v in data.items():
@@ -221,11 +225,26 @@ def non_finite_numbers(data, parts=()) -> list[str]:
             out += non_finite_numbers(v, (*parts, i))
     elif isinstance(data, float) and not math.isfinite(data):
         out.append(f"{json_path(parts)}: must be a finite number, got {data}")
+    elif isinstance(data, int) and not isinstance(data, bool) and abs(data) > sys.float_info.max:
+        out.append(
+            f"{json_path(parts)}: must be a finite number (within +/-{sys.float_info.max:.4g}), "
+            f"got a whole number of {len(str(abs(data)))} digits"
+        )
     return out
 
 
 def project_text(project: Project) -> str:
-    return json.dumps(project.to_json(), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+    """The file's JSON text: UTF-8 characters as they are, except when a text holds a lone
+    surrogate (a file name's undecodable byte, or a \\ud800 escape read from a file),
+    which UTF-8 cannot write: then every non-ASCII character is escaped, so the same
+    text loads back."""
+    data = project.to_json()
+    text = json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+    try:
+        text.encode("utf-8")
+    except UnicodeEncodeError:
+        text = json.dumps(data, indent=2, ensure_ascii=True, allow_nan=False) + "\n"
+    return text
 
 
 def save_project(project: Project, path: str | Path, exclusive: bool = False) -> None:

@@ -170,44 +170,27 @@ def test_human_output_shows_caution_and_status():
 
 
 def test_inputs_found_in_review_give_messages_not_tracebacks(capsys):
-    # a deflection of 1e-320 degrees with a spiral: the spirals overlap; no radius fits
-    code = main(
-        [
-            "check",
-            "road",
-            "--speed",
-            "80",
-            "--radius",
-            "400",
-            "--deflection",
-            "1e-320",
-            "--spiral",
-            "50",
-        ]
-    )
+    # a deflection of 1e-300 degrees with a spiral: the spirals overlap; no radius fits
+    base = ["check", "road", "--speed", "80", "--radius", "400", "--spiral", "50"]
+    code = main([*base, "--deflection", "1e-300"])
     err = capsys.readouterr().err
     assert code == 2 and "spirals overlap" in err and "Traceback" not in err
+    assert "radius of at least" not in err  # no radius a bend could have would do
+    # 1e-320 and 5e-324 degrees are subnormal in radians: refused with the usable range
+    for tiny in ("1e-320", "5e-324"):
+        code = main([*base, "--deflection", tiny, "--spiral-out", "20"])
+        err = capsys.readouterr().err
+        assert code == 2 and "--deflection: must be a number from 1e-300 to 179" in err
     # R 2 m at 20 km/h, e 0: even 15 km/h needs f 0.89 > 0.40 (Green Book 2018 Table 3-7),
     # so the safe speed is unknown: the table prints "-" and the JSON null
-    assert (
-        main(
-            [
-                "check",
-                "road",
-                "--speed",
-                "20",
-                "--radius",
-                "2",
-                "--superelevation",
-                "0",
-                "--obstruction-offset",
-                "1",
-                "--lane-width",
-                "4",
-            ]
-        )
-        == 1
-    )
+    slow = ["check", "road", "--speed", "20", "--radius", "2", "--superelevation", "0"]
+    assert main([*slow, "--obstruction-offset", "1", "--lane-width", "3"]) == 1
     assert "Safe speed" in capsys.readouterr().out
+    # a lane of twice the radius puts the sight line (R - w/2) on the centre: refused
+    assert main([*slow, "--obstruction-offset", "1", "--lane-width", "4"]) == 2
+    err = capsys.readouterr().err
+    assert "--lane-width: must be less than twice the radius (4 m)" in err
+    assert main([*slow[:5], "1.8", "--obstruction-offset", "1"]) == 2  # default lane 3.6 m
+    assert "--radius: must be more than half the lane width (1.8 m" in capsys.readouterr().err
     main(["check", "road", "--speed", "20", "--radius", "2", "--superelevation", "0", "--json"])
     assert json.loads(capsys.readouterr().out)["safe_speed"] is None
