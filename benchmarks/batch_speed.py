@@ -292,6 +292,7 @@ COLUMN_OF = {key: col for col, key in INPUT_KEYS.items()}
 def per_row_loop(src: Path, out: Path, limit: int) -> tuple[float, int, list[str]]:
     """(seconds, rows done, statuses) for the first ``limit`` rows (0 = all)."""
     from curvetui.batch import columns as cols
+    from curvetui.bend.messages import message_line
     from curvetui.bend.service import evaluate_bend
     from curvetui.core.units import unit_system
     from curvetui.inputs import InputError
@@ -327,12 +328,8 @@ def per_row_loop(src: Path, out: Path, limit: int) -> tuple[float, int, list[str
                 value = record.get(part, {}).get(key) if key else record.get(column)
                 flat[out_name] = "" if value is None else value
             flat[result_names[cols.result_names(names).index("row")]] = number
-            # the batch has no transition.messages column: its notes join the messages
-            # (its failures are already there, folded in by evaluate_bend)
-            notes = record.get("transition", {}).get("messages", [])
-            messages = record["messages"] + [
-                f"transition: {m}" for m in notes if not m.startswith("FAIL")
-            ]
+            # a record's messages are objects (severity, part, text): one line each
+            messages = [m if isinstance(m, str) else message_line(m) for m in record["messages"]]
             flat[result_names[cols.result_names(names).index("messages")]] = "; ".join(messages)
             writer.writerow(flat)
             statuses.append(record["status"])

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import csv
 import io
 from dataclasses import dataclass
 
@@ -18,6 +17,8 @@ from curvetui.batch.header import Header
 from curvetui.batch.summary import (
     Tally,
     add_tally,
+    bad_row_message,
+    row_cells,
     tally_bad_rows,
     tally_error_row,
     tally_rows,
@@ -39,16 +40,14 @@ def output_schema(header: Header) -> pa.Schema:
 
 
 def bad_rows_table(bad: list[tuple[int, int, str]], header: Header, schema: pa.Schema) -> pa.Table:
-    """Rows whose field count differs from the header's, as error rows."""
+    """Rows not checked (a field count other than the header's, or not UTF-8), as error
+    rows."""
     width = len(header.names)
     cells, rows, messages = [], [], []
     for number, actual, text in bad:
-        cells.append(next(csv.reader([text], delimiter=header.delimiter), []))
+        cells.append(row_cells(text, header.delimiter))
         rows.append(number)
-        messages.append(
-            f"ERROR row {number}: {actual} field{'s' if actual != 1 else ''} where the header "
-            f"has {width}; row not checked (a separator or quote out of place?)"
-        )
+        messages.append(bad_row_message(number, actual, width))
     return error_rows_table(cells, rows, messages, width, schema)
 
 

@@ -12,6 +12,7 @@ with status ``error`` in its place.
 
 from __future__ import annotations
 
+import codecs
 import collections
 import contextlib
 import io
@@ -30,7 +31,7 @@ from curvetui.batch.chunk import BatchContext
 from curvetui.batch.formulas import neutral_text, neutralise
 from curvetui.batch.header import HEAD_BYTES, BatchFileError, read_header
 from curvetui.batch.output import Job, Part, output_schema, process_chunk
-from curvetui.batch.summary import Summary, finish, merge
+from curvetui.batch.summary import NOT_UTF8_ROW, Summary, finish, merge
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem
@@ -38,6 +39,11 @@ from curvetui.core.units import UnitSystem
 # bytes per parsed block: about 15 000 rows of a typical file; two chunks in flight on two
 # threads keep a whole run near 300 MB (measured: benchmarks/batch_speed.py)
 BLOCK_SIZE = 1 << 20
+
+
+SUB = "\x1a"  # stands for each byte that is not UTF-8 (a control character no CSV needs)
+_SUB_ERRORS = "curvetui-sub"
+codecs.register_error(_SUB_ERRORS, lambda e: (SUB * (e.end - e.start), e.end))
 
 
 class _Counting(io.RawIOBase):
@@ -48,11 +54,47 @@ class _Counting(io.RawIOBase):
         self.raw = raw
         self.head = head
         self.count = 0
+        self._out = bytearray()
+        self._decoder = None
+        self._held = False
+        self.replaced = False  # some byte was not UTF-8 (or the file holds SUB itself)
 
     def readable(self) -> bool:
         return True
 
     def read(self, size: int = -1) -> bytes:
+        """The file's bytes with each byte that is not part of valid UTF-8 replaced by SUB
+        (0x1A, one byte for one: sizes and positions stay), so that one undecodable cell
+        costs its row, not the file (see not_utf8_rows). Pure ASCII passes untouched."""
+        while len(self._out) < size or size < 0:
+            data = self._read_raw(size if size > 0 else -1)
+            if not data:
+                if self._decoder is not None and self._held:
+                    self._out += self._clean(b"", final=True)
+                    self._held = False
+                break
+            if not self._held and data.isascii():
+                self._out += data
+            else:
+                self._out += self._clean(data)
+            if size < 0:
+                continue
+        if size < 0:
+            data, self._out = bytes(self._out), bytearray()
+        else:
+            data, self._out = bytes(self._out[:size]), self._out[size:]
+        return data
+
+    def _clean(self, data: bytes, final: bool = False) -> bytes:
+        if self._decoder is None:
+            self._decoder = codecs.getincrementaldecoder("utf-8")(_SUB_ERRORS)
+        text = self._decoder.decode(data, final=final)
+        self._held = bool(self._decoder.getstate()[0])
+        if text.count(SUB) > data.count(b"\x1a"):  # more than the file's own SUB bytes
+            self.replaced = True
+        return text.encode("utf-8", "surrogatepass")
+
+    def _read_raw(self, size: int = -1) -> bytes:
         if self.head:
             if size < 0 or size >= len(self.head):
                 data, self.head = self.head, b""
@@ -225,6 +267,8 @@ def _run(
             if keep is not None:
                 summary.blank += int(np.sum(~keep))
                 batch, rows = batch.filter(pa.array(keep)), rows[keep]
+            if stream.replaced:
+                batch, rows = not_utf8_rows(batch, rows, numbering)
             # malformed rows up to this chunk's last row go with it; pyarrow may report
             # later ones while reading ahead, and they wait for their own chunk
             last = int(rows[-1]) if len(rows) else -1
@@ -254,6 +298,24 @@ def _run(
     if progress is not None:
         progress(stream.count, total, summary.rows)
     return summary
+
+
+def not_utf8_rows(batch: pa.RecordBatch, rows: np.ndarray, numbering):
+    """Take the rows holding a byte that is not UTF-8 (SUB, see _Counting) out of the
+    chunk: each becomes an error row of its own (numbering.bad, written in its place with
+    the bytes shown as '?'); the rest are checked as usual."""
+    hit = None
+    for column in batch.columns:
+        found = pc.match_substring(column, SUB)
+        hit = found if hit is None else pc.or_(hit, found)
+    if hit is None or not pc.any(hit).as_py():
+        return batch, rows
+    mask = hit.to_numpy(zero_copy_only=False).astype(bool)
+    for i in np.nonzero(mask)[0]:
+        cells = [str(c[i].as_py() or "").replace(SUB, "?") for c in batch.columns]
+        numbering.bad.append((int(rows[i]), NOT_UTF8_ROW, cells))
+    numbering.bad.sort()
+    return batch.filter(pa.array(~mask)), rows[~mask]
 
 
 def _no_header(options: pcsv.WriteOptions) -> pcsv.WriteOptions:

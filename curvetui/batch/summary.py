@@ -4,12 +4,37 @@ from __future__ import annotations
 
 import csv
 import heapq
+import io
 from dataclasses import dataclass, field
 
 import numpy as np
 
 from curvetui.batch.chunk import ERROR, FAIL, PASS
 from curvetui.batch.header import Header
+
+NOT_UTF8_ROW = -1  # in place of a field count: the row holds bytes that are not UTF-8
+
+
+def row_cells(text: str | list[str], delimiter: str) -> list[str]:
+    """A row not checked as its cells: a raw line (quoted fields may hold line breaks) or
+    the cells themselves."""
+    if isinstance(text, list):
+        return text
+    return next(csv.reader(io.StringIO(text), delimiter=delimiter), [])
+
+
+def bad_row_message(number: int, actual: int, width: int) -> str:
+    """Why a row read but not checked is an error row."""
+    if actual == NOT_UTF8_ROW:
+        return (
+            f"ERROR row {number}: not UTF-8 text (each such byte, or a SUB control character, "
+            "shown as ?); row not checked; save the file as UTF-8"
+        )
+    return (
+        f"ERROR row {number}: {actual} field{'s' if actual != 1 else ''} where the header "
+        f"has {width}; row not checked (a separator or quote out of place?)"
+    )
+
 
 WORST_SHOWN = 10
 
@@ -118,7 +143,7 @@ def tally_bad_rows(part: Tally, bad, header: Header) -> None:
     part.errors += len(bad)
     id_pos = header.known.get("id")
     for number, actual, text in bad[:WORST_SHOWN]:
-        fields = next(csv.reader([text], delimiter=header.delimiter), [])
+        fields = row_cells(text, header.delimiter)
         ident = fields[id_pos].strip() if id_pos is not None and id_pos < len(fields) else ""
         part.first_errors.append(
             Worst(
@@ -126,7 +151,7 @@ def tally_bad_rows(part: Tally, bad, header: Header) -> None:
                 number,
                 ident,
                 "",
-                f"ERROR row {number}: {actual} fields where the header has {len(header.names)}",
+                bad_row_message(number, actual, len(header.names)),
             )
         )
 

@@ -88,9 +88,21 @@ def test_us_units_and_named_tables(tmp_path):
     assert out[1]["limits"] == "49cfr213-class1-2"
 
 
-def test_a_file_that_is_not_utf8_exits_2(tmp_path, capsys):
+def test_a_row_that_is_not_utf8_is_an_error_row_and_the_rest_run(tmp_path, capsys):
+    """A Latin-1 cell costs its row (exit 1: a row has an error), not the file."""
     src = tmp_path / "inventory.csv"
-    src.write_bytes(b"id,kind,speed,radius,note\nQV-1,road,80,300,caf\xe9\n")
+    src.write_bytes(b"id,kind,speed,radius,note\nQV-1,road,80,300,caf\xe9\nQV-2,road,80,300,\n")
+    dest = tmp_path / "out.csv"
+    assert main(["batch", str(src), "-o", str(dest)]) == 1
+    rows = list(csv.DictReader(dest.open(encoding="utf-8")))
+    assert [(r["id"], r["status"]) for r in rows] == [("QV-1", "error"), ("QV-2", "pass")]
+    assert rows[0]["note"] == "caf?" and "row 2: not UTF-8" in rows[0]["messages"]
+    assert "not UTF-8" in capsys.readouterr().err  # the summary goes to stderr
+
+
+def test_a_header_that_is_not_utf8_exits_2(tmp_path, capsys):
+    src = tmp_path / "inventory.csv"
+    src.write_bytes(b"id,kind,speed,radius,n\xf6te\nQV-1,road,80,300,x\n")
     dest = tmp_path / "out.csv"
     assert main(["batch", str(src), "-o", str(dest)]) == 2
     assert not dest.exists()
