@@ -14,6 +14,7 @@ from textual.widgets import Input
 from curvetui.app.plain import visible
 
 UNDO_DEPTH = 200  # values kept per field
+COMPACT = "-textual-compact"  # the class Input's `compact` sets
 
 
 class FieldInput(Input):
@@ -24,6 +25,11 @@ class FieldInput(Input):
     def __init__(self, *args, select_on_focus: bool = False, **kwargs):
         self._history: list[str] = []
         self._undoing = True  # the value given here is not an edit
+        if kwargs.get("compact"):
+            # Input (8.2.8) sets `compact` after its own init, which adds this class and
+            # applies the whole stylesheet to the new field at once, again when mounted;
+            # given here, the class is already there and that first pass is skipped
+            kwargs["classes"] = " ".join(filter(None, (kwargs.get("classes"), COMPACT)))
         super().__init__(*args, select_on_focus=select_on_focus, **kwargs)
         self._undoing = False
 

@@ -10,6 +10,7 @@ from __future__ import annotations
 import pytest
 from app_screen import LARGE, copy_demo, drive, go_to, screen_text
 
+from curvetui.app.widgets.field_input import FieldInput
 from curvetui.app.widgets.field_row import LABEL_WIDTH, UNIT_WIDTH, FieldRow, first_line
 from curvetui.app.widgets.worksheet import ALL_FIELDS
 
@@ -44,5 +45,20 @@ def test_rows_show_label_field_and_unit_and_units_follow_the_bend(tmp_path):
         line = screen_text(app).splitlines()[cant.region.y]
         assert line[cant.region.x : cant.region.x + 4] == "cant"
         assert line[cant.region.right - UNIT_WIDTH + 1 : cant.region.right].rstrip() == "mm"
+
+    drive(copy_demo(tmp_path), steps, LARGE)
+
+
+@pytest.mark.app
+def test_compact_fields_keep_textual_compact_look_and_other_classes(tmp_path):
+    async def steps(app, pilot):
+        box = app.query_one("#in-speed", FieldInput)
+        assert box.compact and box.has_class("-textual-compact")
+        assert box.styles.border_top[0] == ""  # compact: no border, as Input(compact=True)
+        assert box.validate_on == set()  # the session checks what is typed
+        lone = FieldInput(compact=True, classes="extra")
+        assert lone.has_class("-textual-compact") and lone.has_class("extra") and lone.compact
+        plain = FieldInput()
+        assert not plain.compact and not plain.has_class("-textual-compact")
 
     drive(copy_demo(tmp_path), steps, LARGE)
