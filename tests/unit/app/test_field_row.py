@@ -58,7 +58,8 @@ def test_compact_fields_keep_textual_compact_look_and_other_classes(tmp_path):
         assert box.validate_on == set()  # the session checks what is typed
         lone = FieldInput(compact=True, classes="extra")
         assert lone.has_class("-textual-compact") and lone.has_class("extra") and lone.compact
-        plain = FieldInput()
+        assert FieldInput().compact  # compact unless asked otherwise
+        plain = FieldInput(compact=False)
         assert not plain.compact and not plain.has_class("-textual-compact")
 
     drive(copy_demo(tmp_path), steps, LARGE)
