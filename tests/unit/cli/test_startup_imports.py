@@ -230,4 +230,4 @@ def test_app_first_frame_needs_no_engine_and_first_results_no_scipy(tmp_path):
     assert seen["sheet_after"] is True
     assert seen["first_bend"] in ("pass", "fail")
     assert "numpy" in seen["after"]
-    assert not {"scipy", "pyarrow", "fpdf"} & set(seen["after"])
+    assert not {"scipy", "pyarrow", "fpdf", "jsonschema"} & set(seen["after"])

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import copy
 import json
+import math
 from pathlib import Path
 
 import pytest
@@ -173,3 +174,39 @@ def test_a_bad_file_still_gets_jsonschemas_messages(tmp_path):
     with pytest.raises(ProjectError) as caught:
         load_project(path)
     assert any("$.bends[0].inputs.speed" in p for p in caught.value.problems)
+
+
+BEND_SCHEMA = {"$defs": SCHEMA["$defs"], "$ref": "#/$defs/bend"}
+BEND_REFERENCE = Draft202012Validator(BEND_SCHEMA)
+
+
+@settings(max_examples=200, deadline=None)
+@given(
+    key=st.sampled_from(["speed", "radius", "cant", "deflection", "pi_station", "traffic"]),
+    value=json_values,
+    kind=st.sampled_from(["road", "rail", "tram"]),
+)
+def test_one_bend_as_the_app_checks_it_while_typing(key, value, kind):
+    # app/storable.py: the fields the file cannot store are marked as they are typed
+    bend = copy.deepcopy(DEMO["bends"][0])
+    bend["kind"] = kind
+    bend["inputs"][key] = value
+    verdict = check(bend, BEND_SCHEMA, BEND_SCHEMA)
+    assert verdict is not None or not math.isfinite(value if _number(value) else 0.0)
+    assert verdict is (not list(BEND_REFERENCE.iter_errors(bend))) or verdict is None
+
+
+def _number(value) -> bool:
+    return isinstance(value, int | float) and not isinstance(value, bool)
+
+
+def test_the_app_marks_a_field_the_file_cannot_store():
+    from curvetui.app.storable import file_problems
+    from curvetui.storage.project.model import Bend
+
+    good = Bend(id="QV-09", kind="road", inputs={"speed": 80, "radius": 250})
+    assert file_problems(good) == {}
+    bad = Bend(id="QV-09", kind="road", inputs={"speed": 500, "radius": 250})
+    assert list(file_problems(bad)) == ["speed"]
+    words = "speed: the project file takes a number from 1 to 400, got 500"
+    assert file_problems(bad)["speed"] == words
