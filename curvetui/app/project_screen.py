@@ -15,6 +15,7 @@ from textual.containers import Horizontal, ScrollableContainer, Vertical
 from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Input, Select, Static, TabbedContent
 
+from curvetui.app import collector
 from curvetui.app.session import Session
 from curvetui.app.widgets.bend_list import BendList
 from curvetui.app.widgets.bend_views import bend_views, build_view, next_view
@@ -115,6 +116,7 @@ class ProjectScreen(Screen):
             self.notify(note, severity="warning" if "differ" in note else "information", timeout=8)
         if self.focused is None:
             self.query_one(BendList).focus()
+        self.call_after_refresh(collector.resume)  # start-up is over (curvetui.app.collector)
 
     # -- the views ------------------------------------------------------------------------
     def session_changed(self, session: Session) -> None:

@@ -14,6 +14,7 @@ from functools import cache
 from curvetui.app.field_text import field_label
 from curvetui.storage.project.files import _describe, project_schema
 from curvetui.storage.project.model import Bend
+from curvetui.storage.project.quick_check import conforms
 
 FORM_LABELS = {"id": "bend id", "station": "station", "notes": "notes", "kind": "kind"}
 FORM_KEYS = {"id": "bend_id", "station": "station", "notes": "notes", "kind": "kind"}
@@ -21,18 +22,27 @@ _PATH = re.compile(r"^\$(?:\.bends\[(\d+)\])?((?:\.[A-Za-z_]+)*)(\[\d+\])?: ?(.*
 
 
 @cache
+def _bend_schema() -> dict:
+    schema = project_schema()
+    return {"$defs": schema["$defs"], "$ref": "#/$defs/bend"}
+
+
+@cache
 def _bend_validator():
     from jsonschema import Draft202012Validator
 
-    schema = project_schema()
-    return Draft202012Validator({"$defs": schema["$defs"], "$ref": "#/$defs/bend"})
+    return Draft202012Validator(_bend_schema())
 
 
 def file_problems(bend: Bend) -> dict[str, str]:
     """Field key (an input's key, or bend_id, station, notes) -> why the project file cannot
-    store that field as it is now: the first problem of each field, in the form's words."""
+    store that field as it is now: the first problem of each field, in the form's words.
+    A bend the quick check passes has none (jsonschema, for the words, only otherwise)."""
+    data = bend.to_json()
+    if conforms(data, _bend_schema()):
+        return {}
     out: dict[str, str] = {}
-    for error in _bend_validator().iter_errors(bend.to_json()):
+    for error in _bend_validator().iter_errors(data):
         key, text = _field_and_text(_describe(error))
         if key is not None and key not in out:
             out[key] = text

@@ -145,6 +145,9 @@ def _run_open(args) -> int:
         except ProjectError as exc:
             return report_problems(exc)
         return 0
+    from curvetui.app import collector
+
+    collector.pause()  # until the first results are on screen (ProjectScreen.first_compute)
     from curvetui.app.app import build_app
 
     try:

@@ -9,11 +9,13 @@ replaces it, as a designer expects) and ctrl+z brings the old value back.
 from __future__ import annotations
 
 from textual.binding import Binding
+from textual.reactive import reactive
 from textual.widgets import Input
 
 from curvetui.app.plain import visible
 
 UNDO_DEPTH = 200  # values kept per field
+COMPACT = "-textual-compact"  # the class Input's `compact` sets
 
 
 class FieldInput(Input):
@@ -21,10 +23,18 @@ class FieldInput(Input):
 
     BINDINGS = [Binding("ctrl+z", "undo", "Undo", show=False)]
 
-    def __init__(self, *args, select_on_focus: bool = False, **kwargs):
+    # Compact unless asked otherwise, its class given at construction: Input (8.2.8) sets
+    # `compact` (a class toggled by a reactive whose default was False) after its own init,
+    # and each change of that class applied the whole stylesheet to the new field at once,
+    # before it was even mounted (where it is applied anyway)
+    compact = reactive(True, toggle_class=COMPACT)
+
+    def __init__(self, *args, select_on_focus: bool = False, compact: bool = True, **kwargs):
         self._history: list[str] = []
         self._undoing = True  # the value given here is not an edit
-        super().__init__(*args, select_on_focus=select_on_focus, **kwargs)
+        if compact:
+            kwargs["classes"] = " ".join(filter(None, (kwargs.get("classes"), COMPACT)))
+        super().__init__(*args, select_on_focus=select_on_focus, compact=compact, **kwargs)
         self._undoing = False
 
     def load(self, text: str) -> None:

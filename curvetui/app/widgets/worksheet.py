@@ -12,12 +12,13 @@ from rich.table import Table
 from rich.text import Text
 from textual.app import ComposeResult
 from textual.containers import Horizontal, VerticalScroll
-from textual.widgets import Input, Label, Select, Static
+from textual.widgets import Input, Select, Static
 
 from curvetui.app.field_text import field_label
 from curvetui.app.plain import plain_text, visible
 from curvetui.app.session import FORM_FIELDS, Session
 from curvetui.app.widgets.field_input import FieldInput
+from curvetui.app.widgets.field_row import FieldRow
 from curvetui.bend.display import shown
 from curvetui.bend.fields import FIELDS, input_keys
 from curvetui.bend.messages import message_line
@@ -40,6 +41,13 @@ HINTS = {f.key: f.form_hint for f in FIELDS if f.form_hint}
 SHORT = {o.key: o.short for kind in ("road", "rail") for o in main_results(kind)}
 
 
+def field_input(key: str, select_on_focus: bool) -> FieldInput:
+    """The field of ``key`` in its row (``#row-KEY``), as ``#in-KEY``. Textual's own
+    validation is off (none is set; the session checks what is typed): it would restyle
+    every field whose value is loaded."""
+    return FieldInput(id=f"in-{key}", compact=True, select_on_focus=select_on_focus, validate_on=())
+
+
 def field_unit(key: str, units: UnitSystem) -> str:
     kind = UNIT_KIND[key]
     return {"deg": "deg"}.get(kind, unit_label(kind, units))
@@ -51,12 +59,8 @@ class Worksheet(Horizontal):
     DEFAULT_CSS = """
     Worksheet { height: 1fr; }
     Worksheet #form { width: 42; height: 1fr; }
-    Worksheet .row { height: 1; }
-    Worksheet .row Label { width: 15; padding: 0 1 0 0; }
     Worksheet .row FieldInput { width: 1fr; border: none; height: 1; padding: 0 1; }
-    Worksheet .row .unit { width: 5; color: $text-muted; padding: 0 0 0 1; }
     Worksheet .row FieldInput.-invalid { background: $error 30%; }
-    Worksheet .row.-invalid Label { color: $error; text-style: bold; }
     Worksheet #kind { width: 30; margin: 0 0 1 0; }
     Worksheet #field-error { color: $error; height: auto; }
     Worksheet #results { width: 1fr; height: 1fr; padding: 0 1; }
@@ -73,16 +77,13 @@ class Worksheet(Horizontal):
                 compact=True,
             )
             for key in ("bend_id", "station", "notes"):
-                with Horizontal(classes="row", id=f"row-{key}"):
-                    yield Label({"bend_id": "bend id", "station": "station", "notes": "notes"}[key])
-                    # a number (or a station) typed after Tab replaces it; text is kept
-                    yield FieldInput(id=f"in-{key}", compact=True, select_on_focus=key == "station")
-                    yield Static("", classes="unit", id=f"unit-{key}")
+                label = {"bend_id": "bend id", "station": "station", "notes": "notes"}[key]
+                # a number (or a station) typed after Tab replaces it; text is kept
+                field = field_input(key, select_on_focus=key == "station")
+                yield FieldRow(label, field, id=f"row-{key}", classes="row")
             for key in ALL_FIELDS:
-                with Horizontal(classes="row", id=f"row-{key}"):
-                    yield Label(field_label(key))
-                    yield FieldInput(id=f"in-{key}", compact=True, select_on_focus=True)
-                    yield Static("", classes="unit", id=f"unit-{key}")
+                field = field_input(key, select_on_focus=True)
+                yield FieldRow(field_label(key), field, id=f"row-{key}", classes="row")
             yield Static("", id="field-error")
         with VerticalScroll(id="results"):
             yield Static("", id="results-body")
@@ -94,12 +95,11 @@ class Worksheet(Horizontal):
         self._fields = (kind, units.name)
         wanted = set(input_keys(kind))
         for key in ALL_FIELDS:
-            self.query_one(f"#row-{key}").display = key in wanted
-            unit = field_unit(key, units)
-            hint = HINTS.get(key, "")
-            self.query_one(f"#unit-{key}", Static).update(plain_text(unit))
-            self.query_one(f"#in-{key}", FieldInput).placeholder = hint
-        self.query_one("#unit-station", Static).update(plain_text(units.length_label))
+            row = self.query_one(f"#row-{key}", FieldRow)
+            row.display = key in wanted
+            row.unit = field_unit(key, units)
+            self.query_one(f"#in-{key}", FieldInput).placeholder = HINTS.get(key, "")
+        self.query_one("#row-station", FieldRow).unit = units.length_label
 
     @property
     def bend(self):

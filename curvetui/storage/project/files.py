@@ -18,6 +18,7 @@ from typing import Any
 
 from curvetui.storage.files import atomic_write_text
 from curvetui.storage.project.model import DETAIL_FIELDS, FORMAT_VERSION, Bend, Details, Project
+from curvetui.storage.project.quick_check import conforms
 from curvetui.storage.table_files import TableError, read_limited
 
 MAX_PROJECT_BYTES = 200_000_000  # 200 MB: some 150,000 bends with notes and stored results
@@ -87,13 +88,19 @@ def _describe(error) -> str:
     return f"{where}: {error.message}"
 
 
-def validate(data: Any) -> list[str]:
-    """Every schema problem of a parsed document, sorted by path."""
-    from jsonschema import Draft202012Validator
+def validate(data: Any, quick: bool = False) -> list[str]:
+    """Every schema problem of a parsed document, sorted by path. With ``quick`` a document
+    the quick check finds conforming (quick_check.py: only when jsonschema would too) is
+    passed without importing jsonschema; any other gets the full validation."""
+    schema = project_schema()
+    if quick and conforms(data, schema):
+        problems = []
+    else:
+        from jsonschema import Draft202012Validator
 
-    validator = Draft202012Validator(project_schema())
-    errors = sorted(validator.iter_errors(data), key=lambda e: list(map(str, e.absolute_path)))
-    problems = [_describe(e) for e in errors]
+        validator = Draft202012Validator(schema)
+        errors = sorted(validator.iter_errors(data), key=lambda e: list(map(str, e.absolute_path)))
+        problems = [_describe(e) for e in errors]
     if isinstance(data, dict) and isinstance(data.get("bends"), list):
         seen: dict[str, int] = {}
         for i, b in enumerate(data["bends"]):
@@ -205,7 +212,7 @@ def load_project(path: str | Path) -> tuple[Project, list[str]]:
     except ValueError as exc:  # a whole number beyond Python's digit limit for int()
         raise ProjectError(name, [f"not a project: a number cannot be read ({exc})"]) from None
     data, notes = migrate(data, name)
-    problems = validate(data) + non_finite_numbers(data)
+    problems = validate(data, quick=True) + non_finite_numbers(data)
     if problems:
         raise ProjectError(name, problems)
     project = parse_project(data)

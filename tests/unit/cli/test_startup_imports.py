@@ -8,7 +8,8 @@ command finished. This is a boundary test, not a timing test: timing is in
 ``benchmarks/startup.py``.
 
 The controls show the probe sees a lazy import when one happens: a spiral loads scipy, a
-project file loads jsonschema (it is validated against the shipped schema).
+project file with a problem loads jsonschema (a valid one passes the quick check of the
+shipped schema without it).
 
 Source of the expectations: none outside the project; these are the project's own import
 boundaries (issue 12, item 7), no engineering value is checked here.
@@ -146,12 +147,23 @@ def test_a_usual_spiral_needs_no_scipy():
     assert not {"scipy", "pyarrow", "jsonschema", "textual"} & set(result["loaded"])
 
 
-def test_control_a_project_file_loads_jsonschema():
+def test_control_a_project_file_with_a_problem_loads_jsonschema(tmp_path):
+    doc = json.loads(PROJECT.read_text(encoding="utf-8"))
+    doc["bends"][0]["inputs"]["speed"] = 900  # above the schema's maximum of 400
+    bad = tmp_path / PROJECT.name
+    bad.write_text(json.dumps(doc), encoding="utf-8")
+    result = probe("check", "--project", str(bad), "--json")
+    assert result["code"] == 2
+    assert "jsonschema" in result["loaded"]  # its messages name the field and range
+    assert not {"pyarrow", "textual"} & set(result["loaded"])
+
+
+def test_a_valid_project_file_is_checked_without_jsonschema():
+    # the quick check (storage/project/quick_check.py) passes it; saving still uses jsonschema
     result = probe("check", "--project", str(PROJECT), "--json")
     assert result["code"] in (0, 1)
     assert json.loads(result["out"])["bends"]
-    assert "jsonschema" in result["loaded"]
-    assert not {"pyarrow", "textual"} & set(result["loaded"])
+    assert not {"jsonschema", "pyarrow", "textual"} & set(result["loaded"])
 
 
 # `curvetui FILE` through the command line's main() as on a terminal, the app run headless;
@@ -208,8 +220,9 @@ def test_app_first_frame_needs_no_engine_and_first_results_no_scipy(tmp_path):
     assert proc.returncode == 0, proc.stderr
     seen = json.loads(proc.stdout.strip().splitlines()[-1])
     assert seen["code"] == 0
-    # the first frame: the project file read and validated, no engine, no worksheet yet
-    assert "jsonschema" in seen["first_frame"] and "textual" in seen["first_frame"]
+    # the first frame: the project file read and validated (by the quick check, so without
+    # jsonschema: storage/project/quick_check.py), no engine, no worksheet yet
+    assert "textual" in seen["first_frame"] and "jsonschema" not in seen["first_frame"]
     heavy = {"numpy", "scipy", "pyarrow", "fpdf"} & set(seen["first_frame"])
     assert heavy == set(), f"loaded before the first frame: {sorted(heavy)}"
     assert seen["sheet_then"] is False
@@ -217,4 +230,4 @@ def test_app_first_frame_needs_no_engine_and_first_results_no_scipy(tmp_path):
     assert seen["sheet_after"] is True
     assert seen["first_bend"] in ("pass", "fail")
     assert "numpy" in seen["after"]
-    assert not {"scipy", "pyarrow", "fpdf"} & set(seen["after"])
+    assert not {"scipy", "pyarrow", "fpdf", "jsonschema"} & set(seen["after"])
