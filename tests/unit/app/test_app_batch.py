@@ -443,13 +443,17 @@ def test_us_units_name_the_columns_and_the_top_bar(tmp_path):
     drive(path, steps, LARGE, units="us")
 
 
-def test_a_file_unreadable_past_its_header_is_a_message_in_the_app(tmp_path):
+def test_a_row_that_is_not_utf8_is_an_error_row_in_the_app(tmp_path):
+    """Bytes that are not UTF-8 cost their row (shown as ?), the other rows are checked."""
     path = tmp_path / "latin.csv"
     path.write_bytes(b"id,kind,speed,radius\nQX-1,road,100,400\nQX-2,r\xf6ad,100,400\n")
 
     async def steps(app, pilot):
         text = flat(screen_text(app))
-        assert "Cannot use latin.csv: the file is not UTF-8 text" in text
+        assert "1 pass | 0 FAIL | 1 ERROR" in text
+        assert "QX-2 r?ad ERROR" in text and "row 3: not UTF-8 text" in text
+        assert "QX-1 road pass" in text
+        assert "Cannot use latin.csv" not in text
         assert caution_on_screen(app)
 
     drive(path, steps)
