@@ -9,30 +9,37 @@ from curvetui.reports.sheet.summary_page import pdf_summary
 
 
 def make_pdf(s: SheetSet, paper: str):
-    """The summary, then each bend starting on a new page: a bend whose page overflows is
-    drawn again with a shorter plan sketch (down to the least of PLAN_HEIGHTS), then with
-    its working set closer; a bend that overflows even so (a long working) runs on to a
-    following page with the full plan sketch and the working set closer, footer and
-    caution on each page."""
-    tries = len(PLAN_HEIGHTS) + 1
-    choice = [0] * len(s.bends)
-    spills = [False] * len(s.bends)
-    while True:
-        pdf = new_pdf(s, paper)
-        pdf_summary(pdf, s)
-        overflowed = False
-        for i, b in enumerate(s.bends):
-            before = pdf.page
-            height = PLAN_HEIGHTS[min(choice[i], len(PLAN_HEIGHTS) - 1)]
-            compact = choice[i] >= len(PLAN_HEIGHTS) or spills[i]
-            pdf_bend(pdf, s, b, i + 2, height, compact=compact)
-            if pdf.page > before + 1 and not spills[i]:
-                overflowed = True
-                choice[i] += 1
-                if choice[i] >= tries:  # no layout fits one page: the full plan, spilling
-                    choice[i], spills[i] = 0, True
-        if not overflowed:
-            return pdf
+    """The summary, then each bend starting on a new page. Each bend's layout is chosen
+    alone (a bend's pages depend on it only): the full plan sketch; if the page overflows,
+    the most compact layout (the least of PLAN_HEIGHTS, the working set closer); if even
+    that overflows (a long working), the full plan sketch with the working set closer,
+    running on to a following page; else the tallest plan of PLAN_HEIGHTS that fits.
+    Footer and caution on each page."""
+    scratch = new_pdf(s, paper)  # one scratch document for every trial (fonts loaded once)
+    layouts = [pick_layout(scratch, s, b, i + 2) for i, b in enumerate(s.bends)]
+    pdf = new_pdf(s, paper)
+    pdf_summary(pdf, s)
+    for i, (b, (height, compact)) in enumerate(zip(s.bends, layouts, strict=True)):
+        pdf_bend(pdf, s, b, i + 2, height, compact=compact)
+    return pdf
+
+
+def pick_layout(scratch, s: SheetSet, b, page: int) -> tuple[float, bool]:
+    """(plan height, compact) for one bend, tried on new pages of a scratch document."""
+
+    def fits(height: float, compact: bool) -> bool:
+        before = scratch.page
+        pdf_bend(scratch, s, b, page, height, compact=compact)
+        return scratch.page == before + 1
+
+    if fits(PLAN_HEIGHTS[0], False):
+        return PLAN_HEIGHTS[0], False
+    if not fits(PLAN_HEIGHTS[-1], True):
+        return PLAN_HEIGHTS[0], True  # runs on to a second page, the plan at full size
+    for height in PLAN_HEIGHTS[1:]:
+        if fits(height, False):
+            return height, False
+    return PLAN_HEIGHTS[-1], True
 
 
 def render_pdf(project_or_path, bend_ids=None, paper: str = "a4") -> bytes:

@@ -9,6 +9,7 @@ e_max 8 %): 229 m, from AASHTO Green Book 2018 Table 3-7, not from curvetui's ow
 from __future__ import annotations
 
 import io
+import json
 import re
 import shutil
 import subprocess
@@ -55,6 +56,13 @@ def first_page(pages: list[str], bend_id: str) -> int:
     found = [i for i, p in enumerate(pages) if f"Bend worksheet {bend_id}" in p]
     assert len(found) == 1, f"{bend_id}: {len(found)} worksheet headings"
     return found[0]
+
+
+def _pages_of(pages: list[str], bend_id: str) -> int:
+    """How many pages a bend's worksheet takes in the demo's sheets."""
+    start = first_page(pages, bend_id)
+    starts = sorted(first_page(pages, b) for b in DEMO_IDS) + [len(pages)]
+    return next(s for s in starts if s > start) - start
 
 
 def page_of(pages: list[str], bend_id: str) -> str:
@@ -221,12 +229,15 @@ def test_bend_with_bad_inputs_is_printed_as_error():
 
 def test_write_sheets_beside_the_project(tmp_path, pages):
     path = tmp_path / "road.json"
-    shutil.copy(DEMO, path)
+    data = json.loads(DEMO.read_text(encoding="utf-8"))
+    data["bends"] = [b for b in data["bends"] if b["id"] == "QV-04"]  # one bend: fast
+    path.write_text(json.dumps(data), encoding="utf-8")
     project, _ = load_project(path)
     session = types.SimpleNamespace(project=project, path=path)
     out = write_sheets(session, project.bends[0])
     assert out == tmp_path / "road.sheets.pdf" == sheets_path(path)
-    assert len(PdfReader(out).pages) == len(pages)  # the demo's worksheets, as rendered above
+    # the summary, then QV-04's worksheet as the demo's sheets print it
+    assert len(PdfReader(out).pages) == 1 + _pages_of(pages, "QV-04")
     assert sorted(p.name for p in tmp_path.iterdir()) == ["road.json", "road.sheets.pdf"]
 
 
@@ -238,9 +249,9 @@ def test_write_sheets_needs_a_saved_project():
 
 def test_cli_writes_pdf_and_exits_0_with_failing_bends(tmp_path, capsys, pages):
     out = tmp_path / "sheets.pdf"
-    assert main(["sheet", str(DEMO), "-o", str(out)]) == 0
+    assert main(["sheet", str(DEMO), "--bend", "QV-04", "-o", str(out)]) == 0  # QV-04 fails
     reader = PdfReader(out)
-    assert len(reader.pages) == len(pages)
+    assert len(reader.pages) == 1 + _pages_of(pages, "QV-04")
     assert "FAIL" in reader.pages[0].extract_text()
 
 

@@ -94,7 +94,7 @@ def test_a_save_killed_at_any_moment_leaves_one_whole_version(tmp_path):
     save_project(a, target)
     rng = random.Random(20261120)
     seen: list[str] = []
-    rounds = 15
+    rounds = 8
     # at least `rounds` kills, more (up to 40) until both versions have been seen, so a
     # loaded machine slows the test rather than failing it
     for round_no in range(40):

@@ -88,7 +88,7 @@ def test_the_demo_conforms_as_jsonschema_says():
     assert conforms(DEMO, SCHEMA)
 
 
-@settings(max_examples=300, deadline=None)
+@settings(max_examples=150, deadline=None)  # 1,000 agreed when run by hand (see the commit)
 @given(doc=edited_demos())
 def test_passes_only_what_jsonschema_passes(doc):
     reference_ok = not list(REFERENCE.iter_errors(doc))
