@@ -246,7 +246,14 @@ def cleaned(obj):
         return type(obj)(cleaned(v) for v in obj)
     if isinstance(obj, dict):
         return {k: cleaned(v) for k, v in obj.items()}
-    if isinstance(obj, BendSheet | Step | Details):  # the plan's own names are not text read
+    if isinstance(obj, Details):  # one-line texts (title block, footer): no line breaks
+        changes = {
+            f.name: clean(getattr(obj, f.name), one_line=True)
+            for f in dataclasses.fields(obj)
+            if isinstance(getattr(obj, f.name), str)
+        }
+        return dataclasses.replace(obj, **changes)
+    if isinstance(obj, BendSheet | Step):  # the plan's own names are not text read
         changes = {
             f.name: cleaned(getattr(obj, f.name))
             for f in dataclasses.fields(obj)
