@@ -10,8 +10,8 @@ app's keys, digits, letters and editing keys, then closes without saving. Counts
   refused at open a file the app refuses with its problems (not run further)
   crashes         an exception raised out of the app (run_test re-raises it), or the app's
                   crash guard ending it
-  files changed   the project file's bytes differ after a session that never saved
-  not reloadable  after a session that saved (ctrl+s among the keys), the file no longer loads
+  files changed   the project file's bytes differ after a session that never saved (no .bak)
+  not reloadable  after a session that saved (a .bak beside it), the file no longer loads
 """
 
 from __future__ import annotations
@@ -119,7 +119,9 @@ def main() -> None:
                 counts["crashes"] += 1
                 tb = traceback.extract_tb(exc.__traceback__)[-1]
                 causes[f"{type(exc).__name__} at {Path(tb.filename).name}:{tb.lineno}"] += 1
-            saved = "ctrl+s" in keys
+            # a save keeps the previous file as NAME.json.bak (ctrl+s, or a question's answer
+            # after F5 or a quit)
+            saved = path.with_name(path.name + ".bak").exists()
             if not saved and path.read_bytes() != before:
                 counts["files changed"] += 1
             if saved:
