@@ -10,10 +10,10 @@ from curvetui.reports.sheet.summary_page import pdf_summary
 
 def make_pdf(s: SheetSet, paper: str):
     """The summary, then each bend starting on a new page. Each bend's layout is chosen
-    alone (a bend's pages depend on it only): the full plan sketch; if the page overflows,
-    the most compact layout (the least of PLAN_HEIGHTS, the working set closer); if even
-    that overflows (a long working), the full plan sketch with the working set closer,
-    running on to a following page; else the tallest plan of PLAN_HEIGHTS that fits.
+    alone (a bend's pages depend on it only): if even the most compact layout (the least of
+    PLAN_HEIGHTS, the working set closer) overflows (a long working), the full plan sketch
+    with the working set closer, running on to a following page; else the tallest plan of
+    PLAN_HEIGHTS that fits with the working at full size, else the most compact.
     Footer and caution on each page."""
     scratch = new_pdf(s, paper)  # one scratch document for every trial (fonts loaded once)
     layouts = [pick_layout(scratch, s, b, i + 2) for i, b in enumerate(s.bends)]
@@ -32,11 +32,11 @@ def pick_layout(scratch, s: SheetSet, b, page: int) -> tuple[float, bool]:
         pdf_bend(scratch, s, b, page, height, compact=compact)
         return scratch.page == before + 1
 
-    if fits(PLAN_HEIGHTS[0], False):
-        return PLAN_HEIGHTS[0], False
+    # the most compact layout first: with today's working most bends overflow even so, and
+    # one trial settles them (the choice is the same as trying the full layout first)
     if not fits(PLAN_HEIGHTS[-1], True):
         return PLAN_HEIGHTS[0], True  # runs on to a second page, the plan at full size
-    for height in PLAN_HEIGHTS[1:]:
+    for height in PLAN_HEIGHTS:
         if fits(height, False):
             return height, False
     return PLAN_HEIGHTS[-1], True
