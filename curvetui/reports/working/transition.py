@@ -53,6 +53,51 @@ def road_transition_steps(record: dict, units: UnitSystem) -> list[Step]:
                 _status(t),
             )
         )
+        steps += _runoff_station_steps(record, units)
+    return steps
+
+
+# (label, formula, record key, on PC or PT, + or - the share, with the runout)
+RUNOFF_STATION_LINES = (
+    ("Runout start", "PC - s L_r - L_t", "runout_start", "pc", "-", True),
+    ("Level crown, in", "PC - s L_r", "level_crown_in", "pc", "-", False),
+    ("Full superelevation from", "PC + (1 - s) L_r", "full_superelevation_in", "pc", "+", False),
+    ("Full superelevation to", "PT - (1 - s) L_r", "full_superelevation_out", "pt", "-", False),
+    ("Level crown, out", "PT + s L_r", "level_crown_out", "pt", "+", False),
+    ("Runout end", "PT + s L_r + L_t", "runout_end", "pt", "+", True),
+)
+
+
+def _runoff_station_steps(record: dict, units: UnitSystem) -> list[Step]:
+    """The stations of a simple curve's superelevation transition (no spiral), each from the
+    PC or PT, the share s on the tangent, the runoff L_r and the runout L_t (runout lines
+    only where the record has a runout)."""
+    from curvetui.stations import format_station
+
+    t, g = record["transition"], record.get("geometry") or {}
+    s, lr, lt = t.get("runoff_on_tangent"), t.get("runoff"), t.get("runout")
+    ln = units.length_label
+    steps = []
+    for label, formula, key, end, sign, with_runout in RUNOFF_STATION_LINES:
+        value, base = t.get(key), g.get(end)
+        if missing(value) or missing(base) or missing(s) or missing(lr):
+            continue
+        if with_runout and missing(lt):
+            continue
+        share = f"(1 - {num(s)})" if "(1 - s)" in formula else num(s)
+        sub = f"{num(base)} {sign} {share} x {num(lr)}"
+        if with_runout:
+            sub += f" {sign} {num(lt)}"
+        steps.append(
+            Step(
+                label,
+                formula,
+                sub,
+                f"{ans(value)} {ln} ({format_station(value, units.name)})",
+                "placement rule as the runoff line above (stations: Indiana DOT Design Manual "
+                "Fig. 43-6D for PC and PT)",
+            )
+        )
     return steps
 
 

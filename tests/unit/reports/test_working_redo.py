@@ -60,6 +60,18 @@ FORMULA_SOURCES = {
     "Tangent runout": f"{AASHTO} runout (from memory)",
     "Spiral length": f"{AASHTO} 3.3.8: the largest minimum governs",
     "Runoff placement (no spiral)": "Rosenow 2015 / Highway Engineering Handbook (read)",
+    **{
+        label: "runoff placement (Rosenow 2015 / Highway Engineering Handbook, read) from the "
+        "PC and PT (Indiana DOT Design Manual Fig. 43-6D, read)"
+        for label in (
+            "Runout start",
+            "Level crown, in",
+            "Full superelevation from",
+            "Full superelevation to",
+            "Level crown, out",
+            "Runout end",
+        )
+    },
     "Tangent length": SIMPLE,
     "Curve length": SIMPLE,
     "External distance": SIMPLE + "; spirals: " + SPIRAL,
@@ -208,6 +220,20 @@ def expected_road(inputs: dict, rec: dict, table, units: UnitSystem) -> Counter:
     labels += ["Spiral length"] if t["spiral_length_min"] is not None else []
     if "runoff_on_tangent" in t and t["runoff"] is not None:
         labels.append("Runoff placement (no spiral)")
+        stations = {
+            "runout_start": "Runout start",
+            "level_crown_in": "Level crown, in",
+            "full_superelevation_in": "Full superelevation from",
+            "full_superelevation_out": "Full superelevation to",
+            "level_crown_out": "Level crown, out",
+            "runout_end": "Runout end",
+        }
+        with_runout = ("runout_start", "runout_end")  # written only with a runout L_t
+        labels += [
+            lab
+            for key, lab in stations.items()
+            if t.get(key) is not None and (key not in with_runout or t["runout"] is not None)
+        ]
     labels += _geometry_labels(rec)
     labels += ["Stopping sight distance", "Sightline offset"] if "sight" in rec else []
     return Counter(labels)
