@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 from pathlib import Path
 
@@ -110,6 +111,11 @@ INTERNAL_ERROR = 3  # a defect in curvetui, never bad input nor a failed check
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the exit code (0 pass, 1 a check failed, 2 bad input,
     3 an internal error: a defect, reported in one line instead of a traceback)."""
+    # The engine's numpy work is elementwise and never calls BLAS, yet OpenBLAS starts a
+    # thread per core when numpy is imported, and those threads spin: measured with
+    # benchmarks/app_startup.py, the app's CPU time to its first results fell from 3.2x to
+    # 2.5x a minimal Textual app with one BLAS thread. A value the user set is kept.
+    os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
     try:
         return _main(argv)
     except KeyboardInterrupt:
