@@ -17,26 +17,29 @@ from curvetui.inputs import InputError, parse_number
 _NUMBER = r"^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$"
 
 
-def _cast(text: pa.Array) -> np.ndarray | None:
-    """pyarrow's own text-to-float cast, or None when a cell is not a number it reads."""
-    try:
-        return pc.cast(text, pa.float64()).to_numpy(zero_copy_only=False)
-    except (pa.ArrowInvalid, pa.ArrowNotImplementedError):
-        return None
+# what pyarrow's text-to-float cast raises on a cell it does not read as a number
+_CAST_ERRORS = (pa.ArrowInvalid, pa.ArrowNotImplementedError)
 
 
 def _to_float(text: pa.Array) -> np.ndarray:
-    """Float values of a text column (nulls and non-numbers become NaN): the fast cast
-    first; if a cell spoils it, only cells of the number pattern, and last cell by cell."""
-    values = _cast(text)
-    if values is not None:
-        return values
+    """Float values of a text column (nulls and non-numbers become NaN): pyarrow's own
+    cast first (the usual, fast case); a cell that spoils it sends the column the careful
+    way (``_careful_float``)."""
+    try:
+        return pc.cast(text, pa.float64()).to_numpy(zero_copy_only=False)
+    except _CAST_ERRORS:
+        return _careful_float(text)
+
+
+def _careful_float(text: pa.Array) -> np.ndarray:
+    """Only cells of the number pattern cast (a leading + dropped, others NaN); should one
+    still spoil the cast (e.g. 1e999, beyond a float), cell by cell as Python reads it."""
     ok = pc.match_substring_regex(text, _NUMBER)
     plain = pc.replace_substring_regex(pc.if_else(ok, text, None), r"^\+", "")
-    values = _cast(plain)
-    if values is not None:
-        return values
-    return np.array([np.nan if c is None else float(c) for c in plain.to_pylist()], dtype=float)
+    try:
+        return pc.cast(plain, pa.float64()).to_numpy(zero_copy_only=False)
+    except _CAST_ERRORS:
+        return np.array([np.nan if c is None else float(c) for c in plain.to_pylist()])
 
 
 class NumberColumn:

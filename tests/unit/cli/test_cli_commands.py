@@ -1,6 +1,11 @@
 """The command line refuses what it does not know: an unknown first word is an error with the
 closest command (exit code 2) and creates nothing; `new` creates only .json files, never over
-an existing one; opening never creates a file. (Issue 14, item 3; exit codes as README.)"""
+an existing one; opening never creates a file. (Issue 14, item 3.)
+
+No engineering value is checked here. The expectations are the project's own exit codes (the
+README's table: 2 for input that cannot be used) and the closest command by difflib's ratio,
+a "did you mean" that is common practice for command lines, no source.
+"""
 
 from __future__ import annotations
 

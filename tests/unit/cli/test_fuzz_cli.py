@@ -1,8 +1,9 @@
 """Fuzzing the command line's arguments (issue 14, item 4): whatever is typed, the answer is
 a result or a one-line message, with exit code 0 (pass), 1 (a check failed) or 2 (input
 that cannot be used); no exception escapes. Bounded: few examples, no deadline,
-derandomised in CI (tests/conftest.py). The expectations are the project's exit codes;
-no engineering value is checked here.
+derandomised in CI (tests/conftest.py). The expectations are the project's exit codes (the
+README's table; 2 for unusable input follows the common practice of command lines, no
+source); no engineering value is checked here.
 """
 
 from __future__ import annotations
