@@ -58,6 +58,32 @@ class Alignment:
         return any(kind == OVERLAP for _, kind, _ in self.warnings)
 
 
+@dataclass(frozen=True)
+class Chain:
+    """An alignment as a designer gives it, in SI: start, PI 1 .. PI n, end as (easting,
+    northing) [m]; each PI's radius and spiral lengths [m] (0 = no spiral); the start
+    station [m]; a name. ``lay_out`` builds it; import and export of exchange files and the
+    project's alignment both speak this."""
+
+    points: tuple[tuple[float, float], ...]
+    radii: tuple[float, ...]
+    spirals_in: tuple[float, ...]
+    spirals_out: tuple[float, ...]
+    start_station: float = 0.0
+    name: str = ""
+
+    def lay_out(self, **limits: float) -> Alignment:
+        """The built alignment (``build_alignment``); ``limits`` pass its tangent minimums."""
+        return build_alignment(
+            list(self.points),
+            list(self.radii),
+            list(self.spirals_in),
+            list(self.spirals_out),
+            start_station=self.start_station,
+            **limits,
+        )
+
+
 def bearing(from_en, to_en) -> float:
     """Whole-circle bearing [rad] from one (easting, northing) to another, clockwise from north."""
     de = to_en[0] - from_en[0]
