@@ -114,7 +114,9 @@ class Diagram:
         for label, st in self.curve_points:
             named.setdefault(st, (label.lower(), label))
         for p in self.keys:
-            named[p.station] = (p.key, p.label)
+            at = [c for c, st in self.curve_points if abs(st - p.station) < 1e-6]
+            named.pop(next((st for st in named if abs(st - p.station) < 1e-6), None), None)
+            named[p.station] = (p.key, p.label + "".join(f", at the {c}" for c in at))
         stations = set(named)
         for a, b in stretches:
             k0, k1 = math.ceil(a / step - 1e-9), math.floor(b / step + 1e-9)
@@ -233,8 +235,19 @@ def diagram_for_record(record: dict) -> Diagram | str:
     keys.sort(key=lambda p: p[2])
     back = tuple(units.length_from_si(v) for v in (lc_in, lc_out, l_in, l_out))
     d = Diagram(
-        units.name, axis, e, e_nc, half, half, placement, back, (), curve, too_short,
-        peak_slope, tuple(notes),
+        units.name,
+        axis,
+        e,
+        e_nc,
+        half,
+        half,
+        placement,
+        back,
+        (),
+        curve,
+        too_short,
+        peak_slope,
+        tuple(notes),
     )
     values = d.at([p[2] for p in keys])
     points = tuple(
