@@ -64,9 +64,8 @@ def draw_crossfall(d: Diagram | None, width: int, height: int, message: str = ""
     canvas.polyline(xs, s_in, IN_STYLE, IN_PATTERN)
     if c0 >= 2:
         canvas.text_cell(c0 - 2, r0, "%", "dim", "right")
-    title = (
-        f"Cross slope against station, e {d.e:.2f} %, axis: {d.axis}"
-        + (f"  SHORT CURVE: e reaches {d.peak_slope:.2f} % only" if d.too_short else "")
+    title = f"Cross slope against station, e {d.e:.2f} %, axis: {d.axis}" + (
+        f"  SHORT CURVE: e reaches {d.peak_slope:.2f} % only" if d.too_short else ""
     )
     canvas.text_cell(0, 0, title[:width], WARN_STYLE if d.too_short else "bold")
     if roomy:
@@ -162,8 +161,9 @@ class CrossfallView(Vertical):
             return
         record = session.state(bend).record
         chart = self.query_one(CrossfallChart)
-        notes, table = self.query_one("#crossfall-notes", Static), self.query_one(
-            "#crossfall-table", Static
+        notes, table = (
+            self.query_one("#crossfall-notes", Static),
+            self.query_one("#crossfall-table", Static),
         )
         d = diagram_for_record(record) if record is not None else NO_DIAGRAM
         if isinstance(d, str):
