@@ -11,6 +11,7 @@ from __future__ import annotations
 import io
 import re
 
+import pytest
 from pypdf import PdfReader
 
 from curvetui import CAUTION
@@ -40,16 +41,25 @@ def hand_stations(inputs: dict) -> tuple[str, str]:
     return format_station(level, "metric"), format_station(level + t["runout"], "metric")
 
 
-def pdf_pages(p: Project) -> tuple[list[str], PdfReader]:
+SHORT = {**INPUTS, "deflection": 5}  # the curve is shorter than the runoff's two shares
+
+
+@pytest.fixture(scope="module")
+def two_bends() -> tuple[list[str], PdfReader]:
+    """One PDF (rendering costs): B01 as INPUTS, B02 the short curve; a text per page."""
+    p = Project(
+        Details(name="Scratch", client="Nobody", job_number="J-1"),
+        [Bend("B01", "road", INPUTS, station=1200.0), Bend("B02", "road", SHORT, station=0.0)],
+    )
     reader = PdfReader(io.BytesIO(render_pdf(p)))
     return [flat(page.extract_text()) for page in reader.pages], reader
 
 
-def test_pdf_draws_the_diagram_in_lines_with_key_stations():
-    texts, reader = pdf_pages(project(INPUTS))
+def test_pdf_draws_the_diagram_in_lines_with_key_stations(two_bends):
+    texts, reader = two_bends
     level, reverse = hand_stations(INPUTS)
     at = [i for i, t in enumerate(texts) if "Superelevation diagram (axis: centreline)" in t]
-    assert len(at) == 1
+    assert len(at) == 2  # one block per bend
     page_text = texts[at[0]]
     assert level in page_text and reverse in page_text
     for word in ("Level crown", "Reverse crown", "Full superelevation from", "PC", "PT"):
@@ -62,15 +72,15 @@ def test_pdf_draws_the_diagram_in_lines_with_key_stations():
         assert flat(CAUTION) in t
 
 
-def test_short_curve_is_said_on_every_face():
-    short = {**INPUTS, "deflection": 5}
-    texts, _ = pdf_pages(project(short))
-    joined = " ".join(texts).split("Superelevation diagram (axis")[1]  # the block on
-    assert "NOTE: the curve is too short for its runoff" in joined
-    assert "Highest superelevation reached (short curve)" in joined
-    assert "Full superelevation from" not in joined
-    assert "never reached" in render_text(project(short))
-    assert "**NOTE** the curve is too short" in render_markdown(project(short))
+def test_short_curve_is_said_on_every_face(two_bends):
+    texts, _ = two_bends
+    joined = " ".join(texts).split("Bend worksheet B02")[1]
+    block = joined.split("Superelevation diagram (axis")[1]
+    assert "NOTE: the curve is too short for its runoff" in block
+    assert "Highest superelevation reached (short curve)" in block
+    assert "Full superelevation from" not in block
+    assert "never reached" in render_text(project(SHORT))
+    assert "**NOTE** the curve is too short" in render_markdown(project(SHORT))
 
 
 def test_text_and_markdown_list_the_key_stations():
