@@ -26,6 +26,9 @@ def test_crossfall_view_follows_the_bend(demo_path):
         for label in (" NC ", " LC ", " RC ", "TS", "SC", "CS", "ST", "outside edge"):
             assert label in view, label
         assert "Level crown, TS" in flat(view)
+        await set_box(pilot, app, "rotation_axis", "Inside")  # the form's field, any case
+        view = flat(region_text(app, "#crossfall-view"))
+        assert "axis: inside" in view
         await go_to(app, pilot, "QV-04")  # simple curve; shorten it: full e never reached
         await set_box(pilot, app, "deflection", "4")
         view = flat(region_text(app, "#crossfall-view"))

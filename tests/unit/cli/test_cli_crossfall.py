@@ -13,6 +13,8 @@ import io
 import json
 
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
 from curvetui.cli import main
 
@@ -126,3 +128,30 @@ def test_project_bend(capsys, tmp_path):
     assert main(["crossfall", "--project", str(demo), "--bend", "QS-01"]) == 2
     assert "road bends only" in capsys.readouterr().err
     assert demo.read_bytes() == before
+
+
+HOSTILE = ["", "-1", "0", "nan", "inf", "-inf", "1e308", "1e-320", "abc", "\x1b[2J", "2+7,5"]
+
+
+@settings(
+    max_examples=20,
+    deadline=None,
+    suppress_health_check=[HealthCheck.function_scoped_fixture],  # capsys read each run
+)
+@given(
+    option=st.sampled_from(
+        ["--interval", "--deflection", "--spiral", "--pi-station", "--superelevation",
+         "--lanes-rotated", "--rotation-axis", "--runoff-on-tangent", "--lane-width"]
+    ),
+    value=st.one_of(st.sampled_from(HOSTILE), st.text(max_size=12)),
+)  # fmt: skip
+def test_hostile_values_never_reach_the_user_as_a_defect(capsys, option, value):
+    if "\x00" in value:
+        return  # the OS cannot pass a NUL in an argument
+    try:
+        code = main(["crossfall", *IOWA, option, value])
+    except SystemExit as stop:  # argparse's own refusal (a value like '-inf' read as an option)
+        code = stop.code
+    err = capsys.readouterr().err
+    assert code in (0, 1, 2), err
+    assert "Traceback" not in err and "internal error" not in err
