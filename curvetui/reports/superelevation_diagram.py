@@ -21,6 +21,8 @@ from curvetui.core.units import unit_system
 
 DEFAULT_INTERVAL = {"metric": 10.0, "us": 25.0}  # m, ft: a table row every so often
 MAX_ROWS = 5000  # an interval that would list more rows is refused
+DEFAULT_SHARE = 2.0 / 3.0  # of the runoff on the tangent at an end without a spiral (the
+# runoff_on_tangent field's default: Highway Engineering Handbook, two-thirds at the PC)
 
 # key point -> (label, short label for drawings, the outside half's slope in units of
 # (e_NC, e): the point is reached where the bend's highest slope reaches this)
@@ -184,15 +186,29 @@ def diagram_for_record(record: dict) -> Diagram | str:
     notes = []
     if "ts" in g:
         ls_in = _number(g, "spiral_length")
-        ls_out = _number(g, "spiral_length_out") or ls_in
+        ls_out = _number(g, "spiral_length_out")
+        ls_out = ls_in if ls_out is None else ls_out
         ts, st = _number(g, "ts"), _number(g, "st")
+        lr = _number(t, "runoff")
         if None in (ls_in, ts, st):
             return "no diagram: the spiral stations are missing"
-        ramps = sed.spiral_placement(*(units.length_to_si(v) for v in (ts, st, ls_in, ls_out)))
+        if lr is None and 0 in (ls_in, ls_out):
+            return "no diagram: no runoff length (no relative gradient at this speed)"
+        share = DEFAULT_SHARE  # an end without a spiral: as a simple curve's, the default
+        si = [units.length_to_si(v) for v in (ts, st, ls_in, ls_out)]
+        lr_si = units.length_to_si(lr) if lr is not None else 0.0
+        ends = [(si[0], si[2]), (si[1], si[3])]
+        if ls_in == 0:
+            ends[0] = (si[0] - share * lr_si, lr_si)
+        if ls_out == 0:
+            ends[1] = (si[1] + share * lr_si, lr_si)
+        ramps = (ends[0][0], ends[1][0], ends[0][1], ends[1][1])
         curve = tuple((k.upper(), g[k]) for k in ("ts", "sc", "cs", "st"))
         placement = "runoff over each spiral: level crown at the TS and ST, full e at the SC and CS"
-        lr = _number(t, "runoff")
-        if lr is not None and min(ls_in, ls_out) < lr * (1 - 1e-9):
+        if 0 in (ls_in, ls_out):
+            placement += f"; the end without a spiral has {share:.3g} of the runoff on its tangent"
+        shortest = min(x for x in (ls_in, ls_out) if x > 0) if max(ls_in, ls_out) > 0 else 0
+        if lr is not None and 0 < shortest < lr * (1 - 1e-9):
             notes.append(
                 f"a spiral is shorter than the runoff L_r {lr:.1f} {units.length_label}: the "
                 "edges rise faster than the maximum relative gradient allows"

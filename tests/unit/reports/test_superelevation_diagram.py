@@ -84,3 +84,19 @@ def test_interval_rows_between_keys(us):
     assert {p.key for p in rows} >= set(KEY_LABELS) | {"pc", "pt"}
     with pytest.raises(ValueError):
         d.rows(1e-5)
+
+
+def test_an_end_without_a_spiral_is_placed_as_a_simple_curves(us):
+    # spiral in 158.4 ft, none out: the out end has CS = ST, and two-thirds of L_r on the
+    # tangent there (Highway Engineering Handbook): level crown ST + 2/3 x 158.4 = ST + 105.6,
+    # full e ST - 52.8; e at the ST is 2/3 x 4.4 = 2.933 %
+    r = record(us, spiral_in="158.4", spiral_out="0")
+    g = r["geometry"]
+    d = diagram_for_record(r)
+    by = {p.key: p.station for p in d.keys}
+    assert by["level_crown_in"] == pytest.approx(g["ts"])
+    assert by["level_crown_out"] == pytest.approx(g["st"] + 105.6)
+    assert by["full_superelevation_out"] == pytest.approx(g["st"] - 52.8)
+    s_out, s_in, *_ = d.at([g["st"]])
+    assert float(s_out[0]) == pytest.approx(2 / 3 * 4.4)
+    assert "without a spiral" in d.placement
