@@ -232,6 +232,11 @@ class CurveApp(StopsCleanly, KeyOrder):
         yield SystemCommand(
             "Show chart", "Superelevation/friction or cant chart", lambda: show("chart")
         )
+        yield SystemCommand(
+            "Show crossfall",
+            "Superelevation diagram: edge cross slopes and elevations",
+            lambda: show("crossfall"),
+        )
         yield SystemCommand("Light or dark", "Switch the theme (F6)", self.action_toggle_theme)
 
 

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from curvetui.core.rotation import AXES
 from curvetui.core.traffic import TRAFFIC
 from curvetui.core.units import UnitSystem
 
@@ -306,6 +307,20 @@ FIELDS: tuple[Field, ...] = (
         "lane width: the sight line is on the inside lane's centre and runoff rotates one lane",
         {ROAD: {"metric": (2.0, 6.0), "us": (6.5, 19.7)}},
         default="3.6 m / 12 ft",
+    ),
+    _f(
+        "rotation_axis",
+        "Axis of rotation",
+        CHOICE,
+        (ROAD,),
+        "axis the section is rotated about to its superelevation: centreline, inside or "
+        "outside edge (the superelevation diagram's edge elevations; n1 counts the lanes "
+        "rotated about it)",
+        {},
+        default=AXES[0],
+        choices=AXES,
+        hint=" / ".join(AXES),
+        short="rotation axis",
     ),
 )
 

@@ -97,6 +97,8 @@ RUNOFF_STATIONS = (
     "full_superelevation_out",
     "level_crown_out",
     "runout_end",
+    "reverse_crown_in",  # both halves at +e_NC (curvetui.core.superelevation_diagram)
+    "reverse_crown_out",
 )
 RAIL_TRANSITION = ("length", "length_cant_gradient", "length_cant_rate", "length_deficiency_rate")
 # the rate limits of the design speed's band, in the user's units (mm/m or in/ft; mm/s or in/s)
@@ -153,6 +155,7 @@ OUTPUTS: tuple[Output, ...] = (
     # the constants the transition used, so its working can be redone by hand
     *(_o(f"transition.{k}", (ROAD,)) for k in ROAD_TRANSITION_CONSTANTS),
     *(_o(f"transition.{k}", (ROAD,), PLACES) for k in RUNOFF_STATIONS),
+    _o("transition.rotation_axis", (ROAD,), TEXT, echo=True),  # the superelevation diagram's
     *(_o(f"transition.{k}", (RAIL,)) for k in RAIL_TRANSITION),
     *(_o(f"transition.{k}", (RAIL,), working=True) for k in RAIL_TRANSITION_LIMITS),
     _o("geometry.type", rounding=TEXT),

@@ -102,6 +102,7 @@ def _ordered_transition(t: dict, kind: str) -> dict:
             *out.ROAD_TRANSITION_CONSTANTS,
             *out.RUNOFF_STATIONS,
             *out.RAIL_TRANSITION_LIMITS,
+            "rotation_axis",
         )
         if k in t
     }

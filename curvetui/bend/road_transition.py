@@ -24,7 +24,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from curvetui.core import superelevation_diagram as sed
 from curvetui.core import transitions as tr
+from curvetui.core.rotation import AXES
 from curvetui.core.units import FOOT
 
 # (C [m/s^3], p_min [m], p_max [m]) by unit system
@@ -84,6 +86,10 @@ def road_transition(ev, rows: np.ndarray, v, r, e, width, spiral_flags: dict) ->
     ev.bend_flags[rows] |= np.where(no_fit & ~spiralled, spiral_flags["not_suitable"], 0)
     failed = (no_fit & spiralled) | _spiral_lengths(ev, rows, t, spiral_flags)
     _placement(ev, rows[~spiralled], spiral_flags["too_short"])
+    _reverse_crown(ev, rows, e)
+    given = present["rotation_axis"][rows]
+    axis = np.where(given, np.nan_to_num(si["rotation_axis"][rows]), 0).astype(int)
+    ev.texts["transition.rotation_axis"][rows] = np.asarray(AXES, object)[axis]
     ev.checks["transition"][rows] = failed.astype(np.int8)
     ev.texts["transition.status"][rows] = np.where(failed, "fail", "pass")
 
@@ -127,3 +133,21 @@ def _placement(ev, rows: np.ndarray, too_short_flag: int) -> None:
     for key in STATION_KEYS:
         v[f"transition.{key}"][circular] = st[key]
     ev.bend_flags[circular] |= np.where(st["too_short"], too_short_flag, 0)
+
+
+def _reverse_crown(ev, rows: np.ndarray, e: np.ndarray) -> None:
+    """Reverse crown stations of simple curves (both halves at +e_NC), where reached:
+    level crown +/- (e_NC / e) L_r (curvetui.core.superelevation_diagram)."""
+    v = ev.values
+    circular = ev.texts["geometry.type"][rows] == "circular"
+    at = rows[circular]
+    if not len(at):
+        return
+    e_nc = ev.ctx.table.normal_crown
+    lr = v["transition.runoff"][at]
+    lc_in, lc_out = v["transition.level_crown_in"][at], v["transition.level_crown_out"][at]
+    k = sed.key_stations(lc_in, lc_out, lr, lr, e[circular], e_nc)
+    with np.errstate(invalid="ignore"):
+        reached = k["peak_slope"] >= e_nc * (1 - 1e-12)
+    v["transition.reverse_crown_in"][at] = np.where(reached, k["reverse_crown_in"], np.nan)
+    v["transition.reverse_crown_out"][at] = np.where(reached, k["reverse_crown_out"], np.nan)

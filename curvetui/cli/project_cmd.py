@@ -26,6 +26,7 @@ COMMANDS = {
     "new",
     "sheet",
     "batch",
+    "crossfall",
     "-h",
     "--help",
     "--version",

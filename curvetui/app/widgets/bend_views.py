@@ -14,7 +14,7 @@ from textual.containers import VerticalScroll
 from textual.widget import Widget
 from textual.widgets import TabbedContent, TabPane
 
-VIEWS = ("sheet", "working", "plan", "chart")
+VIEWS = ("sheet", "working", "plan", "chart", "crossfall")
 
 
 def bend_views(pictures: bool = True, lazy: bool = True) -> ComposeResult:
@@ -23,6 +23,7 @@ def bend_views(pictures: bool = True, lazy: bool = True) -> ComposeResult:
     ``#road-chart`` and ``#rail-chart``. With ``lazy`` the tabs are left empty for
     ``build_view``."""
     titles = {"sheet": "Worksheet", "working": "Working", "plan": "Plan", "chart": "Chart"}
+    titles["crossfall"] = "Crossfall"  # the superelevation diagram
     with TabbedContent(id="views", initial="sheet"):
         for view in VIEWS if pictures else VIEWS[:2]:
             pane = TabPane(titles[view], id=view)
@@ -50,6 +51,10 @@ def view_widgets(view: str) -> list[Widget]:
         from curvetui.app.widgets.charts import RailChartView, RoadChartView
 
         return [RoadChartView(id="road-chart"), RailChartView(id="rail-chart")]
+    if view == "crossfall":
+        from curvetui.app.widgets.crossfall_view import CrossfallView
+
+        return [CrossfallView(id="crossfall-view")]
     return []
 
 

@@ -41,6 +41,8 @@ class BendSheet:
     plan: object | None = None  # plan.PlanShape
     plan_note: str = ""
     stations: dict[str, str] = field(default_factory=dict)
+    diagram: object | None = None  # superelevation_diagram.Diagram (road bends)
+    diagram_note: str = ""  # why a road bend has no diagram
 
 
 @dataclass
@@ -226,6 +228,9 @@ def build(project_or_path, bend_ids=None) -> SheetSet:
             error=outcome.error,
         )
         _plan(outcome, units, sheet)
+        from curvetui.reports.sheet.crossfall import sheet_diagram
+
+        sheet.diagram, sheet.diagram_note = sheet_diagram(rec, bend.kind)
         sheets.append(cleaned(sheet))
     return SheetSet(project, source, units, sheets, cleaned(list(notes)))
 

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from curvetui.reports.sheet.bend_page import pdf_bend
 from curvetui.reports.sheet.content import SheetSet, build
+from curvetui.reports.sheet.crossfall import pdf_crossfall
 from curvetui.reports.sheet.layout import PLAN_HEIGHTS, new_pdf
 from curvetui.reports.sheet.summary_page import pdf_summary
 
@@ -21,6 +22,7 @@ def make_pdf(s: SheetSet, paper: str):
     pdf_summary(pdf, s)
     for i, (b, (height, compact)) in enumerate(zip(s.bends, layouts, strict=True)):
         pdf_bend(pdf, s, b, i + 2, height, compact=compact)
+        pdf_crossfall(pdf, b.diagram, b.diagram_note, b.bend_id)  # after the page it fits
     return pdf
 
 

@@ -11,6 +11,7 @@ from curvetui.reports.sheet.content import (
     plan_lines,
     summary_rows,
 )
+from curvetui.reports.sheet.crossfall import markdown_lines, text_lines
 
 
 def render_text(project_or_path, bend_ids=None, paper: str = "a4") -> str:
@@ -62,6 +63,9 @@ def render_text(project_or_path, bend_ids=None, paper: str = "a4") -> str:
         out += [f"  {m}" for m in b.messages] or ["  none"]
         out += ["", "PLAN"]
         out += [f"  {line}" for line in plan_lines(b)]
+        if b.diagram is not None or b.diagram_note:
+            out += ["", "SUPERELEVATION DIAGRAM (key stations)"]
+            out += [f"  {line}" for line in text_lines(b.diagram, b.diagram_note)]
         out += ["", CAUTION]
         pages.append("\n".join(out))
     return "\n\f\n".join(pages) + "\n"
@@ -125,5 +129,6 @@ def render_markdown(project_or_path, bend_ids=None, paper: str = "a4") -> str:
         out += [f"- {_md(m)}" for m in b.messages] or ["- none"]
         out += ["", "### Plan key points", ""]
         out += [f"- {_md(line)}" for line in plan_lines(b)]
+        out += markdown_lines(b.diagram, b.diagram_note)
         out += ["", f"> {CAUTION}", ""]
     return "\n".join(out)

@@ -54,6 +54,35 @@ def road_transition_steps(record: dict, units: UnitSystem) -> list[Step]:
             )
         )
         steps += _runoff_station_steps(record, units)
+        steps += _reverse_crown_steps(record, units)
+    return steps
+
+
+def _reverse_crown_steps(record: dict, units: UnitSystem) -> list[Step]:
+    """Reverse crown (both halves at +e_NC): the level crown moved on by the runout L_t,
+    the outside half turning at one rate (curvetui.core.superelevation_diagram)."""
+    from curvetui.stations import format_station
+
+    t, g = record["transition"], record.get("geometry") or {}
+    s, lr, lt = t.get("runoff_on_tangent"), t.get("runoff"), t.get("runout")
+    steps = []
+    for label, formula, key, end, sign in (
+        ("Reverse crown, in", "PC - s L_r + L_t", "reverse_crown_in", "pc", ("-", "+")),
+        ("Reverse crown, out", "PT + s L_r - L_t", "reverse_crown_out", "pt", ("+", "-")),
+    ):
+        value, base = t.get(key), g.get(end)
+        if any(missing(x) for x in (value, base, s, lr, lt)):
+            continue
+        steps.append(
+            Step(
+                label,
+                formula,
+                f"{num(base)} {sign[0]} {num(s)} x {num(lr)} {sign[1]} {num(lt)}",
+                f"{ans(value)} {units.length_label} ({format_station(value, units.name)})",
+                "the outside half turns at one rate through runout and runoff: e_NC / e x L_r "
+                "= L_t past level crown (common practice, no source)",
+            )
+        )
     return steps
 
 

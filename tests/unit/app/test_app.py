@@ -62,12 +62,12 @@ def test_caution_on_screen_in_every_view_and_theme_f9_f6(demo_path):
         assert caution_widget_text(app) == CAUTION
         assert caution_on_screen(app)
         seen = []
-        for _ in range(4):
+        for _ in range(5):
             await pilot.press("f9")
             await pilot.pause()
             seen.append(app.query_one("#views", TabbedContent).active)
             assert caution_on_screen(app), seen[-1]
-        assert seen == ["working", "plan", "chart", "sheet"]
+        assert seen == ["working", "plan", "chart", "crossfall", "sheet"]
         # F6: light and dark, the caution in both
         assert app.theme == "textual-dark"
         await pilot.press("f6")

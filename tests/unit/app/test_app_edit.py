@@ -32,6 +32,7 @@ from textual.widgets import Input, Select
 from curvetui.app.app import build_app
 from curvetui.app.dialogs.confirm import Confirm
 from curvetui.app.dialogs.details import DetailsDialog
+from curvetui.bend.fields import fields_for
 
 pytestmark = pytest.mark.app
 
@@ -408,7 +409,8 @@ def test_the_results_scroll_by_keyboard_at_80x24_and_show_their_focus(demo_path)
     async def steps(app, pilot):
         results = app.query_one("#results")
         assert results.max_scroll_y > 0  # more than fits at 80x24
-        app.query_one("#in-lane_width").focus()  # the last field of a road bend
+        last = fields_for("road")[-1].key  # the last field of a road bend
+        app.query_one(f"#in-{last}").focus()
         await settle(pilot)
         before = region_text(app, "#results")
         await pilot.press("tab")

@@ -54,6 +54,7 @@ NEVER_FOR_JSON = ("pyarrow", "jsonschema", "textual", "rich", "scipy", "fpdf")
 NOT_OURS_FOR_CHECK = (
     "curvetui.cli.batch_cmd",
     "curvetui.cli.setout_cmd",
+    "curvetui.cli.crossfall_cmd",
     "curvetui.cli.sheet_cmd",
     "curvetui.cli.tables_cmd",
     "curvetui.batch",
@@ -112,7 +113,7 @@ def test_help_still_lists_every_sub_command(capsys):
     assert stop.value.code == 0
     text = capsys.readouterr().out
     # every sub-command, in the order they were always listed
-    assert "{check,tables,setout,open,new,sheet,batch}" in text
+    assert "{check,tables,setout,open,new,sheet,batch,crossfall}" in text
     assert "check every bend of a CSV file" in text  # batch's own help line was built
 
 

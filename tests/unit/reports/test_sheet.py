@@ -319,3 +319,10 @@ def test_us_project_prints_its_own_units():
     assert "R 800 ft, deflection 30.000 deg" in page  # the plan sketch's legend
     assert "Station 12+00.00" in page
     assert " km/h" not in page
+
+
+def test_road_bends_carry_their_superelevation_diagram(pages):
+    # after the bend's messages, on its pages (tests/unit/reports/test_sheet_crossfall.py)
+    drawn = [b for b in DEMO_IDS if "Superelevation diagram (axis" in page_of(pages, b)]
+    assert drawn == ["QV-01", "QV-02", "QV-04", "QV-05", "QV-06"]
+    assert "the normal crown is kept" in page_of(pages, "QV-03")

@@ -72,6 +72,9 @@ FORMULA_SOURCES = {
             "Runout end",
         )
     },
+    "Reverse crown, in": "level crown + L_t: one rate through runout and runoff (common "
+    "practice, no source; L_t = e_NC L_r / e, Green Book 2018 from memory)",
+    "Reverse crown, out": "level crown - L_t, as the line above",
     "Tangent length": SIMPLE,
     "Curve length": SIMPLE,
     "External distance": SIMPLE + "; spirals: " + SPIRAL,
@@ -227,8 +230,10 @@ def expected_road(inputs: dict, rec: dict, table, units: UnitSystem) -> Counter:
             "full_superelevation_out": "Full superelevation to",
             "level_crown_out": "Level crown, out",
             "runout_end": "Runout end",
+            "reverse_crown_in": "Reverse crown, in",
+            "reverse_crown_out": "Reverse crown, out",
         }
-        with_runout = ("runout_start", "runout_end")  # written only with a runout L_t
+        with_runout = ("runout_start", "runout_end", "reverse_crown_in", "reverse_crown_out")
         labels += [
             lab
             for key, lab in stations.items()
