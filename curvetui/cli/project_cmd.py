@@ -26,6 +26,7 @@ COMMANDS = {
     "new",
     "sheet",
     "batch",
+    "design",
     "-h",
     "--help",
     "--version",
