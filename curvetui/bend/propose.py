@@ -63,9 +63,7 @@ class Proposal:
 
     def changes(self) -> dict[str, float | None]:
         """The proposed values that differ from the current ones."""
-        return {
-            k: v for k, v in self.proposed.items() if not _same(self.current.get(k), v)
-        }
+        return {k: v for k, v in self.proposed.items() if not _same(self.current.get(k), v)}
 
     def to_json(self) -> dict:
         return {
@@ -125,7 +123,8 @@ def propose(
     columns = columns_from_values({k: [v] for k, v in given.items()}, units)
     parsed = parse([kind], columns, units, table, limits)
     issues = [
-        i for i in parsed.issues
+        i
+        for i in parsed.issues
         if i.field not in REPLACED[kind] and not (i.field == "radius" and i.text == "required")
     ]
     if issues:
@@ -185,7 +184,9 @@ def _road(si: dict, units: UnitSystem, table: RoadTable) -> Proposal:
     step = pq.RADIUS_STEP[u]
     step_src = (
         "as the Ethiopian Roads Authority Geometric Design Manual 2002, ch. 8, rounds "
-        "393.7 m to 395 m" if u == "metric" else "common practice, no source"
+        "393.7 m to 395 m"
+        if u == "metric"
+        else "common practice, no source"
     )
     if p.governing == "friction":
         why = (
@@ -302,8 +303,8 @@ def _rail(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
             given = f"no cant on the {cant(pr.CANT_STEP[u])} step serves both trains at R "
             given += length(r_given)
         reasons.append(
-            f"radius {length(p.radius)}: {given}; the least radius that admits them is max(s v^2 / (g (C "
-            f"+ I)), s (v^2 - u^2) / (g (I + X)), the limits' least radius) = "
+            f"radius {length(p.radius)}: {given}; the least radius that admits them is "
+            f"max(s v^2 / (g (C + I)), s (v^2 - u^2) / (g (I + X)), the limits' least radius) = "
             f"{length(p.radius_least)}, rounded up to {length(pr.RADIUS_STEP[u])} and raised "
             f"by that step until a cant on the step fits (step: common practice, no source)"
         )
@@ -356,8 +357,10 @@ def _rail(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
             spiral = _clean(float(L(p.transition_length)))
             reasons.append(text)
         else:
-            reasons.append(text + "; two transitions of that length do not fit the "
-                           "deflection: spirals left as they were")
+            reasons.append(
+                text + "; two transitions of that length do not fit the "
+                "deflection: spirals left as they were"
+            )
     elif math.isfinite(p.transition_length):
         reasons.append("transition: none needed (no cant and no deficiency)")
     else:
@@ -387,5 +390,3 @@ def _rail(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
 def proposed_texts(p: Proposal) -> dict[str, str]:
     """Each proposed value as a form shows it ('' for blank), by input key."""
     return {k: "" if v is None else f"{v:g}" for k, v in p.proposed.items()}
-
-

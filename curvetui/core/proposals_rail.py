@@ -34,7 +34,7 @@ from dataclasses import dataclass
 
 from curvetui.core import transitions as tr
 from curvetui.core.proposals_road import ceil_to
-from curvetui.core.rail import RailLimits, balancing_cant, equilibrium_cant
+from curvetui.core.rail import RailLimits, equilibrium_cant
 from curvetui.core.units import FOOT, G0, INCH
 
 CANT_STEP = {"metric": 0.005, "us": 0.25 * INCH}  # [m]
@@ -70,7 +70,9 @@ def band_at(limits: RailLimits, speed: float, low: float | None, radius: float, 
     e_slow = float(equilibrium_cant(low, radius, s)) if low is not None else math.nan
     lo = max(e_fast - d_max, 0.0)
     hi = c_max if (low is None or math.isnan(x_max)) else min(e_slow + x_max, c_max)
-    return Band(c_max, d_max, float(limits.deficiency_recommended[i]), x_max, e_fast, e_slow, lo, hi)
+    return Band(
+        c_max, d_max, float(limits.deficiency_recommended[i]), x_max, e_fast, e_slow, lo, hi
+    )
 
 
 def target_cant(band: Band) -> tuple[float, str]:
@@ -96,7 +98,9 @@ def least_radius(limits: RailLimits, speed: float, low: float | None, s: float) 
     """The least radius [m] at which some cant serves both trains (closed form above)."""
     i = int(limits.band(speed)[0])
     c_max, d_max, x_max = (
-        float(limits.cant_max[i]), float(limits.deficiency_max[i]), float(limits.excess_max[i])
+        float(limits.cant_max[i]),
+        float(limits.deficiency_max[i]),
+        float(limits.excess_max[i]),
     )
     need = s * speed**2 / (G0 * (c_max + d_max))
     if low is not None and math.isfinite(x_max):

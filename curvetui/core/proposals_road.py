@@ -78,8 +78,10 @@ def desirable_radius(
     r_min = minimum_radius(table, speed, e_max, f_table)
     return float(
         radius_for_superelevation(
-            share * e_max, lambda r: road_engine.design_superelevation(table, speed, r, e_max),
-            r_min, 1000.0 * r_min,
+            share * e_max,
+            lambda r: road_engine.design_superelevation(table, speed, r, e_max),
+            r_min,
+            1000.0 * r_min,
         )
     )
 
@@ -155,16 +157,27 @@ def spiral_choice(
     minimum rounded up to ``step``; none above the table's spiral radius or when the
     rounded length passes the maximum. ``deflection`` [rad] adds Ls <= R Delta."""
     t = tr.road_transition(
-        table, speed, radius, e, lane_width=lane_width, lanes_rotated=lanes_rotated,
-        c=c, p_min=p_min, p_max=p_max,
+        table,
+        speed,
+        radius,
+        e,
+        lane_width=lane_width,
+        lanes_rotated=lanes_rotated,
+        c=c,
+        p_min=p_min,
+        p_max=p_max,
     )
     lo, hi = float(t.spiral_length_min), float(t.spiral_length_max)
     if deflection is not None:
         hi = min(hi, radius * deflection * (1 - 1e-9))
     r_sp = float(table.spiral_radius_max_si(speed))
     common = dict(
-        length_min=lo, length_max=hi, governing=str(t.governing_name),
-        spiral_radius_max=r_sp, runoff=float(t.runoff), runout=float(t.runout),
+        length_min=lo,
+        length_max=hi,
+        governing=str(t.governing_name),
+        spiral_radius_max=r_sp,
+        runoff=float(t.runoff),
+        runout=float(t.runout),
     )
     if math.isfinite(r_sp) and radius > r_sp * (1 + 1e-12):
         return SpiralChoice(math.nan, SPIRAL_NOT_NEEDED, **common)
@@ -250,8 +263,17 @@ def propose_road(
     c, p_min, p_max = spiral_constants
     e_use = e_p if math.isfinite(e_p) else -table.normal_crown
     spiral = spiral_choice(
-        table, speed, radius, e_use, lane_width, lanes_rotated, c, p_min, p_max,
-        SPIRAL_STEP[units], deflection,
+        table,
+        speed,
+        radius,
+        e_use,
+        lane_width,
+        lanes_rotated,
+        c,
+        p_min,
+        p_max,
+        SPIRAL_STEP[units],
+        deflection,
     )
     return RoadProposal(
         min_radius=r_min,
