@@ -353,7 +353,15 @@ def _rail(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
         fits = "deflection" not in si or p.transition_length <= p.radius * math.radians(
             si["deflection"]
         ) * (1 - 1e-9)
-        if fits:
+        given_in = si.get("spiral_in", 0.0)
+        given_out = si.get("spiral_out", given_in)
+        if min(given_in, given_out) >= float(t.length) * (1 + 1e-12):
+            reasons.append(
+                f"{text}; the spirals given ({length(given_in)}"
+                + (f", {length(given_out)} out" if given_out != given_in else "")
+                + ") are at least that long: kept"
+            )
+        elif fits:
             spiral = _clean(float(L(p.transition_length)))
             reasons.append(text)
         else:
