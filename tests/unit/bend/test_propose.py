@@ -24,7 +24,7 @@ from curvetui.core.units import unit_system
 from curvetui.inputs import InputError
 from curvetui.storage.tables import rail_limits, road_table
 
-BOUNDED = settings(max_examples=25, derandomize=True, deadline=None)
+BOUNDED = settings(max_examples=20, derandomize=True, deadline=None)
 UNITS = {u: unit_system(u) for u in ("metric", "us")}
 TABLES = {u: road_table(None, u) for u in UNITS}
 LIMITS = {"metric": rail_limits(None, "metric"), "us": rail_limits("49cfr213-class3-5", "us")}

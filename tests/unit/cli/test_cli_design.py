@@ -34,8 +34,16 @@ def test_design_road_json_has_the_proposal_and_its_passing_evaluation(capsys):
 
 def test_design_rail_json_us_cant_on_the_quarter_inch(capsys):
     code, out = run_json(
-        capsys, "rail", "--speed", "65", "--radius", "2864.79", "--units", "us",
-        "--limits", "49cfr213-class3-5",
+        capsys,
+        "rail",
+        "--speed",
+        "65",
+        "--radius",
+        "2864.79",
+        "--units",
+        "us",
+        "--limits",
+        "49cfr213-class3-5",
     )
     # 49 CFR 213 App. A Table 1 (read): 2 deg curve, 3 in cant, 3 in unbalance: 65 mph
     assert code == 0 and out["proposed"]["cant"] == 3.0
