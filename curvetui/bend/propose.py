@@ -132,6 +132,13 @@ def propose(
     si = {k: float(v[0]) for k, v in parsed.si.items() if parsed.present[k][0]}
     if kind == "road":
         p = _road(si, units, table)
+        hi = BY_KEY["radius"].allowed("road", units)[1]
+        if p.proposed["radius"] > hi:  # only a sight need gets there
+            raise InputError(
+                f"{name('obstruction_offset')}: too small for a proposal: the sight line "
+                f"would need a radius of {p.proposed['radius']:g} {units.length_label}, "
+                f"beyond the largest radius allowed ({hi:g} {units.length_label})"
+            )
     else:
         p = _rail(si, units, limits)
     p.current = {k: given.get(k) for k in p.proposed}

@@ -97,8 +97,11 @@ def sight_radius(
     rounding; ``units`` "metric" or "us"). The arc form assumes S within the curve; where
     the curve is shorter the check's sight line runs onto the tangents and needs less
     offset (for S > L, R(1 - cos(L/2R)) + (S - L)/2 sin(L/2R) <= R(1 - cos(S/2R))), so the
-    radius found passes either way. Below R_lane = S / (2 pi) the formula folds back; where
-    even that radius clears the offset it is returned. NaN where braking cannot stop.
+    radius found passes either way. The offset R (1 - cos(S / (2R))) falls as R grows only
+    while the half angle x = S / (2R) is below x* = 2.3311 rad, the root of
+    1 - cos x = x sin x (where its derivative in R is zero); below R = S / (2 x*) the formula
+    folds back. Where even that radius clears the offset it is returned (every larger one
+    clears it too). NaN where braking cannot stop.
     """
     from scipy.optimize import brentq
 
@@ -109,7 +112,8 @@ def sight_radius(
     def gap(r_lane: float) -> float:
         return float(sd.sightline_offset(r_lane, ssd)) - offset
 
-    lo = ssd / (2.0 * math.pi)
+    x_star = brentq(lambda x: 1.0 - math.cos(x) - x * math.sin(x), 2.0, 3.0, xtol=1e-15)
+    lo = ssd / (2.0 * x_star)
     if gap(lo) <= 0.0:
         return lo + lane_width / 2.0
     hi = 2.0 * lo

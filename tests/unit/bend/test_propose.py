@@ -27,6 +27,11 @@ from curvetui.storage.tables import rail_limits, road_table
 BOUNDED = settings(max_examples=20, derandomize=True, deadline=None)
 UNITS = {u: unit_system(u) for u in ("metric", "us")}
 TABLES = {u: road_table(None, u) for u in UNITS}
+# the shipped road tables by their units: Green Book Method 5 and the low-speed Method 2
+SHIPPED = {
+    "metric": ("aashto-2018-metric", "aashto-2018-low-speed-metric"),
+    "us": ("aashto-2018-us", "aashto-2018-low-speed-us"),
+}
 LIMITS = {"metric": rail_limits(None, "metric"), "us": rail_limits("49cfr213-class3-5", "us")}
 RADIUS_STEP = {"metric": 5.0, "us": 10.0}
 CANT_STEP = {"metric": 5.0, "us": 0.25}
@@ -39,7 +44,7 @@ def _multiple(x: float, step: float) -> bool:
 @st.composite
 def road_inputs(draw):
     u = draw(st.sampled_from(("metric", "us")))
-    t = TABLES[u]
+    t = road_table(draw(st.sampled_from(SHIPPED[u])), u)
     speed = draw(st.sampled_from([float(s) for s in t.speeds]))
     raw = {"speed": speed, "emax": draw(st.sampled_from([100 * e for e in t.emax_tabulated]))}
     if draw(st.booleans()):
@@ -47,14 +52,14 @@ def road_inputs(draw):
     if draw(st.booleans()):
         m = draw(st.floats(0.5, 25.0))
         raw["obstruction_offset"] = m if u == "metric" else m * 3.28
-    return u, raw
+    return u, t, raw
 
 
 @BOUNDED
 @given(road_inputs())
 def test_every_road_proposal_passes_every_check_it_claims(case):
-    u, raw = case
-    units, table = UNITS[u], TABLES[u]
+    u, table, raw = case
+    units = UNITS[u]
     p = propose("road", raw, units, table, None)
     rec = check_bend("road", p.inputs, units, table, None).to_json()
     assert rec["status"] == "pass", (raw, p.proposed, rec["messages"])
@@ -78,8 +83,8 @@ def test_every_road_proposal_passes_every_check_it_claims(case):
 @BOUNDED
 @given(road_inputs())
 def test_a_road_radius_the_sight_line_governs_fails_one_step_smaller(case):
-    u, raw = case
-    units, table = UNITS[u], TABLES[u]
+    u, table, raw = case
+    units = UNITS[u]
     p = propose("road", raw, units, table, None)
     if p.figures["governing"] != "sight":
         return
@@ -162,6 +167,14 @@ def test_a_speed_outside_the_table_is_refused_with_the_field_and_range():
             None,
             LIMITS["metric"],
         )
+
+
+def test_a_sight_need_beyond_the_largest_radius_is_refused_naming_the_offset():
+    # 75 mph down a 15 % grade past an obstruction 0.5 ft from the lane centre: the sight
+    # line would need a radius beyond the field's 328084 ft (100 km)
+    raw = {"speed": 75, "obstruction_offset": 0.5, "grade": -15}
+    with pytest.raises(InputError, match=r"--obstruction-offset: too small .* 328084 ft"):
+        propose("road", raw, UNITS["us"], TABLES["us"], None)
 
 
 def test_a_wrong_radius_or_superelevation_is_replaced_not_refused():

@@ -65,10 +65,21 @@ def test_sight_radius_inverts_the_txdot_worked_example():
     assert r_lane_12 == pytest.approx(1156.0, rel=1e-9)
 
 
-def test_sight_radius_where_the_formula_folds_back_is_the_fold():
-    # an offset wider than S / pi clears at every radius from S / (2 pi) up
-    r = pq.sight_radius(50 * MPH, 1000 * FOOT, 0.0, "us") / FOOT
-    assert r == pytest.approx(425 / (2 * math.pi), rel=1e-9)
+def test_sight_radius_where_the_formula_folds_back_is_where_it_peaks():
+    # HSO(R) = R (1 - cos(S / 2R)) peaks where d/dR = 0: 1 - cos x = x sin x, x = S / 2R;
+    # x* found here with mpmath (reference library), 2.3311... rad
+    import mpmath
+
+    x_star = float(mpmath.findroot(lambda x: 1 - mpmath.cos(x) - x * mpmath.sin(x), 2.33))
+    assert x_star == pytest.approx(2.3311, abs=1e-4)
+    peak = 425 / (2 * x_star) * (1 - math.cos(x_star))  # the largest offset any R needs
+    # an offset at least the peak clears at every radius from S / (2 x*) up
+    r = pq.sight_radius(50 * MPH, peak * FOOT * 1.001, 0.0, "us") / FOOT
+    assert r == pytest.approx(425 / (2 * x_star), rel=1e-9)
+    # just below the peak the answer is the larger root, past the fold
+    r2 = pq.sight_radius(50 * MPH, peak * FOOT * 0.999, 0.0, "us") / FOOT
+    assert r2 > 425 / (2 * x_star)
+    assert r2 * (1 - math.cos(425 / (2 * r2))) == pytest.approx(peak * 0.999, rel=1e-9)
 
 
 def test_desirable_radius_is_where_the_distribution_gives_the_share_of_emax():
