@@ -173,7 +173,7 @@ def test_a_sight_need_beyond_the_largest_radius_is_refused_naming_the_offset():
     # 75 mph down a 15 % grade past an obstruction 0.5 ft from the lane centre: the sight
     # line would need a radius beyond the field's 328084 ft (100 km)
     raw = {"speed": 75, "obstruction_offset": 0.5, "grade": -15}
-    with pytest.raises(InputError, match=r"--obstruction-offset: too small .* 328084 ft"):
+    with pytest.raises(InputError, match=r"--obstruction-offset: too small .* \(328084 ft\)"):
         propose("road", raw, UNITS["us"], TABLES["us"], None)
 
 
