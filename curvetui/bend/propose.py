@@ -289,7 +289,8 @@ def _rail(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
     v, low = si["speed"], si.get("low_speed")
     r_given = si.get("radius")
     s = _rail_centres(si, limits)
-    p = pr.propose_rail(limits, v, low, r_given, s, u)
+    floor = float(units.length_to_si(BY_KEY["radius"].allowed("rail", units)[0]))
+    p = pr.propose_rail(limits, v, low, r_given, s, u, floor)
     L, C = units.length_from_si, units.cant  # noqa: N806 - user units
 
     def length(x: float) -> str:
@@ -341,7 +342,7 @@ def _rail(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
         f"nearest the target (step: common practice, no source)"
     )
     t = p.transition
-    spiral = None
+    spiral: float | str | None = None  # a length, "none" (cleared), None (left as given)
     if math.isfinite(p.transition_length) and p.transition_length > 0:
         gov = RAIL_GOVERNING[int(t.governing)]
         parts = ", ".join(
@@ -362,7 +363,10 @@ def _rail(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
         ) * (1 - 1e-9)
         given_in = si.get("spiral_in", 0.0)
         given_out = si.get("spiral_out", given_in)
-        if min(given_in, given_out) >= float(t.length) * (1 + 1e-12):
+        given_fit = "deflection" not in si or (given_in + given_out) / (2 * p.radius) <= (
+            math.radians(si["deflection"]) * (1 - 1e-9)
+        )
+        if min(given_in, given_out) >= float(t.length) * (1 + 1e-12) and given_fit:
             reasons.append(
                 f"{text}; the spirals given ({length(given_in)}"
                 + (f", {length(given_out)} out" if given_out != given_in else "")
@@ -373,18 +377,23 @@ def _rail(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
             reasons.append(text)
         else:
             reasons.append(
-                text + "; two transitions of that length do not fit the "
-                "deflection: spirals left as they were"
+                text + "; two transitions of that length do not fit the deflection "
+                "(Ls / R > Delta): spirals left as they were; a larger radius or deflection "
+                "is needed"
             )
     elif math.isfinite(p.transition_length):
         reasons.append("transition: none needed (no cant and no deficiency)")
+        if "spiral_in" in si or "spiral_out" in si:
+            spiral = "none"
     else:
         reasons.append(f"transition: the limits {limits.name} set no transition limits")
     proposed: dict[str, float | None] = {
         "radius": _clean(float(L(p.radius))),
         "cant": _clean(p.cant / C),
     }
-    if spiral is not None:  # else the spirals are left as given
+    if spiral == "none":
+        proposed.update(spiral_in=None, spiral_out=None)
+    elif spiral is not None:  # else the spirals are left as given
         proposed.update(spiral_in=spiral, spiral_out=None)
     figures = {
         "cant_allowed_min": b.lo / C,

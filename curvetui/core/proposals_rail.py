@@ -131,9 +131,11 @@ def propose_rail(
     radius: float | None,
     s: float,
     units: str,
+    radius_floor: float = 0.0,
 ) -> RailProposal:
     """Propose a cant (and, where none fits, a radius) for one rail curve (SI scalars).
-    ``radius`` None: no radius given, the least that admits both trains is proposed."""
+    ``radius`` None: no radius given, the least that admits both trains is proposed, never
+    below ``radius_floor`` [m] (the least radius the inputs take)."""
     step = CANT_STEP[units]
     cant = math.nan
     if radius is not None and radius >= limits.radius_min * (1 - 1e-12):
@@ -143,7 +145,7 @@ def propose_rail(
     changed = not math.isfinite(cant)
     r_least = math.nan
     if changed:
-        r_least = least_radius(limits, speed, low, s)
+        r_least = max(least_radius(limits, speed, low, s), radius_floor)
         r_step = RADIUS_STEP[units]
         r0 = ceil_to(r_least, r_step)
         for i in range(MAX_STEPS):
