@@ -42,6 +42,8 @@ class CurveApp(StopsCleanly, KeyOrder):
         Binding("ctrl+down", "move_bend(1)", "Move down", show=False),
         Binding("f5", "print_sheet", "Print"),
         Binding("f6", "toggle_theme", "Light/dark"),
+        Binding("f7", "propose", "Propose"),
+        Binding("ctrl+r", "undo_proposal", "Undo proposal", show=False),
         Binding("f9", "next_view", "Next view"),
         Binding("escape", "focus_list", "Bend list", show=False),
         Binding("ctrl+q", "request_quit", "Quit", priority=True),
@@ -52,6 +54,7 @@ class CurveApp(StopsCleanly, KeyOrder):
         self.session = session
         self.last_recompute_ms = 0.0  # the last edit's handling, engine and redraw (ms)
         self.project_screen = ProjectScreen(session)
+        self.proposal_undo: tuple[Bend, dict] | None = None  # the bend and what F7 replaced
 
     def notify(self, message: str, *, title: str = "", markup: bool = False, **kwargs) -> None:
         """A note on screen; its text (ids, file names, values typed) is never markup."""
@@ -74,6 +77,7 @@ class CurveApp(StopsCleanly, KeyOrder):
         """Show another session (a project opened anew) from its start."""
         self.session = session
         self.last_recompute_ms = 0.0
+        self.proposal_undo = None
         self.project_screen.show(session)
 
     async def on_ready(self) -> None:
@@ -182,6 +186,49 @@ class CurveApp(StopsCleanly, KeyOrder):
             return
         self.notify(f"Worksheet written: {out}", timeout=10)
 
+    def action_propose(self) -> None:
+        """F7: the proposal for the bend on screen; Apply sets its fields (ctrl+r puts back
+        every field the apply changed, as one step)."""
+        from curvetui.app.proposals import propose_for
+
+        bend = self.current
+        if bend is None:
+            return
+        self.project_screen.take_typed()
+        try:
+            units, proposal = propose_for(self.session, bend)
+        except InputError as exc:
+            self.notify(f"No proposal for {bend.id}: {exc}", severity="error", timeout=10)
+            return
+
+        def done(answer: str | None) -> None:
+            if answer != "apply" or not any(b is bend for b in self.session.project.bends):
+                return
+            changes = proposal.changes()
+            if not changes:
+                self.notify(f"{bend.id} already has the proposed values.")
+                return
+            old = self.session.set_inputs(bend, changes)
+            self.proposal_undo = (bend, old)
+            names = ", ".join(k.replace("_", " ") for k in changes)
+            self.notify(f"Proposal applied to {bend.id} ({names}); ctrl+r puts them back.")
+
+        from curvetui.app.dialogs.proposal import ProposalDialog
+
+        self.push_screen(ProposalDialog(bend.id, proposal, units), done)
+
+    def action_undo_proposal(self) -> None:
+        """ctrl+r: every field the last applied proposal changed, back as it was."""
+        undo, self.proposal_undo = self.proposal_undo, None
+        if undo is None or not any(b is undo[0] for b in self.session.project.bends):
+            self.bell()
+            self.notify("No applied proposal to put back.")
+            return
+        bend, old = undo
+        self.session.select(bend)
+        self.session.set_inputs(bend, old)
+        self.notify(f"{bend.id}: the fields the proposal changed are back as they were.")
+
     def action_request_quit(self) -> None:
         self.project_screen.take_typed()
         if not self.session.dirty:
@@ -238,6 +285,14 @@ class CurveApp(StopsCleanly, KeyOrder):
             lambda: show("crossfall"),
         )
         yield SystemCommand("Light or dark", "Switch the theme (F6)", self.action_toggle_theme)
+        yield SystemCommand(
+            "Propose", "Radius, superelevation or cant for this bend (F7)", self.action_propose
+        )
+        yield SystemCommand(
+            "Undo proposal",
+            "Put back the fields the last proposal changed (ctrl+r)",
+            self.action_undo_proposal,
+        )
 
 
 def build_app(path: str | Path) -> CurveApp:

@@ -74,7 +74,8 @@ class Change:
     """What the last change of a session touched: ``what`` is 'open', 'computed' (every
     bend evaluated, or with ``bend`` that one), 'select' (another bend on screen), 'field'
     (one field of ``bend``, ``key``), 'kind', 'bends' (added, copied, deleted or moved),
-    'details' (names, units, tables) or 'saved'."""
+    'details' (names, units, tables), 'inputs' (several inputs of ``bend`` at once) or
+    'saved'."""
 
     what: str
     bend: Bend | None = None
@@ -220,6 +221,22 @@ class Session:
         st = self.recompute(bend)
         self._changed("field", bend, key)
         return st
+
+    def set_inputs(self, bend: Bend, values: Mapping[str, object]) -> dict[str, object]:
+        """Several inputs at once (a proposal applied, or put back): numbers, None to clear;
+        one recompute and one change ('inputs': the worksheet is filled again). Returns
+        the values they replaced (None where absent), to put back as one step."""
+        old = {key: bend.inputs.get(key) for key in values}
+        for key, value in values.items():
+            if value is None:
+                if bend.inputs.pop(key, None) is not None:
+                    self.dirty = True
+            elif not same_value(bend.inputs.get(key), value):
+                bend.inputs[key] = value
+                self.dirty = True
+        self.recompute(bend)
+        self._changed("inputs", bend)
+        return old
 
     def edit_field(self, bend: Bend, key: str, text: str) -> BendState:
         """One worksheet field as typed: an engine input, the bend id, station or notes."""

@@ -75,6 +75,10 @@ def build_parser(command: str | None = None) -> argparse.ArgumentParser:
         from curvetui.cli import crossfall_cmd
 
         crossfall_cmd.add_parser(sub)
+    if wanted("design"):
+        from curvetui.cli import design_cmd
+
+        design_cmd.add_parser(sub)
     return parser
 
 

@@ -27,6 +27,7 @@ COMMANDS = {
     "sheet",
     "batch",
     "crossfall",
+    "design",
     "-h",
     "--help",
     "--version",

@@ -119,6 +119,7 @@ class Worksheet(Horizontal):
             "open",
             "kind",
             "details",
+            "inputs",
         ):
             self._bend = bend
             texts = {key: session.field_text(bend, key) for key in FORM_FIELDS + ALL_FIELDS}

@@ -1,0 +1,150 @@
+"""A rail curve's proposal in the project's units (see curvetui.bend.propose): the cant,
+transition or least radius of curvetui.core.proposals_rail, with the reasons as text."""
+
+from __future__ import annotations
+
+import math
+
+from curvetui.bend.fields import BY_KEY
+from curvetui.bend.propose import Proposal, _clean, _g
+from curvetui.core import proposals_rail as pr
+from curvetui.core.rail import RailLimits, rail_centres_for_gauge
+from curvetui.core.transitions import RAIL_GOVERNING
+from curvetui.core.units import UnitSystem
+
+
+def _rail_centres(si: dict, limits: RailLimits) -> float:
+    """The s the evaluation uses (curvetui.bend.evaluate._rail): the limits' own, or the
+    given gauge's where it is another."""
+    g = si.get("gauge")
+    if g is None or abs(g / 1000.0 - limits.gauge) < 0.0005:
+        return float(limits.rail_centres)
+    return rail_centres_for_gauge(g)
+
+
+def rail_proposal(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
+    """The proposal for one rail curve's inputs ``si`` (parsed, SI); no record yet."""
+    ln, u, cl, sl = units.length_label, units.name, units.cant_label, units.speed_label
+    v, low = si["speed"], si.get("low_speed")
+    r_given = si.get("radius")
+    s = _rail_centres(si, limits)
+    floor = float(units.length_to_si(BY_KEY["radius"].allowed("rail", units)[0]))
+    p = pr.propose_rail(limits, v, low, r_given, s, u, floor)
+    L, C = units.length_from_si, units.cant  # noqa: N806 - user units
+
+    def length(x: float) -> str:
+        return f"{_g(float(L(x)))} {ln}"
+
+    def cant(x: float) -> str:
+        return f"{_g(x / C)} {cl}"
+
+    b = p.band
+    fast = f"{float(units.speed_from_si(v)):g} {sl}"
+    reasons = []
+    if p.radius_changed:
+        if r_given is None:
+            given = "no radius was given"
+        elif r_given < limits.radius_min * (1 - 1e-12):
+            given = f"R {length(r_given)} is below the limits' least radius"
+        else:
+            given = f"no cant on the {cant(pr.CANT_STEP[u])} step serves both trains at R "
+            given += length(r_given)
+        reasons.append(
+            f"radius {length(p.radius)}: {given}; the least radius that admits them is "
+            f"max(s v^2 / (g (C + I)), s (v^2 - u^2) / (g (I + X)), the limits' least radius) = "
+            f"{length(p.radius_least)}, rounded up to {length(pr.RADIUS_STEP[u])} and raised "
+            f"by that step until a cant on the step fits (step: common practice, no source)"
+        )
+    slow = (
+        f", excess at {float(units.speed_from_si(low)):g} {sl} at most {cant(b.excess_max)}"
+        if low is not None and math.isfinite(b.excess_max)
+        else ""
+    )
+    reasons.append(
+        f"cants serving both trains at R {length(p.radius)}: {cant(b.lo)} to {cant(b.hi)} "
+        f"(cant at most {cant(b.cant_max)}, deficiency at {fast} at most "
+        f"{cant(b.deficiency_max)}{slow}; limits {limits.name})"
+    )
+    if p.rule == "balancing":
+        reasons.append(
+            f"target {cant(p.target)}: the balancing cant (X E_f + I E_s) / (I + X), the same "
+            f"share of the deficiency and excess limits (common practice, no source)"
+        )
+    else:
+        reasons.append(
+            f"target {cant(p.target)}: the least cant that keeps the deficiency at {fast} "
+            f"within its recommended {cant(b.deficiency_recommended)} (common practice, no "
+            f"source)"
+        )
+    reasons.append(
+        f"cant {cant(p.cant)}: the multiple of {cant(pr.CANT_STEP[u])} inside the band "
+        f"nearest the target (step: common practice, no source)"
+    )
+    t = p.transition
+    spiral: float | str | None = None  # a length, "none" (cleared), None (left as given)
+    if math.isfinite(p.transition_length) and p.transition_length > 0:
+        gov = RAIL_GOVERNING[int(t.governing)]
+        parts = ", ".join(
+            f"{n} {length(float(x))}"
+            for n, x in zip(
+                RAIL_GOVERNING,
+                (t.length_cant_gradient, t.length_cant_rate, t.length_deficiency_rate),
+                strict=True,
+            )
+            if math.isfinite(float(x))
+        )
+        text = (
+            f"transition {length(p.transition_length)}: the longest of {parts} ({gov} "
+            f"governs; limits {limits.name}), rounded up to {length(pr.LENGTH_STEP[u])}"
+        )
+        fits = "deflection" not in si or p.transition_length <= p.radius * math.radians(
+            si["deflection"]
+        ) * (1 - 1e-9)
+        given_in = si.get("spiral_in", 0.0)
+        given_out = si.get("spiral_out", given_in)
+        given_fit = "deflection" not in si or (given_in + given_out) / (2 * p.radius) <= (
+            math.radians(si["deflection"]) * (1 - 1e-9)
+        )
+        if min(given_in, given_out) >= float(t.length) * (1 + 1e-12) and given_fit:
+            reasons.append(
+                f"{text}; the spirals given ({length(given_in)}"
+                + (f", {length(given_out)} out" if given_out != given_in else "")
+                + ") are at least that long: kept"
+            )
+        elif fits:
+            spiral = _clean(float(L(p.transition_length)))
+            reasons.append(text)
+        else:
+            reasons.append(
+                text + "; two transitions of that length do not fit the deflection "
+                "(Ls / R > Delta): spirals left as they were; a larger radius or deflection "
+                "is needed"
+            )
+    elif math.isfinite(p.transition_length):
+        reasons.append("transition: none needed (no cant and no deficiency)")
+        if "spiral_in" in si or "spiral_out" in si:
+            spiral = "none"
+    else:
+        reasons.append(f"transition: the limits {limits.name} set no transition limits")
+    proposed: dict[str, float | None] = {
+        "radius": _clean(float(L(p.radius))),
+        "cant": _clean(p.cant / C),
+    }
+    if spiral == "none":
+        proposed.update(spiral_in=None, spiral_out=None)
+    elif spiral is not None:  # else the spirals are left as given
+        proposed.update(spiral_in=spiral, spiral_out=None)
+    figures = {
+        "cant_allowed_min": b.lo / C,
+        "cant_allowed_max": b.hi / C,
+        "target": p.target / C,
+        "rule": p.rule,
+        "cant_step": _clean(pr.CANT_STEP[u] / C),
+        "radius_least": float(L(p.radius_least)),
+        "radius_step": _clean(float(L(pr.RADIUS_STEP[u]))),
+        "transition_length": float(L(p.transition_length)),
+        "length_cant_gradient": float(L(float(t.length_cant_gradient))),
+        "length_cant_rate": float(L(float(t.length_cant_rate))),
+        "length_deficiency_rate": float(L(float(t.length_deficiency_rate))),
+    }
+    return Proposal("rail", u, proposed, {}, reasons, figures, {})
