@@ -26,6 +26,7 @@ COMMANDS = {
     "new",
     "sheet",
     "batch",
+    "landxml",
     "-h",
     "--help",
     "--version",

@@ -161,9 +161,7 @@ def _radius(node: Node, key: str, units: FileUnits) -> float:
     if math.isinf(value) and text.upper() != "INF":
         raise ValueError(f"{node.where()}: {key}: write an infinite radius as INF")
     if not value > 0:
-        raise ValueError(
-            f"{node.where()}: {key} must be a positive length or INF, got {text!r}"
-        )
+        raise ValueError(f"{node.where()}: {key} must be a positive length or INF, got {text!r}")
     return units.length(value) if math.isfinite(value) else math.inf
 
 
@@ -182,8 +180,14 @@ def _element(node: Node, units: FileUnits, notes: list[str]) -> Element:
         else:
             radius = math.dist(start, centre)
         el = ArcElement(
-            start, centre, end, rot, radius, _point(node, "PI", units, False),
-            _station(node, units), label,
+            start,
+            centre,
+            end,
+            rot,
+            radius,
+            _point(node, "PI", units, False),
+            _station(node, units),
+            label,
         )
         _attribute_notes(node, el, units, notes)
         return el
@@ -248,9 +252,7 @@ def _alignment(node: Node, units: FileUnits, project_name: str) -> ImportedAlign
         if child.tag != "CoordGeom":
             notes.append(f"{child.where()}: left out (horizontal alignment only)")
     elements = [
-        _element(child, units, notes)
-        for child in geometry[0].children
-        if child.tag != "Feature"
+        _element(child, units, notes) for child in geometry[0].children if child.tag != "Feature"
     ]
     chain = chain_from_elements(elements, start_station, name)
     _station_notes(chain, elements, length, units, notes)

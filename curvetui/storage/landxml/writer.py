@@ -90,7 +90,7 @@ def landxml_text(
         'desc="horizontal alignment exported by curvetui; local road or rail authority '
         'standards govern and a qualified engineer must check every result"/>',
         "  <Alignments>",
-        f"    <Alignment name={_attr(chain.name or 'alignment')} length=\"{n(total)}\" "
+        f'    <Alignment name={_attr(chain.name or "alignment")} length="{n(total)}" '
         f'staStart="{n(chain.start_station)}">',
         "      <CoordGeom>",
     ]
@@ -98,8 +98,9 @@ def landxml_text(
         sta = f'staStart="{n(el.station)}"'
         length = f'length="{n(element_length(el))}"'
         if isinstance(el, LineElement):
-            lines.append(f"        <Line {sta} {length}>{pt('Start', el.start)}"
-                         f"{pt('End', el.end)}</Line>")
+            lines.append(
+                f"        <Line {sta} {length}>{pt('Start', el.start)}{pt('End', el.end)}</Line>"
+            )
         elif isinstance(el, ArcElement):
             rot = "cw" if el.rot > 0 else "ccw"
             lines.append(
