@@ -36,6 +36,9 @@ from curvetui.core.alignment import AlignmentError, Chain, bearing
 POSITION_TOL = 0.005  # [m]
 ANGLE_TOL = 1e-4  # [rad], about 21 arc seconds
 ZERO_LENGTH = 1e-9  # [m] a tangent shorter than this is no Line element
+# [m] a spiral shorter than a micrometre is left out (no file writes its length; the offset
+# it makes, Ls^2 / (6 R) at its end, is below 1e-12 m)
+SHORTEST_SPIRAL = 1e-6
 
 
 class ElementError(ValueError):
@@ -162,7 +165,7 @@ def chain_elements(chain: Chain) -> list[Element]:
         sc = _add(ts, (float(g.xs_in), u0), (float(g.ys_in), n0))
         cs = _add(st, (-float(g.xs_out), u1), (float(g.ys_out), n1))
         centre = _add(ts, (float(g.k_in), u0), (r + float(g.p_in), n0))
-        if l1 > 0:
+        if l1 >= SHORTEST_SPIRAL:
             th = float(g.theta_in)
             long_t = float(g.xs_in) - float(g.ys_in) / math.tan(th)
             out.append(
@@ -173,7 +176,7 @@ def chain_elements(chain: Chain) -> list[Element]:
             t_sc = _unit(bearing(points[i], pi) + side * float(g.theta_in))
             arc_pi = _add(sc, (r * math.tan(lc / (2 * r)), t_sc))
             out.append(ArcElement(sc, centre, cs, side, r, arc_pi, float(g.sc)))
-        if l2 > 0:
+        if l2 >= SHORTEST_SPIRAL:
             th = float(g.theta_out)
             long_t = float(g.xs_out) - float(g.ys_out) / math.tan(th)
             out.append(
@@ -278,7 +281,9 @@ def _check_spiral_shape(el: SpiralElement, clothoid_xy) -> None:
         given, which = el.start, "start"
     off = _norm(_sub(given, expected))
     turn = signed_turn(ds, de) * el.rot
-    if off > POSITION_TOL or abs(turn - el.length / (2 * r)) > ANGLE_TOL:
+    _, _, base_a, base_b = _directions(el)
+    allowed = ANGLE_TOL + 2 * POSITION_TOL / min(base_a, base_b)
+    if off > POSITION_TOL or abs(turn - el.length / (2 * r)) > allowed:
         raise ElementError(
             f"{el.label}: not a clothoid of length {el.length:.4f} m to radius {r:.4f} m "
             f"turning {'clockwise' if el.rot > 0 else 'counter-clockwise'} (its {which} lies "
@@ -381,6 +386,17 @@ def _close(bend: list[Element]) -> None:
         )
 
 
+def _tangent_direction(elements: list[Element], index: int, before: bool) -> Point:
+    """The direction of a bend's tangent at its first (``before``) or last element: that of
+    the Line next to it when there is one (measured over the Line's whole length, better
+    than over a short spiral's), else the element's own."""
+    j = index - 1 if before else index + 1
+    if 0 <= j < len(elements) and isinstance(elements[j], LineElement):
+        return _directions(elements[j])[0]
+    ds, de, _, _ = _directions(elements[index])
+    return ds if before else de
+
+
 def chain_from_elements(
     elements: list[Element], start_station: float = 0.0, name: str = ""
 ) -> Chain:
@@ -402,10 +418,11 @@ def chain_from_elements(
         raise ElementError("only straight lines: an alignment needs at least one bend")
     points: list[Point] = [elements[0].start]
     radii, ls_in, ls_out = [], [], []
+    position = {id(el): i for i, el in enumerate(elements)}
     for bend in bends:
         first, last = bend[0], bend[-1]
-        u, _, _, _ = _directions(first)
-        _, v, _, _ = _directions(last)
+        u = _tangent_direction(elements, position[id(first)], before=True)
+        v = _tangent_direction(elements, position[id(last)], before=False)
         turn = signed_turn(u, v)
         if turn * first.rot <= 0:
             raise ElementError(
