@@ -60,6 +60,10 @@ def add_parser(sub) -> None:
     p.set_defaults(run=lambda args: _no_command(p))
 
 
+def _bends(n: int) -> str:
+    return f"{n} bend" if n == 1 else f"{n} bends"
+
+
 def _no_command(parser) -> int:
     parser.print_help()
     return 2
@@ -103,7 +107,7 @@ def _run_import(args) -> int:
     out.print(
         clean(
             f"Created {out_path} ({units} units) from alignment {chain.name!r} in {args.file}: "
-            f"{len(chain.radii)} bends, start station "
+            f"{_bends(len(chain.radii))}, start station "
             f"{data['alignment']['start_station']:.3f} {unit}."
         ),
         markup=False,
@@ -167,13 +171,13 @@ def _run_export(args) -> int:
     counts = {tag: text.count(f"<{tag} ") for tag in ("Line", "Spiral", "Curve")}
     out.print(
         clean(
-            f"Wrote {out_path}: alignment {chain.name!r}, {len(chain.radii)} bends as "
+            f"Wrote {out_path}: alignment {chain.name!r}, {_bends(len(chain.radii))} as "
             f"{counts['Line']} Line, {counts['Spiral']} Spiral (clothoid) and "
             f"{counts['Curve']} Curve elements, {units} units, LandXML 1.2."
         ),
         markup=False,
     )
-    for _, _, warning in chain.lay_out().warnings:
-        out.print(clean(f"  {warning}"), markup=False)
+    for _, _, warning in chain.lay_out().warnings:  # the engine's text, in metres
+        out.print(clean(f"  alignment check (SI units): {warning}"), markup=False)
     print_caution(out)
     return 0

@@ -37,15 +37,15 @@ from curvetui.core.plan_elements import (
 from curvetui.storage.landxml.units import FileUnits, units_of
 from curvetui.storage.landxml.xmltree import LandXMLError, Node, read_file
 
-IGNORED_IN_ALIGNMENT = {
-    "Profile",
-    "CrossSects",
-    "Superelevation",
-    "Cant",
-    "AlignPIs",
-    "DesignSpeed",
-    "Start",
-    "Feature",
+UNIT_SYMBOLS = {
+    "millimeter": "mm",
+    "centimeter": "cm",
+    "meter": "m",
+    "kilometer": "km",
+    "foot": "ft",
+    "USSurveyFoot": "US survey ft",
+    "inch": "in",
+    "mile": "mi",
 }
 
 
@@ -270,7 +270,7 @@ def _station_notes(
 ) -> None:
     """Notes where the file's Alignment length or an element's staStart differs from the
     rebuilt alignment by more than POSITION_TOL (shown in the file's length unit)."""
-    unit = units.linear_name
+    unit = UNIT_SYMBOLS.get(units.linear_name, units.linear_name)
     rebuilt = [el for el in chain_elements(chain) if element_length(el) > POSITION_TOL]
     total = sum(element_length(el) for el in rebuilt)
     if abs(total - length) > POSITION_TOL:

@@ -282,3 +282,15 @@ def test_wrong_root_and_namespace():
         parse_bytes(b"<kml><Document/></kml>")
     with pytest.raises(LandXMLError, match=r"namespace .*LandXML-1\.1.* is not LandXML 1\.2"):
         parse_bytes(b'<LandXML xmlns="http://www.landxml.org/schema/LandXML-1.1"/>')
+
+
+def test_stations_and_length_that_disagree_are_noted(tmp_path):
+    """SIMPLE from station 0: the curve starts at 100 m; its arc is 50 pi = 157.0796 m."""
+    geom = SIMPLE.replace('<Curve rot="cw"', '<Curve staStart="99" rot="cw"')
+    notes = read_bytes(wrap(geom), tmp_path).notes
+    assert notes[0].startswith("the Alignment's length 1.0000 m differs from its elements' ")
+    assert "457.0796 m" in notes[0]  # 100 + 157.0796 + 200
+    assert notes[1] == (
+        "Curve at line 8: staStart 99.0000 m differs from the station along the alignment, "
+        "100.0000 m; stations run from the Alignment's staStart"
+    )
