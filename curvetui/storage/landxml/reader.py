@@ -231,7 +231,7 @@ def _attribute_notes(node: Node, el: ArcElement, units: FileUnits, notes: list[s
 
 
 def _alignment(node: Node, units: FileUnits, project_name: str) -> ImportedAlignment:
-    from curvetui.core.plan_elements import chain_from_elements
+    from curvetui.core.plan_chain import chain_from_elements
 
     name = _required(node, "name")
     length = units.length(_number(node, "length"))

@@ -9,13 +9,13 @@ import math
 import pytest
 
 from curvetui.core.alignment import Chain
+from curvetui.core.plan_chain import chain_from_elements
 from curvetui.core.plan_elements import (
     ArcElement,
     ElementError,
     LineElement,
     SpiralElement,
     chain_elements,
-    chain_from_elements,
     signed_turn,
     tangent_intersection,
 )

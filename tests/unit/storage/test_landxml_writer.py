@@ -33,8 +33,8 @@ RIGHT_LEFT_SPIRALS = Chain(
     1000.0,
     "Kestrel Way",
 )
-LEFT_NO_SPIRALS = Chain(
-    ((0, 0), (-300, 400), (-350, 900), (100, 1300)),
+RIGHT_LEFT_NO_SPIRALS = Chain(
+    ((0, 0), (-300, 400), (-350, 900), (-800, 1300)),  # turns right, then left
     (250.0, 500.0),
     (0.0, 0.0),
     (0.0, 0.0),
@@ -63,8 +63,11 @@ def assert_same(a: Chain, b: Chain) -> None:
 
 
 @pytest.mark.parametrize("units", ["metric", "us"])
-@pytest.mark.parametrize("chain", [RIGHT_LEFT_SPIRALS, LEFT_NO_SPIRALS], ids=["spirals", "none"])
+@pytest.mark.parametrize(
+    "chain", [RIGHT_LEFT_SPIRALS, RIGHT_LEFT_NO_SPIRALS], ids=["spirals", "none"]
+)
 def test_round_trip(chain, units):
+    assert [b.direction for b in chain.lay_out().bends][:2] == [1, -1]  # both ways
     assert_same(chain, roundtrip(chain, units))
 
 
