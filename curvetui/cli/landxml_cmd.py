@@ -142,6 +142,7 @@ def _run_export(args) -> int:
     from curvetui.storage.files import atomic_write_text
     from curvetui.storage.landxml.project_glue import chain_from_project, read_project_json
     from curvetui.storage.landxml.writer import landxml_text
+    from curvetui.storage.project.files import ProjectError, validate
 
     out_path = Path(args.output)
     if out_path.suffix.lower() != ".xml":
@@ -161,6 +162,11 @@ def _run_export(args) -> int:
             )
     data = read_project_json(project)
     chain = chain_from_project(data, str(project))
+    # the bends' inputs within the project format's ranges (the alignment key is checked
+    # by chain_from_project until the project format holds it)
+    problems = validate({k: v for k, v in data.items() if k != "alignment"})
+    if problems:
+        raise ProjectError(str(project), problems)
     units = data["details"]["units"]
     try:
         text = landxml_text(chain, units, str(data["details"].get("name", "")))

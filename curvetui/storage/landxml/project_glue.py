@@ -24,6 +24,7 @@ from curvetui.storage.landxml.reader import ImportedAlignment
 from curvetui.storage.landxml.xmltree import LandXMLError
 
 MAX_NAME = 200  # the project format's longest project name
+MAX_VALUE = 1e9  # no coordinate, station, radius or spiral length is larger (m or ft)
 
 
 def bend_id(index: int) -> str:
@@ -99,8 +100,8 @@ def _number(value: Any, where: str, positive: bool = False, zero_ok: bool = True
     if isinstance(value, bool) or not isinstance(value, int | float):
         raise _problem(where, f"must be a number, got {value!r}")
     value = float(value)
-    if not math.isfinite(value):
-        raise _problem(where, "must be a finite number")
+    if not math.isfinite(value) or abs(value) > MAX_VALUE:
+        raise _problem(where, f"must be a number within +/-{MAX_VALUE:g}")
     if positive and not (value > 0 or (zero_ok and value == 0)):
         raise _problem(where, f"must be {'0 or more' if zero_ok else 'more than 0'}")
     return value
@@ -124,10 +125,13 @@ def chain_from_project(data: Any, source: str = "project") -> Chain:
             "points start, PI 1 .. PI n, end); only a project's alignment can be exported",
         )
     where = f"{source}: $.alignment"
+    listed = data.get("bends")
     bends = {
-        b.get("id"): b
-        for b in data.get("bends", [])
-        if isinstance(b, dict) and isinstance(b.get("inputs"), dict)
+        b["id"]: b
+        for b in (listed if isinstance(listed, list) else [])
+        if isinstance(b, dict)
+        and isinstance(b.get("id"), str)
+        and isinstance(b.get("inputs"), dict)
     }
     points_in = alignment.get("points")
     if not isinstance(points_in, list) or len(points_in) < 3:
@@ -142,7 +146,7 @@ def chain_from_project(data: Any, source: str = "project") -> Chain:
         points.append((e, n))
         if i in (0, len(points_in) - 1):
             continue
-        bend = bends.get(p.get("bend"))
+        bend = bends.get(p["bend"]) if isinstance(p.get("bend"), str) else None
         if bend is None:
             raise _problem(f"{here}.bend", f"names no bend of the project, got {p.get('bend')!r}")
         inputs = bend["inputs"]

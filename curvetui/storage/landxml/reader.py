@@ -37,6 +37,7 @@ from curvetui.core.plan_elements import (
 from curvetui.storage.landxml.units import FileUnits, units_of
 from curvetui.storage.landxml.xmltree import LandXMLError, Node, read_file
 
+MAX_LENGTH = 1e9  # [m] a million kilometres: no coordinate, length or radius is larger
 UNIT_SYMBOLS = {
     "millimeter": "mm",
     "centimeter": "cm",
@@ -120,6 +121,16 @@ def _number(node: Node, key: str, text: str | None = None, allow_inf: bool = Fal
     return value
 
 
+def _length(node: Node, key: str, units: FileUnits, text: str | None = None) -> float:
+    """A length or coordinate in metres, within +/-MAX_LENGTH (larger values are no
+    alignment on Earth, and would overflow the clothoid's A^2 = R L)."""
+    value = units.length(_number(node, key, text))
+    if abs(value) > MAX_LENGTH:
+        given = text if text is not None else node.attrs.get(key)
+        raise ValueError(f"{node.where()}: {key} must be within +/-{MAX_LENGTH:g} m, got {given!r}")
+    return value
+
+
 def _point(parent: Node, tag: str, units: FileUnits, required: bool = True):
     node = parent.find(tag)
     if node is None:
@@ -137,9 +148,9 @@ def _point(parent: Node, tag: str, units: FileUnits, required: bool = True):
             f"{node.where()}: must hold 'northing easting' (and an optional elevation), "
             f"got {node.text.strip()[:60]!r}"
         )
-    northing = _number(node, "northing", words[0])
-    easting = _number(node, "easting", words[1])
-    return (units.length(easting), units.length(northing))
+    northing = _length(node, "northing", units, words[0])
+    easting = _length(node, "easting", units, words[1])
+    return (easting, northing)
 
 
 def _rot(node: Node) -> int:
@@ -152,7 +163,7 @@ def _rot(node: Node) -> int:
 def _station(node: Node, units: FileUnits) -> float | None:
     if "staStart" not in node.attrs:
         return None
-    return units.length(_number(node, "staStart"))
+    return _length(node, "staStart", units)
 
 
 def _radius(node: Node, key: str, units: FileUnits) -> float:
@@ -162,7 +173,7 @@ def _radius(node: Node, key: str, units: FileUnits) -> float:
         raise ValueError(f"{node.where()}: {key}: write an infinite radius as INF")
     if not value > 0:
         raise ValueError(f"{node.where()}: {key} must be a positive length or INF, got {text!r}")
-    return units.length(value) if math.isfinite(value) else math.inf
+    return _length(node, key, units, text) if math.isfinite(value) else math.inf
 
 
 def _element(node: Node, units: FileUnits, notes: list[str]) -> Element:
@@ -174,7 +185,7 @@ def _element(node: Node, units: FileUnits, notes: list[str]) -> Element:
         rot = _rot(node)
         start, centre, end = (_point(node, t, units) for t in ("Start", "Center", "End"))
         if "radius" in node.attrs:
-            radius = units.length(_number(node, "radius"))
+            radius = _length(node, "radius", units)
             if not radius > 0:
                 raise ValueError(f"{label}: radius must be positive")
         else:
@@ -198,7 +209,7 @@ def _element(node: Node, units: FileUnits, notes: list[str]) -> Element:
                 f"{label}: spiType {kind!r} is not supported; only clothoid spirals are read"
             )
         rot = _rot(node)
-        length = units.length(_number(node, "length"))
+        length = _length(node, "length", units)
         r0 = _radius(node, "radiusStart", units)
         r1 = _radius(node, "radiusEnd", units)
         start, pi, end = (_point(node, t, units) for t in ("Start", "PI", "End"))
@@ -212,7 +223,7 @@ def _element(node: Node, units: FileUnits, notes: list[str]) -> Element:
 def _attribute_notes(node: Node, el: ArcElement, units: FileUnits, notes: list[str]) -> None:
     """Optional length and delta compared with the arc's coordinates (a note if they differ)."""
     if "length" in node.attrs:
-        given = units.length(_number(node, "length"))
+        given = _length(node, "length", units)
         measured = element_length(el)
         if abs(given - measured) > POSITION_TOL:
             notes.append(
@@ -234,8 +245,8 @@ def _alignment(node: Node, units: FileUnits, project_name: str) -> ImportedAlign
     from curvetui.core.plan_chain import chain_from_elements
 
     name = _required(node, "name")
-    length = units.length(_number(node, "length"))
-    start_station = units.length(_number(node, "staStart"))
+    length = _length(node, "length", units)
+    start_station = _length(node, "staStart", units)
     notes: list[str] = []
     geometry = node.find_all("CoordGeom")
     if len(geometry) != 1:

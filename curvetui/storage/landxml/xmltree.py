@@ -139,6 +139,8 @@ def parse_bytes(data: bytes, name: str = "<text>") -> Node:
             f"{name}: not well-formed XML (line {exc.getLineNumber()}, column "
             f"{exc.getColumnNumber() + 1}: {exc.getMessage()})"
         ) from None
+    except LookupError as exc:  # the XML declaration names an encoding Python lacks
+        raise LandXMLError(f"{name}: cannot be read: {exc}; save it as UTF-8") from None
     except RecursionError:  # not expected from expat; kept so no traceback escapes
         raise LandXMLError(f"{name}: nested too deeply to read") from None
     if builder.root is None:

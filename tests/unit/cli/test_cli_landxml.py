@@ -157,3 +157,24 @@ def test_help(capsys):
         main(["landxml", "import", "--help"])
     assert exit_.value.code == 0
     assert "never overwritten" in capsys.readouterr().out
+
+
+def test_export_checks_the_bends_and_points(tmp_path, capsys):
+    project = tmp_path / "fen.json"
+    src = str(DATA / "two-bends-metric.xml")
+    assert run(["landxml", "import", src, "-o", str(project), "--speed", "60"], capsys)[0] == 0
+    data = json.loads(project.read_text())
+    data["bends"][0]["inputs"]["radius"] = 1e-300  # below the field's 1 m
+    project.write_text(json.dumps(data))
+    code, _, err = run(["landxml", "export", str(project), "-o", str(tmp_path / "a.xml")], capsys)
+    assert code == 2 and "$.bends[0].inputs.radius" in err
+    data["bends"][0]["inputs"]["radius"] = 50
+    data["alignment"]["points"][1]["bend"] = ["PI-01"]
+    project.write_text(json.dumps(data))
+    code, _, err = run(["landxml", "export", str(project), "-o", str(tmp_path / "a.xml")], capsys)
+    assert code == 2 and "points[1].bend: names no bend" in err
+    data["alignment"]["points"][1] = {"easting": 1e300, "northing": 0, "bend": "PI-01"}
+    project.write_text(json.dumps(data))
+    code, _, err = run(["landxml", "export", str(project), "-o", str(tmp_path / "a.xml")], capsys)
+    assert code == 2 and "points[1].easting: must be a number within +/-1e+09" in err
+    assert not (tmp_path / "a.xml").exists()

@@ -117,6 +117,8 @@ def test_undeclared_entity_and_malformed_xml(tmp_path, capsys):
     assert "not well-formed XML (line 1" in err and "undefined entity" in err
     err = refused(tmp_path, b'<LandXML version="1.2">\n<Alignments>\n<Alignment', capsys)
     assert "not well-formed XML (line 3" in err
+    err = refused(tmp_path, b'<?xml version="1.0" encoding="UTF-9"?>\n<LandXML/>', capsys)
+    assert "unknown encoding: UTF-9; save it as UTF-8" in err
     err = refused(tmp_path, b"", capsys)
     assert "the file is empty" in err
     err = refused(tmp_path, b"\xff\xfe\x00garbage", capsys)

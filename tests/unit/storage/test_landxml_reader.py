@@ -195,6 +195,10 @@ def test_several_alignments_pick_by_name(tmp_path):
             r"End at line 7: northing must be a number, got 'north'",
         ),
         (
+            SIMPLE.replace('radius="100"', 'radius="1e300"'),
+            r"Curve at line 8: radius must be within \+/-1e\+09 m, got '1e300'",
+        ),
+        (
             SIMPLE.replace("<End>100 0</End>", "<End>nan 0</End>"),
             r"End at line 7: northing must be a finite number",
         ),
