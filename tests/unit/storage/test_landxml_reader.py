@@ -298,3 +298,12 @@ def test_stations_and_length_that_disagree_are_noted(tmp_path):
         "Curve at line 8: staStart 99.0000 m differs from the station along the alignment, "
         "100.0000 m; stations run from the Alignment's staStart"
     )
+
+
+def test_an_alignment_that_is_one_curve(tmp_path):
+    """No Line at all: the start is the PC and the end the PT; the PI where the tangents
+    at both cross, (E 0, N 200) for a quarter circle about (E 100, N 100)."""
+    geom = '<Curve rot="cw"><Start>100 0</Start><Center>100 100</Center><End>200 100</End></Curve>'
+    chain = read_bytes(wrap(geom), tmp_path).chain
+    assert close(chain.points, [(0, 100), (0, 200), (100, 200)], 1e-9)
+    assert chain.radii == (100.0,)  # |Start - Center| when the radius is not given
