@@ -79,6 +79,10 @@ def build_parser(command: str | None = None) -> argparse.ArgumentParser:
         from curvetui.cli import design_cmd
 
         design_cmd.add_parser(sub)
+    if wanted("landxml"):
+        from curvetui.cli import landxml_cmd
+
+        landxml_cmd.add_parser(sub)
     return parser
 
 

@@ -28,6 +28,7 @@ COMMANDS = {
     "batch",
     "crossfall",
     "design",
+    "landxml",
     "-h",
     "--help",
     "--version",
