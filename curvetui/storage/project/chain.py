@@ -222,3 +222,11 @@ def effective_inputs(bend_id: str, inputs: dict[str, Any], layout: Layout | None
     if layout is None or bend_id not in layout.overrides:
         return inputs
     return {**inputs, **layout.overrides[bend_id]}
+
+
+def direction_on(layout: Layout | None, bend_id: str) -> int:
+    """+1 for a bend turning right on the alignment, -1 left; +1 off it (the plan of a
+    bend alone is drawn turning right)."""
+    if layout is None or layout.built is None or bend_id not in layout.bend_ids:
+        return 1
+    return layout.built.bends[layout.bend_ids.index(bend_id)].direction
