@@ -245,8 +245,9 @@ def build(project_or_path, bend_ids=None) -> SheetSet:
         )
         _plan(outcome, units, sheet, layout)
         sheets.append(cleaned(sheet))
-    notes = list(notes)
-    return SheetSet(project, source, units, sheets, cleaned(notes), alignment=report)
+    if bend_ids and layout is not None and not set(bend_ids) & set(layout.bend_ids):
+        report = None  # none of the bends printed is on the alignment (or it has an error)
+    return SheetSet(project, source, units, sheets, cleaned(list(notes)), alignment=report)
 
 
 def _station_text(value, units) -> str:
