@@ -26,6 +26,7 @@ VIEW_WIDGETS = {
     "working": ("#working-view",),
     "plan": ("#plan-view",),
     "chart": ("#road-chart", "#rail-chart"),
+    "alignment": ("#alignment-view",),
 }
 
 

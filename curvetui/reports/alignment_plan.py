@@ -15,6 +15,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from curvetui.core.alignment import bearing
+from curvetui.core.circular import circular_curve
 from curvetui.core.setout import setout_points
 
 DRAW_POINTS_PER_BEND = 64  # enough for a smooth curve at page and terminal sizes
@@ -83,14 +84,15 @@ def alignment_plan(chain, built, bend_ids: list[str], interval: float) -> Alignm
 
     for i, b in enumerate(built.bends):
         g = b.geometry
-        ts = float(g.ts)
+        ts = float(g.ts)  # = PC for a simple curve
         if ts > station:
             here = tangent(ts, legs[i], -1)
             station = ts
         e, n = pts[i + 1]
-        fine = setout_points(
-            g, e, n, legs[i], float(g.total_length) / DRAW_POINTS_PER_BEND, b.direction
-        )
+        if float(g.ls_in) <= 0 and float(g.ls_out) <= 0:  # a simple curve: PC and PT
+            g = circular_curve(float(g.radius), float(g.deflection), float(g.pi))
+        length = float(fine_length(g))
+        fine = setout_points(g, e, n, legs[i], length / DRAW_POINTS_PER_BEND, b.direction)
         plan.pieces.append((i, fine.easting, fine.northing))
         ticks = setout_points(g, e, n, legs[i], interval, b.direction)
         for name, s, pe, pn in zip(
@@ -99,6 +101,11 @@ def alignment_plan(chain, built, bend_ids: list[str], interval: float) -> Alignm
             point = PlanPoint(str(name), float(s), float(pe), float(pn), i)
             (plan.key_points if name else plan.ticks).append(point)
         plan.pis.append(PlanPoint(bend_ids[i], math.nan, e, n, i))
-        here, station = (float(fine.easting[-1]), float(fine.northing[-1])), float(g.st)
+        here, station = (float(fine.easting[-1]), float(fine.northing[-1])), float(fine.station[-1])
     tangent(built.end_station, legs[-1], -1)
     return plan
+
+
+def fine_length(curve) -> float:
+    """A bend's length [m], spiralled (total length) or simple (arc length)."""
+    return float(getattr(curve, "total_length", getattr(curve, "length", 0.0)))
