@@ -3,7 +3,8 @@
 Each pair of neighbouring bends, with the tangent ``t`` [m] left between them (ST of the
 first to TS or PC of the second; negative when they overlap):
 
-- overlap: ``t < 0`` (the first bend's ST after the second's TS) -> FAIL. A start or end
+- overlap: ``t < 0`` (the first bend's ST after the second's TS; by more than
+  ``COMPOUND_TOLERANCE``, below which the tangent counts as none) -> FAIL. A start or end
   point inside the first or last bend fails the same way.
 - reverse bends (turning opposite ways): the tangent must hold the runoff each bend places
   on it, ``t >= share_out(a) + share_in(b)``; a bend without spirals places
@@ -40,8 +41,9 @@ COMPOUND_RATIO = "compound_ratio"
 # TxDOT Roadway Design Manual: broken-back tangent >= 15 V (ft, mph); 15 ft per mph in s
 BROKEN_BACK_SECONDS = 15 * 0.3048 / 0.44704  # 10.227 s (exact conversion factors)
 COMPOUND_RATIO_MAX = 1.5  # TxDOT Roadway Design Manual: larger / smaller radius
-# A tangent this short between two bends turning the same way counts as none (a compound
-# curve): coordinates rounded to the millimetre leave such residues (numerical, no source)
+# A tangent this short (either sign) between two bends counts as none: a compound curve
+# when they turn the same way; coordinates rounded to the millimetre leave such residues
+# (numerical, no source)
 COMPOUND_TOLERANCE = 0.001  # [m]
 
 
@@ -106,7 +108,7 @@ def check_consecutive(
     for i in range(n - 1):
         a, b, t = facts[i], facts[i + 1], tangents[i + 1]
         pair = f"{a.name} to {b.name}"
-        if t < 0:
+        if t < -COMPOUND_TOLERANCE:
             out.append(
                 Verdict(
                     FAIL,
@@ -138,7 +140,7 @@ def check_consecutive(
                         f"{show(a.runoff_tangent_out)}, {b.name} {show(b.runoff_tangent_in)})",
                     )
                 )
-        elif t <= COMPOUND_TOLERANCE:
+        elif abs(t) <= COMPOUND_TOLERANCE:
             big, small = max(a.radius, b.radius), min(a.radius, b.radius)
             ratio = big / small
             if ratio > COMPOUND_RATIO_MAX:

@@ -93,6 +93,11 @@ def _describe(error) -> str:
         return f"{where}: must be {s['const']!r}, got {got!r}"
     if v == "additionalProperties":
         return f"{where}: {error.message} (not a field of this format)"
+    if v is False or "False schema" in str(error.message):  # the alignment's two forms
+        return (
+            f"{where}: an alignment gives either 'points', or 'start', 'start_bearing' and "
+            "'legs', not both"
+        )
     if v in ("minLength", "maxLength"):
         return (
             f"{where}: text length must be {s.get('minLength', 0)} to "

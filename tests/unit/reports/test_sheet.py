@@ -325,3 +325,15 @@ def test_us_project_prints_its_own_units():
     assert "R 800 ft, deflection 30.000 deg" in page  # the plan sketch's legend
     assert "Station 12+00.00" in page
     assert " km/h" not in page
+
+
+def test_the_alignment_page_to_bearing_with_its_table(pages):
+    """The demo's alignment page (rules and sources: tests/unit/core/test_alignment_checks)."""
+    page = pages[1]
+    assert "Alignment: Quillmere Valley Road centreline" in page
+    assert "Points of intersection" in page and "PASS: no warnings" in page
+    assert "To bearing, north up, one scale both ways" in page
+    # QV-04 by the alignment: PI 2+710, PC = PI - T = 2710 - 160 tan 26 deg = 2631.96
+    assert "2+631.96" in page and "2+710.00" in page and "52.0000 L" in page
+    assert "TxDOT Roadway Design Manual" in page
+    assert flat(CAUTION) in page
