@@ -25,7 +25,7 @@ from curvetui.app.units_change import UnitChange, apply_change
 from curvetui.bend.fields import BY_KEY, STATION
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
-from curvetui.stations import format_station, parse_station
+from curvetui.stations import parse_station
 from curvetui.storage.project.files import ProjectError, load_project, save_project
 from curvetui.storage.project.model import Bend, Details, Project
 
@@ -172,25 +172,18 @@ class Session:
 
         return lay_out_project(self.project)
 
-    def alignment_texts(self, bend: Bend, layout: Layout | None = None) -> dict[str, str]:
-        """The deflection and PI station the alignment gives ``bend``, as the form shows
-        them ({} for a bend not on a laid-out alignment)."""
-        layout = layout if layout is not None else self.layout
-        given = layout.overrides.get(bend.id) if layout else None
-        if not given:
-            return {}
-        return {
-            "deflection": f"{given['deflection']:.6f}".rstrip("0").rstrip("."),
-            "pi_station": format_station(given["pi_station"], self.units.name, 3),
-        }
+    def alignment_texts(self, bend: Bend) -> dict[str, str]:
+        """The deflection and PI station the alignment gives ``bend`` as the form shows
+        them ({} off the alignment): curvetui.app.alignment_state."""
+        from curvetui.app.alignment_state import alignment_texts
+
+        return alignment_texts(self, bend)
 
     def alignment_report(self):
-        """The alignment checked as a whole from the bends' last records (None without
-        one): storage.project.alignment_report.AlignmentReport."""
-        from curvetui.storage.project.alignment_report import alignment_report
+        """The alignment checked as a whole (None without one)."""
+        from curvetui.app.alignment_state import alignment_report
 
-        records = {b.id: self.state(b).record for b in self.project.bends}
-        return alignment_report(self.project, self.layout, records, self.units)
+        return alignment_report(self)
 
     def recompute(
         self, bend: Bend, ctx: Context | None = None, layout: Layout | None = None
