@@ -129,7 +129,7 @@ class AlignmentView(Vertical):
             picture.message = NO_ALIGNMENT
             verdicts.update("")
         elif report.error:
-            picture.message = f"The alignment cannot be laid out: {report.error}"
+            picture.message = "The alignment cannot be laid out (the error is below)."
             verdicts.update(plain_text(f"ERROR {report.error}", "bold red", one_line=False))
         else:
             lay = report.layout
