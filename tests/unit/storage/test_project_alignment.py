@@ -242,3 +242,39 @@ def test_alignment_from_chain_builds_the_file_object_and_bend_inputs():
     assert inputs["A"]["deflection"] == pytest.approx(45.0)  # north, then north-east
     assert inputs["A"]["pi_station"] == pytest.approx(1100.0)
     assert "spiral_in" not in inputs["A"]
+
+
+def test_a_chain_goes_into_a_project_and_comes_back(tmp_path):
+    """The importer's path: chain -> alignment object and bend inputs -> file -> chain_of.
+    Spiralled and simple bends, both ways round, unequal spirals (a hand-made chain)."""
+    chain = Chain(
+        ((100.0, 200.0), (400.0, 650.0), (900.0, 700.0), (1300.0, 1200.0), (1500.0, 2000.0)),
+        (600.0, 450.0, 900.0),
+        (60.0, 0.0, 80.0),
+        (60.0, 0.0, 50.0),
+        1000.0,
+        "Imported",
+    )
+    alignment, inputs = alignment_from_chain(chain, unit_system("metric"), ["X1", "X2", "X3"])
+    bends = [
+        {"id": i, "kind": "road", "inputs": {"speed": 80, **inputs[i]}} for i in ("X1", "X2", "X3")
+    ]
+    data = {
+        "curvetui_project_version": 3,
+        "details": {"name": "Import", "units": "metric"},
+        "bends": bends,
+        "alignment": alignment,
+    }
+    project, _ = load_project(write(tmp_path, data))
+    back = chain_of(project)
+    assert back.name == "Imported" and back.start_station == pytest.approx(1000.0)
+    for p, q in zip(back.points, chain.points, strict=True):
+        assert p == pytest.approx(q, abs=1e-6)
+    assert back.radii == chain.radii
+    assert back.spirals_in == chain.spirals_in and back.spirals_out == chain.spirals_out
+    # the stored deflection and PI station agree with what the alignment gives
+    layout = lay_out_project(project)
+    for bend_id in ("X1", "X2", "X3"):
+        given = layout.overrides[bend_id]
+        assert given["deflection"] == pytest.approx(inputs[bend_id]["deflection"], abs=1e-9)
+        assert given["pi_station"] == pytest.approx(inputs[bend_id]["pi_station"], abs=1e-6)
