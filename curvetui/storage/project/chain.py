@@ -12,10 +12,11 @@ of the project file and each bend's geometric inputs. A chain that cannot be lai
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, field
 from typing import Any
 
-from curvetui.core.alignment import Alignment, AlignmentError, Chain
+from curvetui.core.alignment import Alignment, Chain
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
 from curvetui.storage.project.model import Alignment as FileAlignment
@@ -160,10 +161,10 @@ def lay_out_project(project: Project) -> Layout | None:
         chain = chain_of(project)
         # the sourced checks between bends are curvetui.core.alignment_checks'
         built = chain.lay_out(reverse_tangent_min=0.0, broken_back_tangent_min=0.0)
-    except AlignmentError as exc:
-        return Layout(error=f"$.alignment: {exc}")
     except InputError as exc:
         return Layout(error=str(exc))
+    except ValueError as exc:  # AlignmentError, or the engine's GeometryError
+        return Layout(error=_named(str(exc), project.alignment))
     ids = [i for i in project.alignment.bend_ids() if i is not None]
     overrides = {
         bend_id: {
@@ -173,6 +174,19 @@ def lay_out_project(project: Project) -> Layout | None:
         for bend_id, b in zip(ids, built.bends, strict=True)
     }
     return Layout(chain, built, ids, overrides)
+
+
+def _named(text: str, a: FileAlignment) -> str:
+    """The engine's "PI k: ..." as "$.alignment.points[k] (PI k, bend ID): ..."."""
+    match = re.match(r"PI (\d+): ", text)
+    ids = a.bend_ids()
+    if match and 1 <= int(match.group(1)) <= len(ids):
+        k = int(match.group(1))
+        part = "points" if a.points is not None else "legs"
+        index = k if a.points is not None else k - 1
+        where = f"$.alignment.{part}[{index}] (PI {k}, bend {ids[k - 1]})"
+        return f"{where}: {text[match.end() :]}"
+    return f"$.alignment: {text}"
 
 
 def alignment_from_chain(
@@ -188,7 +202,7 @@ def alignment_from_chain(
         raise AlignmentProblem(f"{n} PIs need {n} different bend ids, got {ids!r}")
     try:
         built = chain.lay_out(reverse_tangent_min=0.0, broken_back_tangent_min=0.0)
-    except AlignmentError as exc:
+    except ValueError as exc:  # AlignmentError, or the engine's GeometryError
         raise AlignmentProblem(f"$.alignment: {exc}") from None
 
     def length(x: float) -> float:

@@ -278,3 +278,11 @@ def test_a_chain_goes_into_a_project_and_comes_back(tmp_path):
         given = layout.overrides[bend_id]
         assert given["deflection"] == pytest.approx(inputs[bend_id]["deflection"], abs=1e-9)
         assert given["pi_station"] == pytest.approx(inputs[bend_id]["pi_station"], abs=1e-6)
+
+
+def test_spirals_overlapping_at_a_pi_name_the_point_and_bend(tmp_path):
+    data = us_project()
+    data["bends"][0]["inputs"]["spiral_in"] = 400  # at R 150 ft: 2 x 400 / 300 rad > 60 deg
+    project, _ = load_project(write(tmp_path, data))
+    error = lay_out_project(project).error
+    assert error.startswith("$.alignment.points[1] (PI 1, bend A): spirals overlap")
