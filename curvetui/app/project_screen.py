@@ -27,6 +27,7 @@ VIEW_WIDGETS = {
     "plan": ("#plan-view",),
     "chart": ("#road-chart", "#rail-chart"),
     "crossfall": ("#crossfall-view",),
+    "alignment": ("#alignment-view",),
 }
 
 

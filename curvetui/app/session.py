@@ -30,6 +30,7 @@ from curvetui.storage.project.files import ProjectError, load_project, save_proj
 from curvetui.storage.project.model import Bend, Details, Project
 
 if TYPE_CHECKING:
+    from curvetui.storage.project.chain import Layout
     from curvetui.storage.project.checking import Context
 
 # The engine (curvetui.storage.project.checking and what it imports: numpy, the bend layer)
@@ -40,6 +41,8 @@ if TYPE_CHECKING:
 FORM_FIELDS = ("bend_id", "station", "notes")
 ID_RULE = "bend id: must be 1 to 40 characters and not used by another bend"
 STATION_RULE = "station: must be a station such as 2+710.5 or a number"
+# the inputs of a bend on the alignment that move the stations of the bends after it
+GEOMETRY_INPUTS = ("radius", "spiral_in", "spiral_out")
 
 
 @dataclass
@@ -162,8 +165,33 @@ class Session:
     def state(self, bend: Bend) -> BendState:
         return self.states.setdefault(id(bend), BendState())
 
-    def recompute(self, bend: Bend, ctx: Context | None = None) -> BendState:
-        """Evaluate a bend; on bad input keep the last good record and note the error."""
+    @property
+    def layout(self) -> Layout | None:
+        """The project's alignment laid out from the bends as they are now (None without
+        one); its bends' deflection and PI station come from it."""
+        from curvetui.storage.project.chain import lay_out_project
+
+        return lay_out_project(self.project)
+
+    def alignment_texts(self, bend: Bend) -> dict[str, str]:
+        """The deflection and PI station the alignment gives ``bend`` as the form shows
+        them ({} off the alignment): curvetui.app.alignment_state."""
+        from curvetui.app.alignment_state import alignment_texts
+
+        return alignment_texts(self, bend)
+
+    def alignment_report(self):
+        """The alignment checked as a whole (None without one)."""
+        from curvetui.app.alignment_state import alignment_report
+
+        return alignment_report(self)
+
+    def recompute(
+        self, bend: Bend, ctx: Context | None = None, layout: Layout | None = None
+    ) -> BendState:
+        """Evaluate a bend; on bad input keep the last good record and note the error. On
+        the project's alignment it takes the deflection and PI station the alignment
+        gives it (``layout``, laid out afresh when not given)."""
         st = self.state(bend)
         index = self.project.bends.index(bend)
         st.file_errors = file_problems(bend)
@@ -175,7 +203,7 @@ class Session:
                 return st
         from curvetui.storage.project.checking import evaluate
 
-        outcome = evaluate(bend, index, ctx)
+        outcome = evaluate(bend, index, ctx, layout if layout is not None else self.layout)
         if outcome.record is None:
             st.error = labelled((outcome.error or "").replace(f"$.bends[{index}].inputs.", ""))
             st.error_field = field_of(st.error)
@@ -188,8 +216,23 @@ class Session:
             ctx = self.context
         except InputError:
             ctx = None  # each bend then carries the message
+        layout = self.layout
         for b in self.project.bends:
-            self.recompute(b, ctx)
+            self.recompute(b, ctx, layout)
+
+    def recompute_alignment(self, bend: Bend) -> None:
+        """After an edit of a bend on the alignment: the others on it too (a radius or a
+        spiral moves every station after it)."""
+        layout = self.layout
+        if layout is None or bend.id not in layout.bend_ids:
+            return
+        try:
+            ctx = self.context
+        except InputError:
+            return
+        for b in self.project.bends:
+            if b is not bend and b.id in layout.bend_ids:
+                self.recompute(b, ctx, layout)
 
     # -- the bend on screen ---------------------------------------------------------------
     def select(self, bend: Bend | None) -> None:
@@ -219,6 +262,8 @@ class Session:
             # engine's message then names the field
             self.dirty = True
         st = self.recompute(bend)
+        if key in GEOMETRY_INPUTS:
+            self.recompute_alignment(bend)
         self._changed("field", bend, key)
         return st
 
@@ -258,6 +303,8 @@ class Session:
         else:
             st.form_errors.pop("bend_id", None)
             if new_id != bend.id:
+                if self.project.alignment is not None:  # its PI keeps naming this bend
+                    self.project.alignment.rename_bend(bend.id, new_id)
                 bend.id = new_id
                 self.dirty = True
         self._changed("field", bend, "bend_id")

@@ -238,7 +238,9 @@ def check_project(path: str, save: bool = False, as_json: bool = False) -> int:
     ctx = project_context(project)
     outcomes = evaluate_project(project, ctx)
     notes += stale_results(outcomes)
+    report = project_alignment(project, outcomes, ctx)
     bad = any(o.status != "pass" for o in outcomes)
+    bad = bad or (report is not None and report.status in ("fail", "error"))
     if save:
         refresh_results(project, outcomes)
         save_project(project, path)
@@ -257,15 +259,63 @@ def check_project(path: str, save: bool = False, as_json: bool = False) -> int:
                     }
                     for o in outcomes
                 ],
+                "alignment": None if report is None else report.to_json(),
                 "notes": notes,
             }
         )
         return 1 if bad else 0
-    print_outcomes(project, ctx, outcomes, notes)
+    print_outcomes(project, ctx, outcomes, notes, report)
     return 1 if bad else 0
 
 
-def print_outcomes(project, ctx, outcomes, notes) -> None:
+def project_alignment(project, outcomes, ctx):
+    """The alignment checked as a whole (None when the project has none)."""
+    from curvetui.storage.project.alignment_report import alignment_report
+    from curvetui.storage.project.chain import lay_out_project
+
+    records = {o.bend.id: o.record for o in outcomes}
+    return alignment_report(project, lay_out_project(project), records, ctx.units)
+
+
+def print_alignment(out, report) -> None:
+    """The alignment's table of PIs and its verdicts (never hidden)."""
+    from rich import box
+    from rich.table import Table
+
+    colour = {"pass": "green", "warning": "yellow"}.get(report.status, "red")
+    title = f"Alignment {markup(report.name, True)}: [bold {colour}]{report.status.upper()}[/]"
+    if report.error:
+        out.print(title)
+    else:
+        head, rows = report.table(compact=True)
+        short = {"Deflection": "Defl deg", "PI station": "PI sta", "Tangent after": "Tangent"}
+        grid = Table(
+            title=title,
+            box=box.SIMPLE_HEAD,
+            padding=(0, 1, 0, 0),
+            pad_edge=False,
+            show_edge=False,
+        )
+        for col in (short.get(c, c) for c in head):
+            grid.add_column(col, justify="left" if col == "Bend" else "right", no_wrap=True)
+        for row in rows:
+            grid.add_row(*(markup(c, True) for c in row))
+        out.print(grid)
+        u = report.units.length_label
+        out.print(
+            clean(
+                f"  start tangent {report.tangents[0]:.2f} {u}; end station "
+                f"{report.end_station:.2f}; deflections in degrees (R right, L left); the "
+                "bends' deflection and PI station come from the alignment (the worksheet "
+                "and --json give the coordinates and all stations)"
+            ),
+            markup=False,
+        )
+    for line in report.lines():
+        out.print(clean(f"  - {line}"), markup=False)
+
+
+def print_outcomes(project, ctx, outcomes, notes, report=None) -> None:
     from rich import box
     from rich.table import Table
 
@@ -324,6 +374,8 @@ def print_outcomes(project, ctx, outcomes, notes) -> None:
     out.print(grid)
     for line in lines + notes:
         out.print(clean(f"  - {line}"), markup=False)
+    if report is not None:
+        print_alignment(out, report)
     print_caution(out)
 
 

@@ -18,9 +18,12 @@ import numpy as np
 
 from curvetui.core.spiral import SpiralCurve, spiral_curve
 
-# Default tangent lengths below which a warning is given. Common practice, no source: a
-# reverse pair without spirals needs room for its superelevation runoffs; a broken-back pair
-# reads badly to drivers below a few hundred metres. Both are settable by the caller.
+# Default tangent lengths below which a warning is given when the bends' speeds and runoffs
+# are not known (a bare chain of points and radii). Common practice, no source: a reverse
+# pair without spirals needs room for its superelevation runoffs; a broken-back pair reads
+# badly to drivers below a few hundred metres. Both are settable by the caller; a project's
+# alignment passes 0 for both and is checked by the sourced rules of
+# curvetui.core.alignment_checks (runoff shares; 15 V, TxDOT) instead.
 REVERSE_TANGENT_MIN = 60.0  # [m], between reverse curves when either lacks a spiral
 BROKEN_BACK_TANGENT_MIN = 150.0  # [m], between two bends turning the same way
 

@@ -14,7 +14,7 @@ from textual.containers import VerticalScroll
 from textual.widget import Widget
 from textual.widgets import TabbedContent, TabPane
 
-VIEWS = ("sheet", "working", "plan", "chart", "crossfall")
+VIEWS = ("sheet", "working", "plan", "chart", "crossfall", "alignment")
 
 
 def bend_views(pictures: bool = True, lazy: bool = True) -> ComposeResult:
@@ -22,7 +22,13 @@ def bend_views(pictures: bool = True, lazy: bool = True) -> ComposeResult:
     worksheet ``#worksheet`` and ``#working-view``, with ``pictures`` also ``#plan-view``,
     ``#road-chart`` and ``#rail-chart``. With ``lazy`` the tabs are left empty for
     ``build_view``."""
-    titles = {"sheet": "Worksheet", "working": "Working", "plan": "Plan", "chart": "Chart"}
+    titles = {
+        "sheet": "Worksheet",
+        "working": "Working",
+        "plan": "Plan",
+        "chart": "Chart",
+        "alignment": "Alignment",
+    }
     titles["crossfall"] = "Crossfall"  # the superelevation diagram
     with TabbedContent(id="views", initial="sheet"):
         for view in VIEWS if pictures else VIEWS[:2]:
@@ -55,6 +61,10 @@ def view_widgets(view: str) -> list[Widget]:
         from curvetui.app.widgets.crossfall_view import CrossfallView
 
         return [CrossfallView(id="crossfall-view")]
+    if view == "alignment":  # the project's whole alignment, to bearing
+        from curvetui.app.widgets.alignment_view import AlignmentView
+
+        return [AlignmentView(id="alignment-view")]
     return []
 
 

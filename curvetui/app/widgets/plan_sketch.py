@@ -198,8 +198,14 @@ class PlanSketch(Widget):
             return
         units = session.units
         radius = units.length_to_si(record["radius"])
+        from curvetui.storage.project.chain import direction_on, effective_inputs
+
+        layout = session.layout  # on the alignment: its deflection, PI station, direction
+        inputs = effective_inputs(bend.id, bend.inputs, layout)
         try:
-            shape = plan_for_inputs(bend.inputs, units, radius, name=lambda k: k)
+            shape = plan_for_inputs(
+                inputs, units, radius, direction_on(layout, bend.id), name=lambda k: k
+            )
         except (InputError, GeometryError) as exc:
             self.show(None, str(exc))
             return

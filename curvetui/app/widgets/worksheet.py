@@ -35,6 +35,13 @@ UNIT_KIND = {
     for f in FIELDS
 }
 HINTS = {f.key: f.form_hint for f in FIELDS if f.form_hint}
+# the inputs a bend on the project's alignment takes from it (read-only in the form)
+ALIGNMENT_FIELDS = ("deflection", "pi_station")
+ALIGNMENT_NOTE = (
+    "On the project's alignment: deflection and PI station come from it (read-only here; "
+    "a radius or spiral changed moves the stations after this bend). The Alignment view "
+    "shows it whole."
+)
 
 
 # Short names for the results column (from curvetui.bend.outputs)
@@ -85,6 +92,7 @@ class Worksheet(Horizontal):
                 field = field_input(key, select_on_focus=True)
                 yield FieldRow(field_label(key), field, id=f"row-{key}", classes="row")
             yield Static("", id="field-error")
+            yield Static("", id="alignment-note")
         with VerticalScroll(id="results"):
             yield Static("", id="results-body")
 
@@ -124,6 +132,7 @@ class Worksheet(Horizontal):
             self._bend = bend
             texts = {key: session.field_text(bend, key) for key in FORM_FIELDS + ALL_FIELDS}
             self.fill(bend.kind, units, texts)
+        self.show_alignment_fields(session, bend)
         st = session.state(bend)
         marked, named = st.field_errors(), st.engine_fields()
         for key in FORM_FIELDS + ALL_FIELDS:
@@ -133,6 +142,29 @@ class Worksheet(Horizontal):
         messages = ([st.error] if st.error else []) + list(marked.values())
         self.show_field_error("\n".join(messages))
         self.show_results(st.record, "\n".join(messages) or None, units, stale=st.error is not None)
+
+    def show_alignment_fields(self, session: Session, bend) -> None:
+        """On the project's alignment a bend's deflection and PI station are the
+        alignment's: shown read-only, with a note under the form saying so. Off it, the
+        bend's own, typed as usual."""
+        given = session.alignment_texts(bend)
+        note = self.query_one("#alignment-note", Static)
+        text = ALIGNMENT_NOTE if given else ""
+        if getattr(self, "_note", "") != text:
+            self._note = text
+            note.update(plain_text(text, "italic", one_line=False))
+        for key in ALIGNMENT_FIELDS:
+            box = self.query_one(f"#in-{key}", FieldInput)
+            row = self.query_one(f"#row-{key}", FieldRow)
+            on = key in given
+            text = given[key] if on else visible(session.field_text(bend, key))
+            if on or box.disabled:
+                with self.prevent(Input.Changed):
+                    box.load(text)
+            box.disabled = on
+            unit = field_unit(key, session.units)
+            if row.unit != unit:
+                row.unit = unit
 
     def fill(self, kind: str, units: UnitSystem, texts: dict[str, str]) -> None:
         """Put a bend's kind and field texts (by key; absent: blank) in the form."""

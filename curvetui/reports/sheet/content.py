@@ -16,6 +16,8 @@ from curvetui.reports.working import Step, rail_working, road_working
 from curvetui.results import unit_label
 from curvetui.screen_text import clean
 from curvetui.stations import format_station
+from curvetui.storage.project.alignment_report import alignment_report
+from curvetui.storage.project.chain import direction_on, effective_inputs, lay_out_project
 from curvetui.storage.project.checking import Context, Outcome, evaluate_project, project_context
 from curvetui.storage.project.files import load_project
 from curvetui.storage.project.model import Details, Project
@@ -57,6 +59,12 @@ class SheetSet:
     bends: list[BendSheet]
     notes: list[str]
     details: Details | None = None
+    alignment: object | None = None  # storage.project.alignment_report.AlignmentReport
+
+    @property
+    def first_bend_page(self) -> int:
+        """The page of the first bend: after the summary (and the alignment page)."""
+        return 2 if self.alignment is None else 3
 
     def __post_init__(self) -> None:
         if self.details is None:
@@ -64,7 +72,7 @@ class SheetSet:
 
     @property
     def pages(self) -> int:
-        return 1 + len(self.bends)
+        return self.first_bend_page - 1 + len(self.bends)
 
     def title_fields(self, sheet: BendSheet, page: int) -> list[tuple[str, str]]:
         """A bend page's title block as (label, value) pairs, in reading order."""
@@ -95,10 +103,13 @@ def _value_text(value) -> str:
     return str(value)
 
 
-def _inputs(bend, units) -> list[tuple[str, str, str]]:
+def _inputs(bend, units, given: dict | None = None) -> list[tuple[str, str, str]]:
+    """The inputs as printed; ``given`` the alignment's deflection and PI station for a bend
+    on it (marked so)."""
     rows = []
+    given = given or {}
     for key in FIELD_ORDER.get(bend.kind, ()):
-        value = bend.inputs.get(key)
+        value = given.get(key, bend.inputs.get(key))
         kind = UNIT_KIND[key]
         unit = {"deg": "deg", "station": units.length_label}.get(kind, unit_label(kind, units))
         if value is None or value == "":
@@ -106,7 +117,9 @@ def _inputs(bend, units) -> list[tuple[str, str, str]]:
         if key == "pi_station" and math.isfinite(to_number(value)):
             text, unit = format_station(to_number(value), units.name), ""
         else:
-            text = _value_text(value)
+            text = _value_text(round(value, 6) if key in given else value)
+        if key in given:
+            unit = f"{unit} (from the alignment)".strip()
         rows.append((FIELD_NAMES[key], text, unit))
     return rows
 
@@ -162,7 +175,7 @@ def _standard(outcome: Outcome, ctx: Context, units) -> list[tuple[str, str]]:
     return rows
 
 
-def _plan(outcome: Outcome, units, sheet: BendSheet) -> None:
+def _plan(outcome: Outcome, units, sheet: BendSheet, layout=None) -> None:
     from curvetui.reports.plan import plan_for_inputs, station_texts
 
     if outcome.record is None:
@@ -170,7 +183,9 @@ def _plan(outcome: Outcome, units, sheet: BendSheet) -> None:
         return
     radius = units.length_to_si(outcome.record["radius"])
     try:
-        shape = plan_for_inputs(outcome.bend.inputs, units, radius)
+        bend = outcome.bend
+        inputs = effective_inputs(bend.id, bend.inputs, layout)
+        shape = plan_for_inputs(inputs, units, radius, direction_on(layout, bend.id))
     except (InputError, GeometryError) as exc:
         sheet.plan_note = f"No plan: {exc}"
         return
@@ -199,7 +214,10 @@ def build(project_or_path, bend_ids=None) -> SheetSet:
     ctx = project_context(project)
     units = ctx.units
     sheets = []
-    for outcome in evaluate_project(project, ctx):
+    layout = lay_out_project(project)
+    outcomes = evaluate_project(project, ctx)
+    report = alignment_report(project, layout, {o.bend.id: o.record for o in outcomes}, units)
+    for outcome in outcomes:
         bend = outcome.bend
         if bend_ids and bend.id not in bend_ids:
             continue
@@ -220,19 +238,21 @@ def build(project_or_path, bend_ids=None) -> SheetSet:
             speed="-" if speed is None else f"{_value_text(speed)} {units.speed_label}",
             radius="-" if radius is None else f"{_value_text(radius)} {units.length_label}",
             notes=bend.notes,
-            inputs=_inputs(bend, units),
+            inputs=_inputs(bend, units, layout.overrides.get(bend.id) if layout else None),
             blanks=_blanks(bend),
             standard=_standard(outcome, ctx, units),
             steps=steps,
             messages=[message_line(m) for m in rec.get("messages", [])] if rec else [],
             error=outcome.error,
         )
-        _plan(outcome, units, sheet)
+        _plan(outcome, units, sheet, layout)
         from curvetui.reports.sheet.crossfall import sheet_diagram
 
         sheet.diagram, sheet.diagram_note = sheet_diagram(rec, bend.kind)
         sheets.append(cleaned(sheet))
-    return SheetSet(project, source, units, sheets, cleaned(list(notes)))
+    if bend_ids and layout is not None and not set(bend_ids) & set(layout.bend_ids):
+        report = None  # none of the bends printed is on the alignment (or it has an error)
+    return SheetSet(project, source, units, sheets, cleaned(list(notes)), alignment=report)
 
 
 def _station_text(value, units) -> str:

@@ -1,7 +1,9 @@
-"""The worksheets as a PDF: the summary page, then a page per bend, each fitted to one page."""
+"""The worksheets as a PDF: the summary page, the alignment page (a project with one), then
+a page per bend, each fitted to one page."""
 
 from __future__ import annotations
 
+from curvetui.reports.sheet.alignment_page import pdf_alignment
 from curvetui.reports.sheet.bend_page import pdf_bend
 from curvetui.reports.sheet.content import SheetSet, build
 from curvetui.reports.sheet.crossfall import pdf_crossfall
@@ -17,11 +19,14 @@ def make_pdf(s: SheetSet, paper: str):
     PLAN_HEIGHTS that fits with the working at full size, else the most compact.
     Footer and caution on each page."""
     scratch = new_pdf(s, paper)  # one scratch document for every trial (fonts loaded once)
-    layouts = [pick_layout(scratch, s, b, i + 2) for i, b in enumerate(s.bends)]
+    first = s.first_bend_page
+    layouts = [pick_layout(scratch, s, b, i + first) for i, b in enumerate(s.bends)]
     pdf = new_pdf(s, paper)
     pdf_summary(pdf, s)
+    if s.alignment is not None:
+        pdf_alignment(pdf, s, 2)
     for i, (b, (height, compact)) in enumerate(zip(s.bends, layouts, strict=True)):
-        pdf_bend(pdf, s, b, i + 2, height, compact=compact)
+        pdf_bend(pdf, s, b, i + first, height, compact=compact)
         pdf_crossfall(pdf, b.diagram, b.diagram_note, b.bend_id)  # after the page it fits
     return pdf
 

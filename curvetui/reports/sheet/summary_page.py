@@ -48,6 +48,12 @@ def pdf_summary(pdf, s: SheetSet) -> None:
             for c in r[:-1]:
                 row.cell(c)
             row.cell(r[-1], style=FontFace(emphasis="BOLD", color=status_colour(r[-1])))
+    if s.alignment is not None:
+        rep = s.alignment
+        heading(pdf, f"Alignment {rep.name}: {rep.status.upper()} (page 2)", 10)
+        pdf.set_font(FONT, "", 8)
+        for line in rep.lines():
+            pdf.multi_cell(0, 4, line, new_x="LMARGIN", new_y="NEXT")
     for n in s.notes:
         pdf.ln(1)
         pdf.multi_cell(0, 4, f"NOTE {n}", new_x="LMARGIN", new_y="NEXT")

@@ -36,7 +36,9 @@ def render_text(project_or_path, bend_ids=None, paper: str = "a4") -> str:
     out += [f"NOTE {n}" for n in s.notes]
     out += ["", CAUTION]
     pages.append("\n".join(out))
-    for page, b in enumerate(s.bends, start=2):
+    if s.alignment is not None:
+        pages.append("\n".join([*alignment_text(s, 2), "", CAUTION]))
+    for page, b in enumerate(s.bends, start=s.first_bend_page):
         out = [f"BEND WORKSHEET {b.bend_id}", ""]
         for k, v in s.title_fields(b, page):
             out.append(f"{k + ':':<12} {v}")
@@ -71,6 +73,56 @@ def render_text(project_or_path, bend_ids=None, paper: str = "a4") -> str:
     return "\n\f\n".join(pages) + "\n"
 
 
+def alignment_text(s, page: int) -> list[str]:
+    """The alignment page as text lines: the table of PIs, tangents, verdicts, rules."""
+    from curvetui.reports.sheet.alignment_page import RULES
+
+    rep = s.alignment
+    out = [f"ALIGNMENT {rep.name}: {rep.status.upper()}", f"page {page} of {s.pages}", ""]
+    if rep.error:
+        return [*out, f"ERROR {rep.error}"]
+    head, rows = rep.table()
+    rows = [head, *rows]
+    widths = [max(len(r[i]) for r in rows) for i in range(len(head))]
+    for r in rows:
+        out.append("  ".join(c.rjust(w) for c, w in zip(r, widths, strict=True)).rstrip())
+    u = s.units.length_label
+    out += [
+        "",
+        f"Lengths and stations in {u}, deflections in degrees (R right, L left). Start "
+        f"station {rep.start_station:.2f}, first tangent {rep.tangents[0]:.2f}, end station "
+        f"{rep.end_station:.2f}. The bends' deflection and PI station come from the alignment.",
+        "",
+        "BETWEEN CONSECUTIVE BENDS",
+    ]
+    out += [f"  {v.text}" for v in rep.verdicts] or ["  PASS: no warnings"]
+    return [*out, "", RULES]
+
+
+def alignment_markdown(s, page: int) -> list[str]:
+    """The alignment page in Markdown."""
+    from curvetui.reports.sheet.alignment_page import RULES
+
+    rep = s.alignment
+    out = ["---", "", f"## Alignment {_md(rep.name)}: **{rep.status.upper()}**", ""]
+    if rep.error:
+        return [*out, f"**ERROR** {_md(rep.error)}", "", f"> {CAUTION}", ""]
+    head, rows = rep.table()
+    out += ["| " + " | ".join(head) + " |", "|" + "---|" * len(head)]
+    out += ["| " + " | ".join(_md(c) for c in r) + " |" for r in rows]
+    u = s.units.length_label
+    out += [
+        "",
+        f"Lengths and stations in {u}, deflections in degrees (R right, L left); end station "
+        f"{rep.end_station:.2f}. The bends' deflection and PI station come from the alignment.",
+        "",
+        "### Between consecutive bends",
+        "",
+    ]
+    out += [f"- {_md(v.text)}" for v in rep.verdicts] or ["- PASS: no warnings"]
+    return [*out, "", _md(RULES), "", f"> {CAUTION}", ""]
+
+
 def _md(text: str) -> str:
     """Text made safe for a Markdown table cell: pipes escaped, line breaks folded."""
     return str(text).replace("|", "\\|").replace("\n", " ")
@@ -98,7 +150,9 @@ def render_markdown(project_or_path, bend_ids=None, paper: str = "a4") -> str:
         out.append("| " + " | ".join(_md(c) for c in cells) + " |")
     out += [f"\n> NOTE {_md(n)}" for n in s.notes]
     out += ["", f"> {CAUTION}", ""]
-    for page, b in enumerate(s.bends, start=2):
+    if s.alignment is not None:
+        out += alignment_markdown(s, 2)
+    for page, b in enumerate(s.bends, start=s.first_bend_page):
         out += ["---", "", f"## Bend {_md(b.bend_id)}: **{b.status}**", ""]
         out += ["| Field | Value |", "|---|---|"]
         out += [f"| {k} | {_md(v)} |" for k, v in s.title_fields(b, page)]

@@ -9,6 +9,7 @@ from pathlib import Path
 from curvetui.bend.service import evaluate_bend, path_namer
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
+from curvetui.storage.project.chain import Layout, effective_inputs, lay_out_project
 from curvetui.storage.project.model import Bend, Project
 from curvetui.storage.project.references import allowed_reference
 from curvetui.storage.tables import TableError, rail_limits, road_table
@@ -59,11 +60,13 @@ def project_context(project: Project, folder: Path | None = None) -> Context:
     return Context(units, table, limits)
 
 
-def evaluate(bend: Bend, index: int, ctx: Context) -> Outcome:
+def evaluate(bend: Bend, index: int, ctx: Context, layout: Layout | None = None) -> Outcome:
+    """One bend's record; on a laid-out alignment (``layout``) with the deflection and PI
+    station the alignment gives it."""
     try:
         record = evaluate_bend(
             bend.kind,
-            bend.inputs,
+            effective_inputs(bend.id, bend.inputs, layout),
             ctx.units,
             ctx.table,
             ctx.limits,
@@ -76,7 +79,8 @@ def evaluate(bend: Bend, index: int, ctx: Context) -> Outcome:
 
 def evaluate_project(project: Project, ctx: Context | None = None) -> list[Outcome]:
     ctx = ctx or project_context(project)
-    return [evaluate(b, i, ctx) for i, b in enumerate(project.bends)]
+    layout = lay_out_project(project)
+    return [evaluate(b, i, ctx, layout) for i, b in enumerate(project.bends)]
 
 
 def stored_form(record: dict) -> dict:

@@ -1,4 +1,9 @@
-"""Reading, migrating, validating and saving project files (JSON, format version 2).
+"""Reading, migrating, validating and saving project files (JSON, format versions 2 and 3).
+
+Format 3 is format 2 with an optional ``alignment``; a project without one is written as
+format 2 (so such files stay as they were, and older curvetui reads them), one with an
+alignment as format 3 (an older curvetui then says it needs updating instead of refusing
+an unknown key).
 
 Loading reports every problem at once, each with its JSON path and the allowed range; a
 file from a newer format is refused; version 1 files are migrated. Saving writes a
@@ -17,7 +22,17 @@ from pathlib import Path
 from typing import Any
 
 from curvetui.storage.files import atomic_write_text
-from curvetui.storage.project.model import DETAIL_FIELDS, FORMAT_VERSION, Bend, Details, Project
+from curvetui.storage.project.model import (
+    DETAIL_FIELDS,
+    FORMAT_VERSION,
+    PLAIN_VERSION,
+    Alignment,
+    AlignmentLeg,
+    AlignmentPoint,
+    Bend,
+    Details,
+    Project,
+)
 from curvetui.storage.project.quick_check import conforms
 from curvetui.storage.table_files import TableError, read_limited
 
@@ -78,6 +93,11 @@ def _describe(error) -> str:
         return f"{where}: must be {s['const']!r}, got {got!r}"
     if v == "additionalProperties":
         return f"{where}: {error.message} (not a field of this format)"
+    if v is False or "False schema" in str(error.message):  # the alignment's two forms
+        return (
+            f"{where}: an alignment gives either 'points', or 'start', 'start_bearing' and "
+            "'legs', not both"
+        )
     if v in ("minLength", "maxLength"):
         return (
             f"{where}: text length must be {s.get('minLength', 0)} to "
@@ -123,7 +143,7 @@ def migrate(data: dict, path: str) -> tuple[dict, list[str]]:
         raise ProjectError(path, ["$.curvetui_project_version: must be a whole number"])
     if version is None and data.get("format") == "curvetui-project":
         version = data.get("version")
-    if version == FORMAT_VERSION:
+    if version in (PLAIN_VERSION, FORMAT_VERSION):
         return data, []
     if isinstance(version, int) and version > FORMAT_VERSION:
         raise ProjectError(
@@ -148,7 +168,7 @@ def migrate(data: dict, path: str) -> tuple[dict, list[str]]:
             bends.append(b)
         details = dict(data.get("project", {}))
         return (
-            {"curvetui_project_version": FORMAT_VERSION, "details": details, "bends": bends},
+            {"curvetui_project_version": PLAIN_VERSION, "details": details, "bends": bends},
             ["migrated from format 1: 'project' became 'details'"],
         )
     raise ProjectError(path, ["$: not a curvetui project file (no 'curvetui_project_version')"])
@@ -171,7 +191,34 @@ def parse_project(data: dict) -> Project:
         )
         for b in data["bends"]
     ]
-    return Project(details, bends)
+    version = data["curvetui_project_version"]
+    return Project(
+        details, bends, alignment=parse_alignment(data.get("alignment")), version=version
+    )
+
+
+def parse_alignment(a: dict | None) -> Alignment | None:
+    """A validated ``alignment`` object as the model (numbers as stored)."""
+    if a is None:
+        return None
+
+    def point(p: dict) -> AlignmentPoint:
+        return AlignmentPoint(p["easting"], p["northing"], p.get("bend"))
+
+    out = Alignment(
+        name=a.get("name", ""),
+        start_station=a.get("start_station", 0.0),
+        absent=frozenset({"name", "start_station"}) - set(a),
+    )
+    if "points" in a:
+        out.points = [point(p) for p in a["points"]]
+    else:
+        out.start = point(a["start"])
+        out.start_bearing = a["start_bearing"]
+        out.legs = [
+            AlignmentLeg(g["length"], g.get("bend"), g.get("deflection")) for g in a["legs"]
+        ]
+    return out
 
 
 def _number(value) -> float:

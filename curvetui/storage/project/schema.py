@@ -57,6 +57,73 @@ def inputs_schema() -> dict:
     }
 
 
+def _xy(description: str) -> dict:
+    coordinate = {"type": "number", "minimum": -1e9, "maximum": 1e9}
+    return {
+        "type": "object",
+        "description": description,
+        "required": ["easting", "northing"],
+        "additionalProperties": False,
+        "properties": {
+            "easting": coordinate,
+            "northing": coordinate,
+            "bend": {"type": "string", "minLength": 1, "maxLength": 40},
+        },
+    }
+
+
+def alignment_schema() -> dict:
+    """The ``$defs.alignment`` object: points by easting and northing, or a start point, a
+    start bearing and legs (distance, and at each PI its bend and signed deflection)."""
+    named = {
+        "name": {"type": "string", "maxLength": 200},
+        "start_station": {"type": "number", "minimum": -1e7, "maximum": 1e7},
+    }
+    points = {
+        "type": "array",
+        "description": "start point, PI 1 .. PI n (each naming a bend of the project), end "
+        "point; at least three",
+        "items": _xy("a point; a PI names the bend built at it"),
+    }
+    leg = {
+        "type": "object",
+        "required": ["length"],
+        "additionalProperties": False,
+        "properties": {
+            "length": {"type": "number", "exclusiveMinimum": 0, "maximum": 1e9},
+            "bend": {"type": "string", "minLength": 1, "maxLength": 40},
+            "deflection": {"type": "number", "exclusiveMinimum": -180, "exclusiveMaximum": 180},
+        },
+    }
+    return {
+        "type": "object",
+        "description": "the project's alignment: its points, coordinates and stations in the "
+        "project's units; the bends at its PIs take their deflection and PI station from it",
+        "additionalProperties": False,
+        "properties": {
+            **named,
+            "points": points,
+            "start": _xy("the start point"),
+            "start_bearing": {
+                "type": "number",
+                "minimum": 0,
+                "exclusiveMaximum": 360,
+                "description": "whole-circle bearing of the first leg, degrees clockwise "
+                "from north",
+            },
+            "legs": {
+                "type": "array",
+                "description": "distance from the previous point to each PI, with the bend "
+                "and its deflection (degrees, + right, - left); the last leg to the end point",
+                "items": leg,
+            },
+        },
+        "if": {"required": ["points"]},
+        "then": {"properties": {"start": False, "start_bearing": False, "legs": False}},
+        "else": {"required": ["start", "start_bearing", "legs"]},
+    }
+
+
 def rail_required() -> list[str]:
     return [f.key for f in FIELDS if "rail" in f.required]
 
@@ -67,6 +134,7 @@ def write_schema(path: Path = SCHEMA_PATH) -> None:
     schema["$defs"]["inputs"] = inputs_schema()
     bend = schema["$defs"]["bend"]
     bend["allOf"][0]["then"]["properties"]["inputs"]["required"] = rail_required()
+    schema["$defs"]["alignment"] = alignment_schema()
     path.write_text(json.dumps(schema, indent=2, ensure_ascii=False) + "\n", "utf-8")
 
 

@@ -41,6 +41,19 @@ def copy_demo(folder: Path) -> Path:
     return target
 
 
+def copy_demo_off_alignment(folder: Path) -> Path:
+    """A copy of the demo without its alignment (format 2): its bends' deflection and PI
+    station are then their own, typed in the form."""
+    import json
+
+    target = folder / "quillmere-valley-road.json"
+    data = json.loads(DEMO.read_text(encoding="utf-8"))
+    data.pop("alignment")
+    data["curvetui_project_version"] = 2
+    target.write_text(json.dumps(data, indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
+    return target
+
+
 def drive(
     path: Path,
     steps: Callable[[CurveApp, Pilot], Awaitable[None]],

@@ -20,6 +20,7 @@ from app_screen import (
     caution_on_screen,
     caution_widget_text,
     copy_demo,
+    copy_demo_off_alignment,
     drive,
     flat,
     go_to,
@@ -67,7 +68,7 @@ def test_caution_on_screen_in_every_view_and_theme_f9_f6(demo_path):
             await pilot.pause()
             seen.append(app.query_one("#views", TabbedContent).active)
             assert caution_on_screen(app), seen[-1]
-        assert seen == ["working", "plan", "chart", "crossfall", "sheet"]
+        assert seen == ["working", "plan", "chart", "crossfall", "alignment", "sheet"]
         # F6: light and dark, the caution in both
         assert app.theme == "textual-dark"
         await pilot.press("f6")
@@ -515,7 +516,9 @@ def test_ctrl_s_in_the_details_dialog_applies(demo_path):
 # -- the plan and the chart -----------------------------------------------------------------------
 
 
-def test_plan_view_spiralled_bend_labels_and_a_bend_without_deflection(demo_path):
+def test_plan_view_spiralled_bend_labels_and_a_bend_without_deflection(tmp_path):
+    demo_path = copy_demo_off_alignment(tmp_path)  # deflection and PI station typed
+
     async def steps(app, pilot):
         await show_view(app, pilot, "plan")
         assert app.current.id == "QV-01"
@@ -536,7 +539,9 @@ def test_plan_view_spiralled_bend_labels_and_a_bend_without_deflection(demo_path
     drive(demo_path, steps, LARGE)
 
 
-def test_plan_view_message_uses_the_app_field_names(demo_path):
+def test_plan_view_message_uses_the_app_field_names(tmp_path):
+    demo_path = copy_demo_off_alignment(tmp_path)  # deflection and PI station typed
+
     async def steps(app, pilot):
         await go_to(app, pilot, "QV-04")
         await set_box(pilot, app, "deflection", "200")
@@ -556,7 +561,7 @@ def test_qv04_in_the_plan_chart_and_working_views(demo_path):
         await go_to(app, pilot, "QV-04")
         await show_view(app, pilot, "plan")
         plan = region_text(app, "#plan-view")
-        assert "right-hand circular" in plan
+        assert "left-hand circular" in plan  # QV-04 turns left on the demo's alignment
         for label in ("PC 2+631.963", "PI 2+710.000", "PT 2+777.174"):
             assert label in plan, label
         await show_view(app, pilot, "chart")

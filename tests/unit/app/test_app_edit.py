@@ -16,6 +16,7 @@ from app_screen import (
     DEMO,
     SMALL,
     copy_demo,
+    copy_demo_off_alignment,
     drive,
     flat,
     go_to,
@@ -62,7 +63,9 @@ def values(app, *keys: str) -> list[str]:
 # -- every key in the focused field, in order ------------------------------------------------
 
 
-def test_keys_typed_faster_than_the_app_land_in_order_in_their_fields(demo_path):
+def test_keys_typed_faster_than_the_app_land_in_order_in_their_fields(tmp_path):
+    demo_path = copy_demo_off_alignment(tmp_path)  # deflection and PI station typed
+
     """Enter on the list opens the worksheet on the speed; Tab moves to the radius, then the
     deflection. Before the fix a key that came while Tab was still on its way through the
     app's queues went to the field before it."""
@@ -226,7 +229,9 @@ def test_fields_are_wide_enough_to_show_their_values_at_80x24(demo_path):
     drive(demo_path, steps)
 
 
-def test_a_pi_station_typed_as_a_station_is_stored_and_saved(demo_path):
+def test_a_pi_station_typed_as_a_station_is_stored_and_saved(tmp_path):
+    demo_path = copy_demo_off_alignment(tmp_path)  # deflection and PI station typed
+
     async def steps(app, pilot):
         await go_to(app, pilot, "QV-02")
         app.query_one("#in-pi_station", Input).value = "1+190.5"

@@ -81,11 +81,13 @@ def worksheet_order(pages: list[str]) -> list[str]:
 
 def test_summary_then_each_bend_from_a_new_page(pages):
     # a long working runs on to a second page (curvetui.reports.sheet.pdf.make_pdf)
-    assert 1 + len(DEMO_IDS) <= len(pages) <= 1 + 2 * len(DEMO_IDS)
+    # the demo holds an alignment: its page comes second
+    assert 2 + len(DEMO_IDS) <= len(pages) <= 2 + 2 * len(DEMO_IDS)
     assert "project summary" in pages[0]
+    assert "Alignment: Quillmere Valley Road centreline" in pages[1]
     assert worksheet_order(pages) == DEMO_IDS
     starts = [first_page(pages, bend_id) for bend_id in DEMO_IDS]
-    assert starts[0] == 1 and starts == sorted(starts)
+    assert starts[0] == 2 and starts == sorted(starts)
     for i, text in enumerate(pages, start=1):
         assert f"page {i} of {len(pages)}" in text
 
@@ -172,7 +174,8 @@ def test_chosen_bends_and_letter_paper():
     reader = PdfReader(io.BytesIO(data))
     texts = [flat(p.extract_text()) for p in reader.pages]
     assert worksheet_order(texts) == ["QV-04", "QS-02"]
-    assert 3 <= len(reader.pages) <= 5 and first_page(texts, "QV-04") == 1
+    # QV-04 is on the demo's alignment: its page (2) comes before the bends
+    assert 4 <= len(reader.pages) <= 6 and first_page(texts, "QV-04") == 2
     box = reader.pages[0].mediabox
     assert (round(float(box.width)), round(float(box.height))) == (612, 792)
     text = flat(reader.pages[0].extract_text())
@@ -187,16 +190,16 @@ def test_unknown_bend_is_refused():
 def test_text_and_markdown_carry_the_same_key_values(pages):
     text, md = render_text(DEMO), render_markdown(DEMO)
     for out in (text, md):
-        assert out.count(CAUTION) == 1 + len(DEMO_IDS)
+        assert out.count(CAUTION) == 2 + len(DEMO_IDS)  # summary, alignment, bends
         assert "8 bends: 6 PASS, 2 FAIL, 0 ERROR" in out
         # QV-04's rounded R_min, its safe speed and that speed as shown (rounded down)
         assert "229 m" in out and "68.7379 km/h; shown 68 km/h" in out
         assert "FAIL radius 160.0 m is below the minimum radius 229.1 m" in out
-        assert "page 9 of 9" in out
+        assert "page 10 of 10" in out
         for bend_id in DEMO_IDS:
             assert bend_id in out
     assert "68.7379 km/h; shown 68 km/h" in page_of(pages, "QV-04")
-    assert text.count("\f") == len(DEMO_IDS)
+    assert text.count("\f") == 1 + len(DEMO_IDS)
     assert "## Bend QV-04: **FAIL**" in md and "| 4 | Minimum radius |" in md
 
 
@@ -231,6 +234,7 @@ def test_write_sheets_beside_the_project(tmp_path, pages):
     path = tmp_path / "road.json"
     data = json.loads(DEMO.read_text(encoding="utf-8"))
     data["bends"] = [b for b in data["bends"] if b["id"] == "QV-04"]  # one bend: fast
+    data.pop("alignment")  # it names the bends left out
     path.write_text(json.dumps(data), encoding="utf-8")
     project, _ = load_project(path)
     session = types.SimpleNamespace(project=project, path=path)
@@ -251,14 +255,16 @@ def test_cli_writes_pdf_and_exits_0_with_failing_bends(tmp_path, capsys, pages):
     out = tmp_path / "sheets.pdf"
     assert main(["sheet", str(DEMO), "--bend", "QV-04", "-o", str(out)]) == 0  # QV-04 fails
     reader = PdfReader(out)
-    assert len(reader.pages) == 1 + _pages_of(pages, "QV-04")
+    assert len(reader.pages) == 2 + _pages_of(pages, "QV-04")  # summary, alignment, QV-04
     assert "FAIL" in reader.pages[0].extract_text()
 
 
 def test_cli_text_and_md_to_stdout(capsys):
     assert main(["sheet", str(DEMO), "--bend", "QV-04", "--format", "text"]) == 0
     out = capsys.readouterr().out
-    assert "BEND WORKSHEET QV-04" in out and "QV-01" not in out
+    worksheets = out.split("\f")[2:]  # after the summary and the alignment page
+    assert "ALIGNMENT Quillmere" in out.split("\f")[1]
+    assert "BEND WORKSHEET QV-04" in out and "QV-01" not in "".join(worksheets)
     assert main(["sheet", str(DEMO), "--bend", "QV-04", "--format", "md", "-o", "-"]) == 0
     assert "## Bend QV-04: **FAIL**" in capsys.readouterr().out
 
@@ -326,3 +332,15 @@ def test_road_bends_carry_their_superelevation_diagram(pages):
     drawn = [b for b in DEMO_IDS if "Superelevation diagram (axis" in page_of(pages, b)]
     assert drawn == ["QV-01", "QV-02", "QV-04", "QV-05", "QV-06"]
     assert "the normal crown is kept" in page_of(pages, "QV-03")
+
+
+def test_the_alignment_page_to_bearing_with_its_table(pages):
+    """The demo's alignment page (rules and sources: tests/unit/core/test_alignment_checks)."""
+    page = pages[1]
+    assert "Alignment: Quillmere Valley Road centreline" in page
+    assert "Points of intersection" in page and "PASS: no warnings" in page
+    assert "To bearing, north up, one scale both ways" in page
+    # QV-04 by the alignment: PI 2+710, PC = PI - T = 2710 - 160 tan 26 deg = 2631.96
+    assert "2+631.96" in page and "2+710.00" in page and "52.0000 L" in page
+    assert "TxDOT Roadway Design Manual" in page
+    assert flat(CAUTION) in page
