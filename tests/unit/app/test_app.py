@@ -63,7 +63,7 @@ def test_caution_on_screen_in_every_view_and_theme_f9_f6(demo_path):
         assert caution_widget_text(app) == CAUTION
         assert caution_on_screen(app)
         seen = []
-        for _ in range(5):
+        for _ in range(6):
             await pilot.press("f9")
             await pilot.pause()
             seen.append(app.query_one("#views", TabbedContent).active)

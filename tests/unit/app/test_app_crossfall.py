@@ -7,14 +7,23 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
-from app_screen import LARGE, copy_demo, drive, flat, go_to, region_text, set_box, show_view
+from app_screen import (
+    LARGE,
+    copy_demo_off_alignment,
+    drive,
+    flat,
+    go_to,
+    region_text,
+    set_box,
+    show_view,
+)
 
 pytestmark = pytest.mark.app  # starts Textual: `pytest -m "not app"` leaves it out
 
 
 @pytest.fixture
 def demo_path(tmp_path: Path) -> Path:
-    return copy_demo(tmp_path)
+    return copy_demo_off_alignment(tmp_path)  # deflections typed in the form
 
 
 def test_crossfall_view_follows_the_bend(demo_path):
