@@ -3,7 +3,6 @@
 
 from __future__ import annotations
 
-import json
 import math
 import os
 from pathlib import Path
@@ -78,10 +77,9 @@ def _geometry_errors() -> tuple[type[Exception], ...]:
 
 
 def _run_import(args) -> int:
-    from curvetui.storage.files import atomic_write_text
     from curvetui.storage.landxml.project_glue import project_from_alignment
     from curvetui.storage.landxml.reader import read_landxml
-    from curvetui.storage.project.files import ProjectError, validate
+    from curvetui.storage.project.files import save_project
 
     out_path = Path(args.output)
     if out_path.suffix.lower() != ".json":
@@ -92,15 +90,12 @@ def _run_import(args) -> int:
         raise InputError(f"--speed: must be a positive number, got {args.speed:g}")
     try:
         imported = read_landxml(args.file, args.alignment)
-        data = project_from_alignment(imported, args.speed, args.name)
-    except _geometry_errors() as exc:
+        project = project_from_alignment(imported, args.speed, args.name)
+    except (*_geometry_errors(), InputError) as exc:
         raise InputError(f"{args.file}: {exc}") from None
-    checked = {k: v for k, v in data.items() if k != "alignment"}
-    problems = validate(checked)
-    if problems:
-        raise ProjectError(str(out_path), problems)
-    text = json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
-    atomic_write_text(out_path, text, exclusive=True)
+    # refused before anything is written when a bend or the alignment would not load back
+    save_project(project, out_path, exclusive=True)
+    data = project.to_json()
     out = console()
     chain, units = imported.chain, data["details"]["units"]
     unit = "m" if units == "metric" else "ft"
@@ -140,9 +135,9 @@ def _run_import(args) -> int:
 
 def _run_export(args) -> int:
     from curvetui.storage.files import atomic_write_text
-    from curvetui.storage.landxml.project_glue import chain_from_project, read_project_json
+    from curvetui.storage.landxml.project_glue import laid_out_chain
     from curvetui.storage.landxml.writer import landxml_text
-    from curvetui.storage.project.files import ProjectError, validate
+    from curvetui.storage.project.files import load_project
 
     out_path = Path(args.output)
     if out_path.suffix.lower() != ".xml":
@@ -160,13 +155,9 @@ def _run_export(args) -> int:
                 f"-o {out_path}: already exists; choose another name or give --overwrite "
                 "(the old file is kept as .bak)"
             )
-    data = read_project_json(project)
-    chain = chain_from_project(data, str(project))
-    # the bends' inputs within the project format's ranges (the alignment key is checked
-    # by chain_from_project until the project format holds it)
-    problems = validate({k: v for k, v in data.items() if k != "alignment"})
-    if problems:
-        raise ProjectError(str(project), problems)
+    loaded, _ = load_project(project)
+    chain, built = laid_out_chain(loaded)
+    data = loaded.to_json()
     units = data["details"]["units"]
     try:
         text = landxml_text(chain, units, str(data["details"].get("name", "")))
@@ -183,7 +174,10 @@ def _run_export(args) -> int:
         ),
         markup=False,
     )
-    for _, _, warning in chain.lay_out().warnings:  # the engine's text, in metres
+    for _, _, warning in built.warnings:  # overlaps; the engine's text, in metres
         out.print(clean(f"  alignment check (SI units): {warning}"), markup=False)
+    out.print(
+        clean(f"  the checks between bends: curvetui check --project {project}"), markup=False
+    )
     print_caution(out)
     return 0

@@ -12,7 +12,6 @@ from pathlib import Path
 import pytest
 
 from curvetui.cli import main
-from curvetui.storage.landxml.project_glue import chain_from_project
 from curvetui.storage.landxml.reader import read_landxml
 
 DATA = Path(__file__).resolve().parents[2] / "data" / "landxml"
@@ -130,10 +129,15 @@ def test_export_without_alignment_and_bad_projects(tmp_path, capsys):
     assert not (tmp_path / "a.xml").exists()
 
 
-def test_project_glue_us_units_and_bad_references():
+def test_us_project_exports_in_feet_and_a_bad_reference_is_named(tmp_path, capsys):
+    """A US project's alignment (ft) goes out as the chain in metres: 1 ft = 0.3048 m
+    exactly (international foot, NIST SP 811)."""
     data = {
+        "curvetui_project_version": 3,
         "details": {"units": "us", "name": "x"},
-        "bends": [{"id": "B1", "kind": "road", "inputs": {"radius": 500, "spiral_in": 100}}],
+        "bends": [
+            {"id": "B1", "kind": "road", "inputs": {"speed": 40, "radius": 500, "spiral_in": 100}}
+        ],
         "alignment": {
             "name": "n",
             "start_station": 100,
@@ -144,12 +148,18 @@ def test_project_glue_us_units_and_bad_references():
             ],
         },
     }
-    chain = chain_from_project(data)
+    from curvetui.storage.landxml.project_glue import laid_out_chain
+    from curvetui.storage.project.files import parse_project
+
+    chain, _ = laid_out_chain(parse_project(data))
     assert chain.radii == (500 * 0.3048,) and chain.spirals_out == (100 * 0.3048,)
     assert chain.points[1] == (0, 1000 * 0.3048) and chain.start_station == 100 * 0.3048
     data["alignment"]["points"][1]["bend"] = "B9"
-    with pytest.raises(ValueError, match=r"points\[1\]\.bend: names no bend"):
-        chain_from_project(data)
+    path = tmp_path / "bad.json"
+    path.write_text(json.dumps(data))
+    code, _, err = run(["landxml", "export", str(path), "-o", str(tmp_path / "a.xml")], capsys)
+    assert code == 2 and "points[1].bend: 'B9' is not a bend of this project" in err
+    assert not (tmp_path / "a.xml").exists()
 
 
 def test_help(capsys):
@@ -172,9 +182,33 @@ def test_export_checks_the_bends_and_points(tmp_path, capsys):
     data["alignment"]["points"][1]["bend"] = ["PI-01"]
     project.write_text(json.dumps(data))
     code, _, err = run(["landxml", "export", str(project), "-o", str(tmp_path / "a.xml")], capsys)
-    assert code == 2 and "points[1].bend: names no bend" in err
+    assert code == 2 and "$.alignment.points[1].bend: must be string" in err
     data["alignment"]["points"][1] = {"easting": 1e300, "northing": 0, "bend": "PI-01"}
     project.write_text(json.dumps(data))
     code, _, err = run(["landxml", "export", str(project), "-o", str(tmp_path / "a.xml")], capsys)
-    assert code == 2 and "points[1].easting: must be a number within +/-1e+09" in err
+    assert code == 2 and "points[1].easting: must be a number from -1e+09 to 1e+09" in err
     assert not (tmp_path / "a.xml").exists()
+
+
+def test_the_demo_project_goes_out_and_comes_back_unchanged(tmp_path, capsys):
+    """Project -> LandXML -> new project: every point within 1 mm, every deflection within
+    1e-6 degree, radii, spirals and PI stations as the demo's (issue 15's round-trip
+    tolerances; the demo is invented data, used here only as a shape to carry through)."""
+    demo = Path(__file__).parents[3] / "projects" / "quillmere-valley-road.json"
+    xml, back = tmp_path / "qv.xml", tmp_path / "qv.json"
+    assert run(["landxml", "export", str(demo), "-o", str(xml)], capsys)[0] == 0
+    assert run(["landxml", "import", str(xml), "-o", str(back), "--speed", "80"], capsys)[0] == 0
+    before, after = json.loads(demo.read_text()), json.loads(back.read_text())
+    a, b = before["alignment"], after["alignment"]
+    assert a["name"] == b["name"] and abs(a["start_station"] - b["start_station"]) < 1e-3
+    assert len(a["points"]) == len(b["points"])
+    for p, q in zip(a["points"], b["points"], strict=True):
+        assert abs(p["easting"] - q["easting"]) < 1e-3
+        assert abs(p["northing"] - q["northing"]) < 1e-3
+    demo_bends = {x["id"]: x["inputs"] for x in before["bends"]}
+    for p, q in zip(a["points"][1:-1], after["bends"], strict=True):
+        mine, theirs = demo_bends[p["bend"]], q["inputs"]
+        assert abs(mine["radius"] - theirs["radius"]) < 1e-3
+        assert abs(mine.get("spiral_in", 0) - theirs.get("spiral_in", 0)) < 1e-3
+        assert abs(mine["pi_station"] - theirs["pi_station"]) < 1e-3
+        assert abs(abs(mine["deflection"]) - theirs["deflection"]) < 1e-6
