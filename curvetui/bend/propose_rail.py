@@ -132,6 +132,11 @@ def rail_proposal(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
         "length_cant_gradient": float(L(float(t.length_cant_gradient))),
         "length_cant_rate": float(L(float(t.length_cant_rate))),
         "length_deficiency_rate": float(L(float(t.length_deficiency_rate))),
+        "radius_why": p.radius_why,  # kept, "no cant" (the band) or "deflection"
+        "radius_band": float(L(p.radius_band)),
+        "fit_radius_bound": float(L(p.fit_bound)),
+        "cant_passed": p.passed_cant / C,  # the target's step cant, where moved to fit
+        "transition_passed": float(L(p.passed_length)),
     }
     return Proposal("rail", u, proposed, {}, reasons, figures, {})
 
