@@ -195,7 +195,7 @@ def _spirals(si: dict, p: pr.RailProposal, limits: RailLimits, units: UnitSystem
     text = f"transition: the limits {limits.name} set no transition limits"
     if given and not given_fit:
         return "none", (
-            f"{text}, so they need no length; {overlap}: cleared (spirals that your "
+            f"{text}, so no length is needed by them; {overlap}: cleared (spirals your "
             f"authority's rules need must fit L_in + L_out <= {length(room)})"
         )
     return None, text
