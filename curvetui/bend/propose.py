@@ -139,8 +139,22 @@ def propose(
             )
     else:
         from curvetui.bend.propose_rail import rail_proposal
+        from curvetui.core.proposals_rail import NoRailProposal
 
-        p = rail_proposal(si, units, limits)
+        try:
+            p = rail_proposal(si, units, limits)
+        except NoRailProposal as exc:
+            top = f"{BY_KEY['radius'].allowed('rail', units)[1]:g} {units.length_label}"
+            if "deflection" not in si:
+                raise InputError(
+                    f"{name('speed')}: no radius up to {top} (the largest allowed) admits "
+                    f"a cant for both trains"
+                ) from exc
+            raise InputError(
+                f"{name('deflection')}: too small for a proposal: at every radius up to "
+                f"{top} (the largest allowed) the transitions the cant needs are longer "
+                f"than R x deflection allows (two spirals fit while L / R <= deflection)"
+            ) from exc
     p.current = {k: given.get(k) for k in p.proposed}
     inputs = {k: v for k, v in given.items() if k not in p.proposed}
     inputs.update({k: v for k, v in p.proposed.items() if v is not None})

@@ -28,8 +28,9 @@ def rail_proposal(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
     v, low = si["speed"], si.get("low_speed")
     r_given = si.get("radius")
     s = _rail_centres(si, limits)
-    floor = float(units.length_to_si(BY_KEY["radius"].allowed("rail", units)[0]))
-    p = pr.propose_rail(limits, v, low, r_given, s, u, floor)
+    floor, top = (float(units.length_to_si(x)) for x in BY_KEY["radius"].allowed("rail", units))
+    deflection = math.radians(si["deflection"]) if "deflection" in si else None
+    p = pr.propose_rail(limits, v, low, r_given, s, u, floor, deflection, top)
     L, C = units.length_from_si, units.cant  # noqa: N806 - user units
 
     def length(x: float) -> str:
@@ -41,7 +42,7 @@ def rail_proposal(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
     b = p.band
     fast = f"{float(units.speed_from_si(v)):g} {sl}"
     reasons = []
-    if p.radius_changed:
+    if math.isfinite(p.radius_least):  # no cant on the step at the given radius
         if r_given is None:
             given = "no radius was given"
         elif r_given < limits.radius_min * (1 - 1e-12):
@@ -50,10 +51,27 @@ def rail_proposal(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
             given = f"no cant on the {cant(pr.CANT_STEP[u])} step serves both trains at R "
             given += length(r_given)
         reasons.append(
-            f"radius {length(p.radius)}: {given}; the least radius that admits them is "
+            f"radius {length(p.radius_band)}: {given}; the least radius that admits them is "
             f"max(s v^2 / (g (C + I)), s (v^2 - u^2) / (g (I + X)), the limits' least radius) = "
             f"{length(p.radius_least)}, rounded up to {length(pr.RADIUS_STEP[u])} and raised "
             f"by that step until a cant on the step fits (step: common practice, no source)"
+        )
+    if p.radius_why == pr.RADIUS_DEFLECTION:
+        bound = (
+            f"and the bound sqrt(a b / (a + b) s v^2 / (g Delta)) = {length(p.fit_bound)} "
+            f"(a = max(1 / cant gradient, v / rate of cant), b = v / rate of deficiency)"
+            if p.fit_bound > 0
+            else ""
+        )
+        reasons.append(
+            f"radius {length(p.radius)}: two spirals of length L fit the deflection "
+            f"{si['deflection']:g} deg only while their angles L / (2R) sum to no more than "
+            f"it, L <= R x Delta; at R {length(p.radius_band)} that is "
+            f"{length(p.radius_band * p.deflection)}, and the shortest transition of any cant "
+            f"on the step inside the limits is {length(p.band_shortest)}: the radius is the "
+            f"least on the {length(pr.RADIUS_STEP[u])} step at which a cant's transitions "
+            f"fit, walked up from the larger of R {length(p.radius_band)} {bound} (step: "
+            f"common practice, no source)"
         )
     slow = (
         f", excess at {float(units.speed_from_si(low)):g} {sl} at most {cant(b.excess_max)}"
@@ -76,56 +94,24 @@ def rail_proposal(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
             f"within its recommended {cant(b.deficiency_recommended)} (common practice, no "
             f"source)"
         )
-    reasons.append(
-        f"cant {cant(p.cant)}: the multiple of {cant(pr.CANT_STEP[u])} inside the band "
-        f"nearest the target (step: common practice, no source)"
-    )
-    t = p.transition
-    spiral: float | str | None = None  # a length, "none" (cleared), None (left as given)
-    if math.isfinite(p.transition_length) and p.transition_length > 0:
-        gov = RAIL_GOVERNING[int(t.governing)]
-        parts = ", ".join(
-            f"{n} {length(float(x))}"
-            for n, x in zip(
-                RAIL_GOVERNING,
-                (t.length_cant_gradient, t.length_cant_rate, t.length_deficiency_rate),
-                strict=True,
-            )
-            if math.isfinite(float(x))
+    if math.isfinite(p.passed_cant):
+        reasons.append(
+            f"cant {cant(p.cant)}: the multiple of {cant(pr.CANT_STEP[u])} nearest the "
+            f"target, {cant(p.passed_cant)}, needs a transition of {length(p.passed_length)}, "
+            f"longer than two spirals fit on the deflection {si['deflection']:g} deg (L <= "
+            f"R x Delta = {length(p.radius * p.deflection)}); {cant(p.cant)} is the multiple "
+            f"inside the band nearest the target whose transition fits (a lower cant "
+            f"shortens the cant-gradient and cant-rate runs, a higher one the deficiency-rate "
+            f"run; common practice, no source)"
         )
-        text = (
-            f"transition {length(p.transition_length)}: the longest of {parts} ({gov} "
-            f"governs; limits {limits.name}), rounded up to {length(pr.LENGTH_STEP[u])}"
-        )
-        fits = "deflection" not in si or p.transition_length <= p.radius * math.radians(
-            si["deflection"]
-        ) * (1 - 1e-9)
-        given_in = si.get("spiral_in", 0.0)
-        given_out = si.get("spiral_out", given_in)
-        given_fit = "deflection" not in si or (given_in + given_out) / (2 * p.radius) <= (
-            math.radians(si["deflection"]) * (1 - 1e-9)
-        )
-        if min(given_in, given_out) >= float(t.length) * (1 + 1e-12) and given_fit:
-            reasons.append(
-                f"{text}; the spirals given ({length(given_in)}"
-                + (f", {length(given_out)} out" if given_out != given_in else "")
-                + ") are at least that long: kept"
-            )
-        elif fits:
-            spiral = _clean(float(L(p.transition_length)))
-            reasons.append(text)
-        else:
-            reasons.append(
-                text + "; two transitions of that length do not fit the deflection "
-                "(Ls / R > Delta): spirals left as they were; a larger radius or deflection "
-                "is needed"
-            )
-    elif math.isfinite(p.transition_length):
-        reasons.append("transition: none needed (no cant and no deficiency)")
-        if "spiral_in" in si or "spiral_out" in si:
-            spiral = "none"
     else:
-        reasons.append(f"transition: the limits {limits.name} set no transition limits")
+        reasons.append(
+            f"cant {cant(p.cant)}: the multiple of {cant(pr.CANT_STEP[u])} inside the band "
+            f"nearest the target (step: common practice, no source)"
+        )
+    t = p.transition
+    spiral, text = _spirals(si, p, limits, units)
+    reasons.append(text)
     proposed: dict[str, float | None] = {
         "radius": _clean(float(L(p.radius))),
         "cant": _clean(p.cant / C),
@@ -146,5 +132,70 @@ def rail_proposal(si: dict, units: UnitSystem, limits: RailLimits) -> Proposal:
         "length_cant_gradient": float(L(float(t.length_cant_gradient))),
         "length_cant_rate": float(L(float(t.length_cant_rate))),
         "length_deficiency_rate": float(L(float(t.length_deficiency_rate))),
+        "radius_why": p.radius_why,  # kept, "no cant" (the band) or "deflection"
+        "radius_band": float(L(p.radius_band)),
+        "fit_radius_bound": float(L(p.fit_bound)),
+        "cant_passed": p.passed_cant / C,  # the target's step cant, where moved to fit
+        "transition_passed": float(L(p.passed_length)),
     }
     return Proposal("rail", u, proposed, {}, reasons, figures, {})
+
+
+def _spirals(si: dict, p: pr.RailProposal, limits: RailLimits, units: UnitSystem):
+    """The spirals proposed, a length in the user's unit, "none" (cleared) or None (left as
+    given), and the reason. Given spirals are kept where they are at least the length
+    needed and fit the deflection; otherwise the length needed is proposed (it fits: see
+    curvetui.core.proposals_rail) or, where none is needed, they are cleared."""
+    ln, u = units.length_label, units.name
+    L = units.length_from_si  # noqa: N806 - user units
+
+    def length(x: float) -> str:
+        return f"{_g(float(L(x)))} {ln}"
+
+    t = p.transition
+    has_d = "deflection" in si
+    given = "spiral_in" in si or "spiral_out" in si
+    given_in = si.get("spiral_in", 0.0)
+    given_out = si.get("spiral_out", given_in)
+    given_text = f"{length(given_in)}" + (
+        f", {length(given_out)} out" if given_out != given_in else ""
+    )
+    room = 2 * p.radius * math.radians(si["deflection"]) if has_d else math.inf
+    given_fit = given_in + given_out <= room * (1 - 1e-9)
+    overlap = (
+        f"the spirals given ({given_text}) overlap at R {length(p.radius)}: their angles "
+        f"L / (2R) sum to more than the deflection {si.get('deflection', 0):g} deg "
+        f"(L_in + L_out > 2 R Delta = {length(room)})"
+    )
+    if math.isfinite(p.transition_length) and p.transition_length > 0:
+        gov = RAIL_GOVERNING[int(t.governing)]
+        parts = ", ".join(
+            f"{n} {length(float(x))}"
+            for n, x in zip(
+                RAIL_GOVERNING,
+                (t.length_cant_gradient, t.length_cant_rate, t.length_deficiency_rate),
+                strict=True,
+            )
+            if math.isfinite(float(x))
+        )
+        text = (
+            f"transition {length(p.transition_length)}: the longest of {parts} ({gov} "
+            f"governs; limits {limits.name}), rounded up to {length(pr.LENGTH_STEP[u])}"
+        )
+        if has_d:
+            text += f"; two fit the deflection (L <= R x Delta = {length(room / 2)})"
+        if min(given_in, given_out) >= float(t.length) * (1 + 1e-12) and given_fit:
+            return None, f"{text}; the spirals given ({given_text}) are at least that long: kept"
+        if given and not given_fit:
+            text += f"; {overlap}: replaced by the length needed"
+        return _clean(float(L(p.transition_length))), text
+    if math.isfinite(p.transition_length):
+        text = "transition: none needed (no cant and no deficiency)"
+        return ("none" if given else None), text
+    text = f"transition: the limits {limits.name} set no transition limits"
+    if given and not given_fit:
+        return "none", (
+            f"{text}, so no length is needed by them; {overlap}: cleared (spirals your "
+            f"authority's rules need must fit L_in + L_out <= {length(room)})"
+        )
+    return None, text

@@ -73,3 +73,67 @@ def test_balancing_target_uses_the_same_share_of_both_limits():
         (p.target - b.e_slow) / b.excess_max, rel=1e-12
     )
     assert abs(p.cant - p.target) <= 0.0025 + 1e-12  # the nearest 5 mm step
+
+
+# With a deflection (module docstring of curvetui.core.proposals_rail): two equal spirals
+# of the transition length L fit while L / (2R) + L / (2R) <= Delta. The EN 13803 file's
+# first band (V <= 160 km/h): cant 180 mm, deficiency 160 mm (recommended 130), cant
+# gradient 2.5 mm/m, rate of cant 60 mm/s, rate of deficiency 70 mm/s, all from memory
+# (the shipped file's values); the 5 mm / 5 m steps are common practice, no source.
+V160 = 160 / 3.6  # [m/s]
+
+
+def _e_fast_mm(radius: float) -> float:
+    """E = s v^2 / (g R) in mm, s 1.5 m, g 9.80665 m/s^2 (by hand, EN 13803 form)."""
+    return 1000 * 1.5 * V160**2 / (9.80665 * radius)
+
+
+def _needed_5m(cant_mm: float, radius: float) -> float:
+    """The longest of E / 2.5, E v / 60 and (E_f - E) v / 70 (mm, m/s: metres), rounded up
+    to 5 m."""
+    length = max(cant_mm / 2.5, cant_mm * V160 / 60, (_e_fast_mm(radius) - cant_mm) * V160 / 70)
+    return 5.0 * math.ceil(length / 5.0 - 1e-12)
+
+
+def test_a_deflection_too_short_for_the_targets_transition_moves_the_cant():
+    # R 1500 m: E_f = 1.5 x 44.444^2 / (9.80665 x 1500) = 201.4 mm; target E_f - 130 =
+    # 71.4 mm -> 70 mm on the step; its transition: (201.4 - 70) x 44.444 / 70 = 83.4 m,
+    # rounded 85 m. Deflection 3 deg: R x Delta = 1500 x 0.05236 = 78.5 m < 85 m.
+    # 75 mm: 80.3 -> 85 m; 80 mm: 77.1 -> 80 m (> 78.5); 85 mm: 73.9 -> 75 m, fits.
+    assert _e_fast_mm(1500) == pytest.approx(201.43, abs=0.01)
+    assert [_needed_5m(c, 1500) for c in (70, 75, 80, 85)] == [85, 85, 80, 75]
+    p = pr.propose_rail(EN, 160 * KMH, None, 1500.0, 1.5, "metric", 20.0, math.radians(3.0))
+    assert not p.radius_changed and p.radius == 1500.0
+    assert p.cant == pytest.approx(0.085, abs=1e-12) and p.transition_length == 75.0
+    assert p.passed_cant == pytest.approx(0.070, abs=1e-12) and p.passed_length == 85.0
+    assert 2 * p.transition_length / (2 * p.radius) <= math.radians(3.0)
+
+
+def test_no_cant_whose_transition_fits_raises_the_radius_to_the_least_that_fits():
+    # Deflection 1.5 deg (0.026180 rad). At 2100 m, R x Delta = 54.98 m: the shortest
+    # rounded transition is 55 m (65 mm: 48.1 m and (143.9 - 65) x 44.444 / 70 = 50.1 m;
+    # 70 mm: 51.9 m), so nothing fits. At 2105 m, R x Delta = 55.11 m: 60 mm needs
+    # (143.5 - 60) x 44.444 / 70 = 53.0 -> 55 m and fits; 55 mm needs 56.2 -> 60 m. The
+    # target, E_f - 130 = 13.5 mm -> 15 mm, needs 81.6 -> 85 m: the fitting cant nearest it
+    # is 60 mm. The given 1500 m is kept as the floor of the walk.
+    d = math.radians(1.5)
+    room = 2100 * d
+    assert room == pytest.approx(54.978, abs=1e-3)
+    assert min(_needed_5m(c, 2100) for c in range(0, 181, 5) if c >= _e_fast_mm(2100) - 160) > room
+    assert _needed_5m(60, 2105) == 55 <= 2105 * d and _needed_5m(55, 2105) == 60
+    p = pr.propose_rail(EN, 160 * KMH, None, 1500.0, 1.5, "metric", 20.0, d)
+    assert p.radius_changed and p.radius_why == pr.RADIUS_DEFLECTION and p.radius == 2105.0
+    assert p.cant == pytest.approx(0.060, abs=1e-12) and p.transition_length == 55.0
+    assert p.passed_cant == pytest.approx(0.015, abs=1e-12)
+    # the bound: a = 44.444 / 0.060, b = 44.444 / 0.070 (per m of cant), k = a b / (a + b)
+    a, b = V160 / 0.060, V160 / 0.070
+    bound = math.sqrt(a * b / (a + b) * 1.5 * V160**2 / (9.80665 * d))
+    assert p.fit_bound == pytest.approx(bound, rel=1e-9) and bound <= 2105.0
+
+
+def test_a_deflection_no_radius_fits_is_refused():
+    # every cant's transition rounds up to 5 m at least, so R >= 5 m / Delta: 0.002 deg
+    # needs R >= 143,000 m, beyond the 100,000 m allowed
+    assert 5.0 / math.radians(0.002) > 100_000
+    with pytest.raises(pr.NoRailProposal):
+        pr.propose_rail(EN, 160 * KMH, None, 1500.0, 1.5, "metric", 20.0, math.radians(0.002), 1e5)
