@@ -9,6 +9,7 @@ in words, never by colour alone.
 from __future__ import annotations
 
 import numpy as np
+from rich import box
 from rich.table import Table
 from rich.text import Text
 from textual.app import ComposeResult
@@ -99,12 +100,16 @@ def elevation_table(d: Diagram, interval: float | None = None) -> Table:
         title=f"Edge elevations relative to the profile grade line ({ln}), axis: {d.axis}",
         caption="slopes + rise towards the outside edge; " + d.placement,
         expand=False,
+        box=box.SIMPLE_HEAD,  # light rules: the numbers keep their width in a narrow view
+        pad_edge=False,
     )
-    for head in ("Station", "Point", "Element", "Out %", "In %", f"Out {ln}", f"CL {ln}",
-                 f"In {ln}"):  # fmt: skip
-        grid.add_column(
-            head, justify="left" if head in ("Point", "Element") else "right", no_wrap=True
-        )
+    # numbers never cut short: each numeric column at least as wide as its widest value
+    # (stations 0+000.000 to 9999+999.999 ft); the point's name wraps instead
+    grid.add_column("Station", justify="right", no_wrap=True, min_width=9)
+    grid.add_column("Point", justify="left", overflow="fold", ratio=1, min_width=8)
+    grid.add_column("Element", justify="left", no_wrap=True, min_width=7)
+    for head in ("Out %", "In %", f"Out {ln}", f"CL {ln}", f"In {ln}"):
+        grid.add_column(head, justify="right", no_wrap=True, min_width=6)
     for p in d.rows(interval):
         grid.add_row(
             format_station(p.station, d.units),
