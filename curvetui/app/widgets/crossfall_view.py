@@ -103,13 +103,13 @@ def elevation_table(d: Diagram, interval: float | None = None) -> Table:
         box=box.SIMPLE_HEAD,  # light rules: the numbers keep their width in a narrow view
         pad_edge=False,
     )
-    # numbers never cut short: each numeric column at least as wide as its widest value
-    # (stations 0+000.000 to 9999+999.999 ft); the point's name wraps instead
-    grid.add_column("Station", justify="right", no_wrap=True, min_width=9)
-    grid.add_column("Point", justify="left", overflow="fold", ratio=1, min_width=8)
-    grid.add_column("Element", justify="left", no_wrap=True, min_width=7)
+    # numbers never wrap; in a narrow view the point's name wraps first (Rich narrows the
+    # columns that may wrap before it cuts one that may not)
+    grid.add_column("Station", justify="right", no_wrap=True)
+    grid.add_column("Point", justify="left", overflow="fold")
+    grid.add_column("Element", justify="left", no_wrap=True)
     for head in ("Out %", "In %", f"Out {ln}", f"CL {ln}", f"In {ln}"):
-        grid.add_column(head, justify="right", no_wrap=True, min_width=6)
+        grid.add_column(head, justify="right", no_wrap=True)
     for p in d.rows(interval):
         grid.add_row(
             format_station(p.station, d.units),
