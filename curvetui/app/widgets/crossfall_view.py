@@ -102,11 +102,12 @@ def elevation_table(d: Diagram, interval: float | None = None) -> Table:
         expand=False,
         box=box.SIMPLE_HEAD,  # light rules: the numbers keep their width in a narrow view
         pad_edge=False,
+        collapse_padding=True,
     )
     # numbers never wrap; in a narrow view the point's name wraps first (Rich narrows the
     # columns that may wrap before it cuts one that may not)
     grid.add_column("Station", justify="right", no_wrap=True)
-    grid.add_column("Point", justify="left", overflow="fold")
+    grid.add_column("Point", justify="left")
     grid.add_column("Element", justify="left", no_wrap=True)
     for head in ("Out %", "In %", f"Out {ln}", f"CL {ln}", f"In {ln}"):
         grid.add_column(head, justify="right", no_wrap=True)
