@@ -6,6 +6,7 @@ broken-back warnings are common practice, no source."""
 import math
 
 import pytest
+from chains import chain
 
 from curvetui.core.alignment import (
     BROKEN_BACK,
@@ -15,15 +16,6 @@ from curvetui.core.alignment import (
     build_alignment,
 )
 from curvetui.core.spiral import spiral_curve
-
-
-def chain(bearings_deg, legs, start=(0.0, 0.0)):
-    """Points of a chain from its leg bearings and lengths (built here, independently)."""
-    pts = [start]
-    for b, d in zip(bearings_deg, legs, strict=True):
-        e, n = pts[-1]
-        pts.append((e + d * math.sin(math.radians(b)), n + d * math.cos(math.radians(b))))
-    return pts
 
 
 def test_reverse_pair_by_hand():

@@ -12,6 +12,7 @@ rules and their sources (REFERENCES.md):
 import math
 
 import pytest
+from chains import chain
 
 from curvetui.core.alignment import build_alignment
 from curvetui.core.alignment_checks import (
@@ -28,15 +29,6 @@ from curvetui.core.alignment_checks import (
 
 MPH = 0.44704  # m/s, exact
 FT = 0.3048  # m, exact
-
-
-def chain(bearings_deg, legs, start=(0.0, 0.0)):
-    """Points of a chain from its leg bearings and lengths (built here, independently)."""
-    pts = [start]
-    for b, d in zip(bearings_deg, legs, strict=True):
-        e, n = pts[-1]
-        pts.append((e + d * math.sin(math.radians(b)), n + d * math.cos(math.radians(b))))
-    return pts
 
 
 def road(name, radius, speed=25.0, share=0.0):
