@@ -64,7 +64,7 @@ def _number(text: str, decimal_comma: bool) -> float | None:
 def _show(text: str) -> str:
     """A cell as a message quotes it: control characters as escapes, at most 40 shown."""
     t = "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
-    return repr(t if len(t) <= 40 else t[:40] + "...")
+    return "'" + (t if len(t) <= 40 else t[:40] + "...") + "'"
 
 
 def _header(line: str) -> tuple[list[str], str]:
