@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import json
 import math
+from pathlib import Path
 
 import pytest
 
@@ -159,3 +160,11 @@ def test_start_station_and_emax_and_us_units(tmp_path, capsys):
     # PI 1 is 8000 ft from the start point: its PI station is 1000 + 8000 (on the first
     # bend TS = start + 8000 - T and PI = TS + T)
     assert first["pi_station"] == pytest.approx(9000.0, abs=1e-6)
+
+
+def test_the_shipped_example_file_starts_a_project(tmp_path, capsys):
+    # the README's walk-through (invented data: only that the shipped file works is tested)
+    example = Path(__file__).resolve().parents[3] / "projects" / "quillmere-east-link-pis.csv"
+    project = tmp_path / "east-link.json"
+    assert main(["new", str(project), "--points", str(example), "--speed", "80"]) == 0
+    assert "Alignment east-link: PASS" in flat(capsys.readouterr().out)
