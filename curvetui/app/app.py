@@ -44,6 +44,7 @@ class CurveApp(StopsCleanly, KeyOrder):
         Binding("f6", "toggle_theme", "Light/dark"),
         Binding("f7", "propose", "Propose"),
         Binding("ctrl+r", "undo_proposal", "Undo proposal", show=False),
+        Binding("shift+f7", "propose_all", "Propose every bend", show=False),
         Binding("f9", "next_view", "Next view"),
         Binding("escape", "focus_list", "Bend list", show=False),
         Binding("ctrl+q", "request_quit", "Quit", priority=True),
@@ -54,7 +55,8 @@ class CurveApp(StopsCleanly, KeyOrder):
         self.session = session
         self.last_recompute_ms = 0.0  # the last edit's handling, engine and redraw (ms)
         self.project_screen = ProjectScreen(session)
-        self.proposal_undo: tuple[Bend, dict] | None = None  # the bend and what F7 replaced
+        # the bends and what the last applied proposal (F7, or every bend's) replaced
+        self.proposal_undo: list[tuple[Bend, dict]] | None = None
 
     def notify(self, message: str, *, title: str = "", markup: bool = False, **kwargs) -> None:
         """A note on screen; its text (ids, file names, values typed) is never markup."""
@@ -209,7 +211,7 @@ class CurveApp(StopsCleanly, KeyOrder):
                 self.notify(f"{bend.id} already has the proposed values.")
                 return
             old = self.session.set_inputs(bend, changes)
-            self.proposal_undo = (bend, old)
+            self.proposal_undo = [(bend, old)]
             names = ", ".join(k.replace("_", " ") for k in changes)
             self.notify(f"Proposal applied to {bend.id} ({names}); ctrl+r puts them back.")
 
@@ -218,16 +220,54 @@ class CurveApp(StopsCleanly, KeyOrder):
         self.push_screen(ProposalDialog(bend.id, proposal, units), done)
 
     def action_undo_proposal(self) -> None:
-        """ctrl+r: every field the last applied proposal changed, back as it was."""
+        """ctrl+r: every field the last applied proposal changed (on one bend, or on every
+        bend), back as it was, as one step."""
         undo, self.proposal_undo = self.proposal_undo, None
-        if undo is None or not any(b is undo[0] for b in self.session.project.bends):
+        bends = self.session.project.bends
+        if not undo or not all(any(b is bend for b in bends) for bend, _ in undo):
             self.bell()
             self.notify("No applied proposal to put back.")
             return
-        bend, old = undo
-        self.session.select(bend)
-        self.session.set_inputs(bend, old)
-        self.notify(f"{bend.id}: the fields the proposal changed are back as they were.")
+        if len(undo) == 1:
+            bend, old = undo[0]
+            self.session.select(bend)
+            self.session.set_inputs(bend, old)
+            self.notify(f"{bend.id}: the fields the proposal changed are back as they were.")
+            return
+        self.session.set_many(undo)
+        self.notify(f"{len(undo)} bends: the fields the proposals changed are back as they were.")
+
+    def action_propose_all(self) -> None:
+        """shift+F7: every bend's proposal in one list; Apply sets them all as one step
+        (ctrl+r puts every bend back)."""
+        from curvetui.app.proposals import propose_every
+
+        self.project_screen.take_typed()
+        if not self.session.project.bends:
+            self.notify("No bends to propose for.")
+            return
+        try:
+            units, items, report = propose_every(self.session)
+        except InputError as exc:
+            self.notify(f"No proposals: {exc}", severity="error", timeout=10)
+            return
+
+        def done(answer: str | None) -> None:
+            bends = self.session.project.bends
+            changes = [
+                (i.bend, i.changes) for i in items if i.changes and any(b is i.bend for b in bends)
+            ]
+            if answer != "apply" or not changes:
+                return
+            self.proposal_undo = self.session.set_many(changes)
+            self.notify(
+                f"Proposals applied to {len(changes)} bends "
+                f"({', '.join(b.id for b, _ in changes)}); ctrl+r puts them all back."
+            )
+
+        from curvetui.app.dialogs.propose_all import ProposeAllDialog
+
+        self.push_screen(ProposeAllDialog(items, report, units), done)
 
     def action_request_quit(self) -> None:
         self.project_screen.take_typed()
@@ -287,6 +327,11 @@ class CurveApp(StopsCleanly, KeyOrder):
         yield SystemCommand("Light or dark", "Switch the theme (F6)", self.action_toggle_theme)
         yield SystemCommand(
             "Propose", "Radius, superelevation or cant for this bend (F7)", self.action_propose
+        )
+        yield SystemCommand(
+            "Propose every bend",
+            "Every bend's proposal in one list, applied as one step (shift+F7)",
+            self.action_propose_all,
         )
         yield SystemCommand(
             "Undo proposal",

@@ -280,8 +280,28 @@ class Session:
                 bend.inputs[key] = value
                 self.dirty = True
         self.recompute(bend)
+        if any(key in GEOMETRY_INPUTS for key in values):
+            self.recompute_alignment(bend)  # a radius or spiral moves the stations after it
         self._changed("inputs", bend)
         return old
+
+    def set_many(self, changes: list[tuple[Bend, Mapping[str, object]]]) -> list[tuple[Bend, dict]]:
+        """Inputs of several bends at once (every bend's proposal applied, or put back):
+        one recompute of every bend and one change ('inputs', the bend on screen). Returns,
+        bend by bend, the values they replaced (None where absent): one step to put back."""
+        olds = []
+        for bend, values in changes:
+            olds.append((bend, {key: bend.inputs.get(key) for key in values}))
+            for key, value in values.items():
+                if value is None:
+                    if bend.inputs.pop(key, None) is not None:
+                        self.dirty = True
+                elif not same_value(bend.inputs.get(key), value):
+                    bend.inputs[key] = value
+                    self.dirty = True
+        self.recompute_all()
+        self._changed("inputs", self.current)
+        return olds
 
     def edit_field(self, bend: Bend, key: str, text: str) -> BendState:
         """One worksheet field as typed: an engine input, the bend id, station or notes."""

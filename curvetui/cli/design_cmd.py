@@ -16,10 +16,16 @@ from curvetui.screen_text import clean, markup
 
 def add_parser(sub) -> None:
     design = sub.add_parser(
-        "design", help="propose a radius, superelevation or cant and transition for one bend"
+        "design",
+        help="propose a radius, superelevation or cant and transition for one bend, or "
+        "every bend of a project (--project)",
     )
-    from curvetui.cli import _Parser  # the one-line errors of every sub-command
+    from curvetui.cli import (
+        _Parser,  # the one-line errors of every sub-command
+        design_project_cmd,
+    )
 
+    design_project_cmd.add_options(design)
     kinds = design.add_subparsers(dest="kind", parser_class=_Parser)
     road = kinds.add_parser(
         "road", help="propose a road bend (radius, superelevation, spiral) from its speed"

@@ -50,12 +50,17 @@ def add_new_parser(sub) -> None:
     p = sub.add_parser(
         "new",
         help="start a project file (FILE.json; never overwrites)",
-        description="Start an empty project file. The name must end in .json; an existing "
+        description="Start a project file: empty, or with --points and --speed a road "
+        "project on a chain of PIs, each bend the proposal for its deflection. The name "
+        "must end in .json; an existing "
         "file is never overwritten.",
     )
     p.add_argument("file", help="the project file to create (FILE.json)")
     p.add_argument("--name", help="project name (default: the file name)")
     p.add_argument("--units", choices=("metric", "us"), default="metric")
+    from curvetui.cli import new_points_cmd
+
+    new_points_cmd.add_options(p)
     p.set_defaults(run=_run_new)
 
 
@@ -120,6 +125,13 @@ def _run_new(args) -> int:
         raise InputError(f"{path}: a project file's name must end in .json")
     if os.path.lexists(path):
         raise InputError(f"{path}: already exists; choose another name")
+    from curvetui.cli import new_points_cmd
+
+    if getattr(args, "points", None):
+        return new_points_cmd.run(args, path)
+    alone = new_points_cmd.given_without_points(args)
+    if alone:
+        raise InputError(f"{', '.join(alone)}: only with --points PIS.csv (a chain of PIs)")
     project = Project(Details(name=args.name or path.stem, units=args.units))
     save_project(project, path, exclusive=True)
     console().print(clean(f"Created {path} ({args.units} units)."), markup=False)
@@ -315,7 +327,9 @@ def print_alignment(out, report) -> None:
         out.print(clean(f"  - {line}"), markup=False)
 
 
-def print_outcomes(project, ctx, outcomes, notes, report=None) -> None:
+def print_outcomes(project, ctx, outcomes, notes, report=None, after=()) -> None:
+    """The bends' table, their messages and notes, the alignment, ``after`` (lines of
+    advice), then the caution."""
     from rich import box
     from rich.table import Table
 
@@ -376,6 +390,8 @@ def print_outcomes(project, ctx, outcomes, notes, report=None) -> None:
         out.print(clean(f"  - {line}"), markup=False)
     if report is not None:
         print_alignment(out, report)
+    for line in after:
+        out.print(clean(line), markup=False)
     print_caution(out)
 
 
