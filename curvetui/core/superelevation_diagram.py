@@ -86,8 +86,11 @@ def key_stations(lc_in, lc_out, l_in, l_out, e, e_nc) -> dict:
     l_in, l_out = np.asarray(l_in, dtype=float), np.asarray(l_out, dtype=float)
     lc_in, lc_out = np.asarray(lc_in, dtype=float), np.asarray(lc_out, dtype=float)
     ok = e > 0
-    with np.errstate(divide="ignore", invalid="ignore"):
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         k = np.where(ok, e_nc / np.where(ok, e, 1.0), np.nan)  # share of L per e_NC of turn
+        # a subnormal e overflows k: no finite stations, so no diagram (NaN, as for e <= 0)
+        ok = ok & np.isfinite(k * l_in) & np.isfinite(k * l_out)
+        k = np.where(ok, k, np.nan)
     out = {
         "normal_crown_in": lc_in - k * l_in,
         "level_crown_in": lc_in + 0 * k,

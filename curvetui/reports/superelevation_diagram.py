@@ -165,6 +165,9 @@ def _number(mapping: dict, key: str) -> float | None:
     return float(v) if isinstance(v, int | float) and math.isfinite(v) else None
 
 
+MIN_DRAWN = 0.005  # [%] the least superelevation drawn: half the 0.01 % the diagram prints
+
+
 def diagram_for_record(record: dict) -> Diagram | str:
     """The diagram of a road bend's record (``curvetui check --json``), or the reason in
     words why it has none."""
@@ -177,6 +180,11 @@ def diagram_for_record(record: dict) -> Diagram | str:
         return "no diagram: the bend needs a deflection angle for its stations"
     if e <= 0:
         return "no diagram: the normal crown is kept (no superelevation)"
+    if e < MIN_DRAWN:  # e.g. 1e-320 %: the runoff underflows and the stations are not finite
+        return (
+            f"no diagram: superelevation {e:.3g} % is too small to draw "
+            f"(less than {MIN_DRAWN:g} %, below the 0.01 % the diagram shows)"
+        )
     width = _number(t, "lane_width")
     n1 = _number(t, "lanes_rotated") or 1.0
     axis = t.get("rotation_axis") or sed.AXES[0]

@@ -6,6 +6,8 @@ runoff over the spiral; read)."""
 
 from __future__ import annotations
 
+import math
+
 import pytest
 
 from curvetui.bend.service import evaluate_bend
@@ -100,3 +102,15 @@ def test_an_end_without_a_spiral_is_placed_as_a_simple_curves(us):
     s_out, s_in, *_ = d.at([g["st"]])
     assert float(s_out[0]) == pytest.approx(2 / 3 * 4.4)
     assert "without a spiral" in d.placement
+
+
+@pytest.mark.parametrize("e", [1e-320, 1e-9, 0.004])
+def test_a_superelevation_too_small_to_draw_is_said_not_drawn(us, e):
+    """A subnormal e once overflowed the key stations (e_NC / e) and reached the user as an
+    internal error; below 0.005 % (half the 0.01 % the diagram prints) the reason is given."""
+    from curvetui.core.superelevation_diagram import key_stations
+
+    stations = key_stations(100.0, 300.0, 1e-318, 1e-318, 1e-320, 0.02)
+    assert all(not math.isfinite(float(v)) for k, v in stations.items() if k != "too_short")
+    d = diagram_for_record(record(us, superelevation=str(e)))
+    assert isinstance(d, str) and "too small to draw" in d
