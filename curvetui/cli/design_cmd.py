@@ -37,7 +37,9 @@ def add_parser(sub) -> None:
     road.add_argument(
         "--table", help="road design table by name or .toml path (see `curvetui tables`)"
     )
-    road.add_argument("--json", action="store_true", help="print one JSON object")
+    road.add_argument(
+        "--json", action="store_true", default=argparse.SUPPRESS, help="print one JSON object"
+    )
     road.set_defaults(run=run)
     rail = kinds.add_parser(
         "rail", help="propose a rail curve's cant and transition (or the least radius)"
@@ -45,7 +47,9 @@ def add_parser(sub) -> None:
     geo.add_field_options(rail, "rail", input_keys("rail"))
     rail.add_argument("--limits", help="rail limits by name or .toml path (see `curvetui tables`)")
     add_units_option(rail)
-    rail.add_argument("--json", action="store_true", help="print one JSON object")
+    rail.add_argument(
+        "--json", action="store_true", default=argparse.SUPPRESS, help="print one JSON object"
+    )
     rail.set_defaults(run=run)
 
 

@@ -80,3 +80,15 @@ def test_design_options_are_the_checks_options():
     for kind in ("road", "rail"):
         options = {o for a in kinds.choices[kind]._actions for o in a.option_strings}
         assert {f.cli_option for f in fields_for(kind)} <= options
+
+
+def test_json_flag_before_or_after_the_kind(capsys):
+    """`design --json road ...` and `design road ... --json` both print JSON (the sub-command's
+    own flag once reset the first to False)."""
+    import json
+
+    from curvetui.cli import main
+
+    for args in (["design", "--json", "road"], ["design", "road", "--json"]):
+        main([*args, "--speed", "80", "--emax", "8"])
+        assert json.loads(capsys.readouterr().out)["kind"] == "road"
