@@ -340,7 +340,8 @@ def print_outcomes(project, ctx, outcomes, notes, report=None, after=()) -> None
     out = console()
     d = project.details
     grid = Table(
-        title=f"{markup(d.name, True)} - job {markup(d.job_number, True)}",
+        title=markup(d.name, True)
+        + (f" - job {markup(d.job_number, True)}" if d.job_number.strip() else ""),
         caption=f"road table {markup(ctx.table.name, True)}; rail limits "
         f"{markup(ctx.limits.name, True)}; speeds {units.speed_label}, lengths "
         f"{units.length_label}, cant {units.cant_label}",
