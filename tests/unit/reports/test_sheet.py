@@ -36,6 +36,10 @@ DEMO = Path(__file__).resolve().parents[3] / "projects" / "quillmere-valley-road
 DEMO_IDS = ["QV-01", "QV-02", "QV-03", "QV-04", "QV-05", "QV-06", "QS-01", "QS-02"]
 FAILING = {"QV-04", "QV-05"}
 
+# with pytest-xdist (`--dist loadgroup`) this module's tests run on one worker, so the demo's
+# sheets are rendered once, not once per worker; without xdist the mark does nothing
+pytestmark = pytest.mark.xdist_group("demo_sheets")
+
 
 def flat(text: str) -> str:
     return " ".join(text.split())
