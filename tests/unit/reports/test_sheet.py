@@ -36,6 +36,10 @@ DEMO = Path(__file__).resolve().parents[3] / "projects" / "quillmere-valley-road
 DEMO_IDS = ["QV-01", "QV-02", "QV-03", "QV-04", "QV-05", "QV-06", "QS-01", "QS-02"]
 FAILING = {"QV-04", "QV-05"}
 
+# with pytest-xdist (`--dist loadgroup`) this module's tests run on one worker, so the demo's
+# sheets are rendered once, not once per worker; without xdist the mark does nothing
+pytestmark = pytest.mark.xdist_group("demo_sheets")
+
 
 def flat(text: str) -> str:
     return " ".join(text.split())
@@ -47,8 +51,14 @@ def demo_pdf() -> bytes:
 
 
 @pytest.fixture(scope="module")
-def pages(demo_pdf) -> list[str]:
-    return [flat(p.extract_text()) for p in PdfReader(io.BytesIO(demo_pdf)).pages]
+def demo_reader(demo_pdf) -> PdfReader:
+    """The demo's sheets, parsed once for the module; the tests only read it."""
+    return PdfReader(io.BytesIO(demo_pdf))
+
+
+@pytest.fixture(scope="module")
+def pages(demo_reader) -> list[str]:
+    return [flat(p.extract_text()) for p in demo_reader.pages]
 
 
 def first_page(pages: list[str], bend_id: str) -> int:
@@ -148,17 +158,16 @@ def test_plan_sketch_labels_key_points_with_stations(pages):
         assert re.search(rf"\b{name} \d\+\d{{3}}\.\d{{3}}", spiralled), name
 
 
-def test_plan_is_drawn_in_vector_lines(demo_pdf):
-    reader = PdfReader(io.BytesIO(demo_pdf))
-    page = reader.pages[first_page([p.extract_text() for p in reader.pages], "QV-04")]
+def test_plan_is_drawn_in_vector_lines(demo_reader, pages):
+    page = demo_reader.pages[first_page(pages, "QV-04")]
     stream = page.get_contents().get_data().decode("latin-1")
     lines = re.findall(r"-?[\d.]+ -?[\d.]+ l\b", stream)
     assert len(lines) > 100  # the arc alone is hundreds of short segments
     assert not page.images  # no bitmap
 
 
-def test_fonts_are_embedded(demo_pdf):
-    page = PdfReader(io.BytesIO(demo_pdf)).pages[1]
+def test_fonts_are_embedded(demo_reader):
+    page = demo_reader.pages[1]
     fonts = page["/Resources"]["/Font"]
     names = set()
     for ref in fonts.values():
