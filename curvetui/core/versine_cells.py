@@ -94,9 +94,16 @@ def _cells(p: _Problem, n1: int, n2: int):
     a, e, k, nv, norm, kkt, det = (v[good] for v in (a, e, k, nv, norm, kkt, det))
     nv = nv / norm[:, None]
     rhs = np.array([total, moment])
-    inv = np.stack(
-        [np.stack([kkt[:, 1, 1], -kkt[:, 0, 1]], 1), np.stack([-kkt[:, 1, 0], kkt[:, 0, 0]], 1)], 1
-    ) / det[:, None, None]
+    inv = (
+        np.stack(
+            [
+                np.stack([kkt[:, 1, 1], -kkt[:, 0, 1]], 1),
+                np.stack([-kkt[:, 1, 0], kkt[:, 0, 0]], 1),
+            ],
+            1,
+        )
+        / det[:, None, None]
+    )
     xp = np.einsum("cji,cj->ci", k, inv @ rhs)
     return a, e, xp, nv
 
@@ -183,8 +190,10 @@ def _base_interval(p: _Problem, a, e, xp, nv, n1: int, n2: int):
         hold_m = rows_h @ p.m
         hold_p = np.einsum("hn,cin,ci->ch", rows_h, cols, xp)
         hold_n = np.einsum("hn,cin,ci->ch", rows_h, cols, nv)
-        eqs = [(hold_m[j] - hold_p[:, j] - v, -hold_n[:, j], SLEW_TOLERANCE)
-               for j, (_, v) in enumerate(p.holds)]
+        eqs = [
+            (hold_m[j] - hold_p[:, j] - v, -hold_n[:, j], SLEW_TOLERANCE)
+            for j, (_, v) in enumerate(p.holds)
+        ]
     if p.u_fixed is not None:
         eqs.append((u0 - p.u_fixed, u1, 1e-12 * max(p.u_fixed, 1e-12)))
     fixed = np.full(a.size, np.nan)
@@ -255,7 +264,8 @@ def _search(p: _Problem):
         other, more = _search_pairs(p, rest)
         return other, count + more
     near = tuple(
-        (i, j) for i, j in p.lengths
+        (i, j)
+        for i, j in p.lengths
         if abs(i - best.n1) <= 2 and abs(j - best.n2) <= 2 and (i, j) not in coarse
     )
     other, more = _search_pairs(p, near)
@@ -287,8 +297,9 @@ def _search_pairs(p: _Problem, lengths):
         c = int(np.argmin(obj))
         if np.isfinite(obj[c]) and (best is None or obj[c] < best.objective):
             x = xp[c] + t[c] * nv[c]
-            best = _Best(float(obj[c]), n1, n2, int(a[c]), int(e[c]), x, s[c].copy(),
-                         dp[c] + t[c] * dn[c])
+            best = _Best(
+                float(obj[c]), n1, n2, int(a[c]), int(e[c]), x, s[c].copy(), dp[c] + t[c] * dn[c]
+            )
     return best, count
 
 
@@ -301,11 +312,13 @@ def _minimax_cell(p: _Problem, n1: int, n2: int, a: int, e: int):
     sa = slews_from_differences(cols, axis=0)  # slews of each column
     sm = slews_from_differences(p.m)
     # s = sm - sa x ; |s| <= tau
-    a_ub = np.vstack([
-        np.hstack([-sa, -np.ones((n, 1))]),  # sm - sa x <= tau
-        np.hstack([sa, -np.ones((n, 1))]),  # -(sm - sa x) <= tau
-        [[a, -1, 0, 0], [-(a + 1), 1, 0, 0], [e, 0, -1, 0], [-(e + 1), 0, 1, 0]],
-    ])
+    a_ub = np.vstack(
+        [
+            np.hstack([-sa, -np.ones((n, 1))]),  # sm - sa x <= tau
+            np.hstack([sa, -np.ones((n, 1))]),  # -(sm - sa x) <= tau
+            [[a, -1, 0, 0], [-(a + 1), 1, 0, 0], [e, 0, -1, 0], [-(e + 1), 0, 1, 0]],
+        ]
+    )
     b_ub = np.concatenate([-sm, sm, np.zeros(4)])
     a_eq = [np.append(cols.sum(axis=0), 0.0), np.append(idx @ cols, 0.0)]
     b_eq = [p.m.sum(), idx @ p.m]
@@ -368,8 +381,11 @@ def _smallest_limit(p: _Problem, shortlist: int = 12):
         ranked = _rank_minimax(free, coarse, 3)
         if ranked:
             n1, n2 = ranked[0][1], ranked[0][2]
-            near = tuple((i, j) for i, j in p.lengths
-                         if abs(i - n1) <= 2 and abs(j - n2) <= 2 and (i, j) not in coarse)
+            near = tuple(
+                (i, j)
+                for i, j in p.lengths
+                if abs(i - n1) <= 2 and abs(j - n2) <= 2 and (i, j) not in coarse
+            )
         else:
             near = tuple(q for q in p.lengths if q not in coarse)
         ranked = sorted(ranked + _rank_minimax(free, near, 3))

@@ -135,10 +135,12 @@ def design_realignment(
             f"is {gaps[i - 1]:g} from the one before"
         )
     if not m.sum() > 0:
-        raise ValueError("the measured versines must sum to more than 0 (versines are taken "
-                         "positive on the curve)")
+        raise ValueError(
+            "the measured versines must sum to more than 0 (versines are taken "
+            "positive on the curve)"
+        )
     hold_pairs = []
-    for station, slew in (dict(holds).items() if holds is not None else ()):
+    for station, slew in dict(holds).items() if holds is not None else ():
         i = int(round((float(station) - st[0]) / step))
         off = abs(st[0] + i * step - float(station))
         if not (0 <= i < st.size and off <= 1e-6 * max(step, 1.0)):
@@ -168,20 +170,45 @@ def design_realignment(
         return _result(st, c, m, best, p, count, True, tuple(binding), None, "")
     got = _smallest_limit(p)
     if got is None:
-        reason = ("no diagram in the search space closes and meets the hold points"
-                  + (" at the chosen radius" if central_versine is not None else ""))
+        reason = "no diagram in the search space closes and meets the hold points" + (
+            " at the chosen radius" if central_versine is not None else ""
+        )
         empty = np.array([])
-        return RealignDesign(st, c, m, empty, empty, math.nan, math.nan, math.nan, math.nan,
-                             math.nan, math.nan, math.nan, math.nan, math.nan, math.nan, False,
-                             holds_out, (), (), slew_limit, None, reason, count)
+        return RealignDesign(
+            st,
+            c,
+            m,
+            empty,
+            empty,
+            math.nan,
+            math.nan,
+            math.nan,
+            math.nan,
+            math.nan,
+            math.nan,
+            math.nan,
+            math.nan,
+            math.nan,
+            math.nan,
+            False,
+            holds_out,
+            (),
+            (),
+            slew_limit,
+            None,
+            reason,
+            count,
+        )
     tau, n1, n2, a, e, x = got
     n = m.size
     cu, cw, cz = _columns(n, np.array([float(a)]), np.array([float(e)]), n1, n2)
     d = x[0] * cu[0] + x[1] * cw[0] + x[2] * cz[0]
     s = slews_from_differences(m - d)
     b = _Best(float(s @ s), n1, n2, a, e, x, s, d)
-    reason = (f"no design keeps every slew within {slew_limit:g}; the smallest limit that "
-              f"works is {tau:.6g}")
+    reason = (
+        f"no design keeps every slew within {slew_limit:g}; the smallest limit that "
+        f"works is {tau:.6g}"
+    )
     return _result(st, c, m, b, p, count, False, (), tau, reason)
 
 

@@ -139,16 +139,28 @@ def _cell_minimax(m, n1, n2, a, e, holds):
             cu[k], cz[k] = -k / n2, 1 / n2
     cols = np.column_stack([cu, cw, cz])
     tc, tm = t @ cols, t @ m
-    a_ub = np.vstack([np.hstack([-tc, -np.ones((n, 1))]), np.hstack([tc, -np.ones((n, 1))]),
-                      [[a, -1, 0, 0], [-(a + 1), 1, 0, 0], [e, 0, -1, 0], [-(e + 1), 0, 1, 0]]])
+    a_ub = np.vstack(
+        [
+            np.hstack([-tc, -np.ones((n, 1))]),
+            np.hstack([tc, -np.ones((n, 1))]),
+            [[a, -1, 0, 0], [-(a + 1), 1, 0, 0], [e, 0, -1, 0], [-(e + 1), 0, 1, 0]],
+        ]
+    )
     b_ub = np.concatenate([-tm, tm, np.zeros(4)])
     a_eq = [np.append(cols.sum(0), 0), np.append(i @ cols, 0)]
     b_eq = [m.sum(), i @ m]
     for h, v in holds:
         a_eq.append(np.append(tc[h], 0))
         b_eq.append(tm[h] - v)
-    res = linprog([0, 0, 0, 1], A_ub=a_ub, b_ub=b_ub, A_eq=a_eq, b_eq=b_eq,
-                  bounds=[(0, None), (None, None), (None, None), (0, None)], method="highs")
+    res = linprog(
+        [0, 0, 0, 1],
+        A_ub=a_ub,
+        b_ub=b_ub,
+        A_eq=a_eq,
+        b_eq=b_eq,
+        bounds=[(0, None), (None, None), (None, None), (0, None)],
+        method="highs",
+    )
     return res.x[3] if res.status == 0 else np.inf
 
 
@@ -160,17 +172,22 @@ def test_infeasible_limit_gives_the_smallest_limit_checked_by_brute_force_lp():
     holds = [(7, 0.0)]
     brute = min(
         _cell_minimax(m, n1, n2, a, e, holds)
-        for n1 in (1, 2) for n2 in (1, 2) for a in range(n) for e in range(n)
+        for n1 in (1, 2)
+        for n2 in (1, 2)
+        for a in range(n)
+        for e in range(n)
         if a + n1 + 1 <= e - n2 and e <= n - 2
     )
     assert np.isfinite(brute)
-    r = design_realignment(st, m, CHORD, holds={st[7]: 0.0}, slew_limit=brute * 0.5,
-                           max_transition=2)
+    r = design_realignment(
+        st, m, CHORD, holds={st[7]: 0.0}, slew_limit=brute * 0.5, max_transition=2
+    )
     assert not r.feasible
     assert r.smallest_limit == pytest.approx(brute, rel=1e-6, abs=1e-9)
     assert "smallest limit" in r.reason
-    ok = design_realignment(st, m, CHORD, holds={st[7]: 0.0}, slew_limit=brute * (1 + 1e-6),
-                            max_transition=2)
+    ok = design_realignment(
+        st, m, CHORD, holds={st[7]: 0.0}, slew_limit=brute * (1 + 1e-6), max_transition=2
+    )
     assert ok.feasible and ok.max_slew <= brute * (1 + 1e-6) + 1e-9
 
 
