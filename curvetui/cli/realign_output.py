@@ -137,10 +137,11 @@ def _design_lines(design, units) -> list[str]:
         lines.append(f"Slew limit {s['slew_limit']:g} {cl}{reached}")
     for h in s["holds"]:
         binds = h["station"] in s["binding_holds"]
-        lines.append(
-            f"Hold at {h['station']:g} {ln}: slew {h['slew']:g} {cl} "
-            + ("(binds: the optimum moves without it)" if binds else "(does not bind)")
-        )
+        if not design.feasible:
+            state = "(not met)" if s["radius"] is None else "(met by the design below)"
+        else:
+            state = "(binds: the optimum moves without it)" if binds else "(does not bind)"
+        lines.append(f"Hold at {h['station']:g} {ln}: slew {h['slew']:g} {cl} {state}")
     return lines
 
 

@@ -249,16 +249,19 @@ def _candidates(p: _Problem, n1: int, n2: int):
 COARSE_ABOVE = 100  # more transition pairs than this: every other length first, then refine
 
 
-def _search(p: _Problem):
+def _search(p: _Problem, fallback: bool = True):
     """Least sum of squared slews; (best or None, cells searched).
 
     Up to COARSE_ABOVE pairs of transition lengths every pair is searched; above, every
-    other length first, then every pair within 2 of the best (every pair if none fits).
+    other length first, then every pair within 2 of the best (every pair if none fits and
+    ``fallback``).
     """
     if len(p.lengths) <= COARSE_ABOVE:
         return _search_pairs(p, p.lengths)
     coarse = tuple((i, j) for i, j in p.lengths if i % 2 == 1 and j % 2 == 1)
     best, count = _search_pairs(p, coarse)
+    if best is None and not fallback:
+        return None, count
     if best is None:
         rest = tuple(q for q in p.lengths if q not in coarse)
         other, more = _search_pairs(p, rest)
@@ -354,20 +357,45 @@ def _rank_minimax(p: _Problem, lengths, per_pair: int):
         # golden section on the convex max |s0 - t g| (to rank the cells only)
         left = np.where(np.isfinite(fixed), fixed, lo)
         right = np.where(np.isfinite(fixed), fixed, hi)
-        for _ in range(50):
-            t1 = right - ratio * (right - left)
-            t2 = left + ratio * (right - left)
-            f1 = np.max(np.abs(s0 - t1[:, None] * g), axis=1)
-            f2 = np.max(np.abs(s0 - t2[:, None] * g), axis=1)
+        t1 = right - ratio * (right - left)
+        t2 = left + ratio * (right - left)
+        f1 = np.max(np.abs(s0 - t1[:, None] * g), axis=1)
+        f2 = np.max(np.abs(s0 - t2[:, None] * g), axis=1)
+        for _ in range(25):  # ranking only: linprog gives the value; one evaluation a step
             lower = f1 <= f2
             right = np.where(lower, t2, right)
             left = np.where(lower, left, t1)
+            t_new = np.where(lower, right - ratio * (right - left), left + ratio * (right - left))
+            f_new = np.max(np.abs(s0 - t_new[:, None] * g), axis=1)
+            t1, t2, f1, f2 = (
+                np.where(lower, t_new, t2),
+                np.where(lower, t1, t_new),
+                np.where(lower, f_new, f2),
+                np.where(lower, f1, f_new),
+            )
         t = (left + right) / 2
         f = np.max(np.abs(s0 - t[:, None] * g), axis=1)
         for c in np.argsort(f)[:per_pair]:
             ranked.append((float(f[c]), n1, n2, int(a[c]), int(e[c])))
     ranked.sort()
     return ranked
+
+
+def _search_near_minimax(p: _Problem):
+    """With a slew limit no coarse pair meets: (best, cells searched, smallest-limit tuple).
+
+    The smallest limit that works is found first; under the given limit there is no design
+    when it is larger; else the pairs within 2 of its lengths are searched, then all."""
+    got = _smallest_limit(p)
+    if got is None or p.limit is None or got[0] > p.limit + SLEW_TOLERANCE:
+        return None, 0, got
+    n1, n2 = got[1], got[2]
+    near = tuple((i, j) for i, j in p.lengths if abs(i - n1) <= 2 and abs(j - n2) <= 2)
+    best, count = _search_pairs(p, near)
+    if best is None:
+        best, more = _search_pairs(p, p.lengths)
+        count += more
+    return best, count, got
 
 
 def _smallest_limit(p: _Problem, shortlist: int = 12):

@@ -52,6 +52,7 @@ from curvetui.core.versine_cells import (
     _lengths,
     _Problem,
     _search,
+    _search_near_minimax,
     _smallest_limit,
 )
 from curvetui.core.versine_realign import radius_for_versine, slews_from_differences
@@ -157,7 +158,11 @@ def design_realignment(
         raise ValueError("transitions must be two whole numbers of station spacings, 1 or more")
     lengths = _lengths(m.size, transitions, max_transition)
     p = _Problem(m, hold_pairs, slew_limit, central_versine, lengths)
-    best, count = _search(p)
+    best, count = _search(p, fallback=slew_limit is None)
+    got = None
+    if best is None and slew_limit is not None:
+        best, more, got = _search_near_minimax(p)
+        count += more
     holds_out = tuple((float(st[0] + i * step), v) for i, v in hold_pairs)
     if best is not None:
         binding = []
@@ -168,11 +173,18 @@ def design_realignment(
             if other is not None and other.objective < best.objective - margin:
                 binding.append(float(st[i]))
         return _result(st, c, m, best, p, count, True, tuple(binding), None, "")
-    got = _smallest_limit(p)
+    if got is None:
+        got = _smallest_limit(p)
     if got is None:
         reason = "no diagram in the search space closes and meets the hold points" + (
             " at the chosen radius" if central_versine is not None else ""
         )
+        if len(hold_pairs) > 1:
+            reason += (
+                f" (a transition - constant versine - transition diagram that closes has one "
+                f"free parameter for given breakpoints, so it meets one hold point in general; "
+                f"{len(hold_pairs)} are met only where the survey allows)"
+            )
         empty = np.array([])
         return RealignDesign(
             st,
