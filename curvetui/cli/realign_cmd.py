@@ -48,7 +48,7 @@ def add_parser(sub) -> None:
         "--transition",
         metavar="L1[,L2]",
         help="transition lengths (m or ft; whole multiples of half the chord); L2 = L1 if "
-        "not given; with --radius fixes the design's shape",
+        "not given (default: searched)",
     )
     p.add_argument(
         "--max-transition",
@@ -116,8 +116,6 @@ def run(args: argparse.Namespace) -> int:
         radius = _number("--radius", args.radius, 0.0, 1e6, ln)
         if radius <= chord / 2:
             raise InputError(f"--radius: must be more than half the chord ({chord / 2:g} {ln})")
-    if (radius is None) != (transitions is None):
-        raise InputError("--radius and --transition: give both (a chosen design) or neither")
     max_t = None
     if args.max_transition is not None:
         max_t = int(_number("--max-transition", args.max_transition, 0.0, 1e5, ln) // spacing)
@@ -179,7 +177,7 @@ def _output_path(output, survey: str):
 def _solve(survey, units, chord, holds, limit, radius, transitions, max_t):
     import numpy as np
 
-    from curvetui.core.versine_design import design_realignment
+    from curvetui.core.versine_design import RealignInputError, design_realignment
 
     st = np.asarray(survey.stations) * units.length
     m = np.asarray(survey.versines) * units.cant
@@ -187,7 +185,7 @@ def _solve(survey, units, chord, holds, limit, radius, transitions, max_t):
     v_c = None if radius is None else c**2 / (8.0 * radius * units.length)
     try:
         return design_realignment(st, m, c, holds, limit, v_c, transitions, max_t)
-    except ValueError as exc:
+    except RealignInputError as exc:
         raise InputError(f"survey: {exc}") from None
 
 

@@ -107,6 +107,25 @@ def report_json(design, rail, units) -> dict:
     }
 
 
+def infeasible_text(design, units) -> str:
+    """Why there is no design, in the user's units."""
+    cl = units.cant_label
+    if design.smallest_limit is None or design.slew_limit is None:
+        return design.reason
+    k = _decimals(units)
+    holds = " while meeting the hold points" if design.holds else ""
+    return (
+        f"no design keeps every slew within {design.slew_limit / units.cant:g} {cl}{holds}; "
+        f"the smallest limit that works is {fixed(design.smallest_limit / units.cant, k)} {cl}"
+        " (the design shown meets it)"
+    )
+
+
+def _length(x: float) -> str:
+    """A length as the report gives it: to 0.01, no trailing zeros."""
+    return f"{round(x, 2):g}"
+
+
 def _design_lines(design, units) -> list[str]:
     s = summary(design, units)
     ln, cl = units.length_label, units.cant_label
@@ -116,7 +135,7 @@ def _design_lines(design, units) -> list[str]:
         lines.append(
             f"Designed curve: R {s['radius']:.1f} {ln} (central versine "
             f"{s['central_versine']:.{k}f} {cl} on a {s['chord']:g} {ln} chord), transitions "
-            f"{s['transition_in']:g} and {s['transition_out']:g} {ln}"
+            f"{_length(s['transition_in'])} and {_length(s['transition_out'])} {ln}"
         )
         lines.append(
             f"Breakpoints: TS {s['ts']:.2f}, SC {s['sc']:.2f}, CS {s['cs']:.2f}, "
@@ -155,7 +174,7 @@ def print_report(design, rail, units, output) -> None:
     for line in _design_lines(design, units):
         out.print(markup(line))
     if not design.feasible:
-        out.print(f"[bold red]INFEASIBLE:[/] {markup(design.reason)}")
+        out.print(f"[bold red]INFEASIBLE:[/] {markup(infeasible_text(design, units))}")
     if rail is not None:
         out.print(
             f"Rail checks: [bold {'red' if rail.status == 'fail' else 'green'}]"
@@ -210,6 +229,6 @@ def csv_text(design, units, survey_path: str) -> str:
     for line in _design_lines(design, units):
         buf.write(f"# {line}\n")
     if not design.feasible:
-        buf.write(f"# INFEASIBLE: {design.reason}\n")
+        buf.write(f"# INFEASIBLE: {infeasible_text(design, units)}\n")
     buf.write(f"# {CAUTION}\n")
     return buf.getvalue()

@@ -36,6 +36,9 @@ class _Best:
     x: np.ndarray  # (u, w, z)
     slews: np.ndarray
     designed: np.ndarray
+    # (TS, SC, CS, ST) in spacings from the first station, when the transitions are not
+    # whole numbers of spacings (core.versine_free); None: from x, n1 and n2
+    breaks: tuple[float, float, float, float] | None = None
 
 
 def _columns(n: int, a, e, n1: int, n2: int):

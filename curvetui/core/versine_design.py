@@ -26,15 +26,18 @@ u >= 0. The slews s = S (m - d) are linear in x (core.versine_realign). The clos
 x = x_p + t n per cell; each hold point (station, slew) and a chosen radius are one more
 equation, and a slew limit |s_i| <= L two inequalities per station. The objective, the
 track engineer's usual aim, is the least sum of squared slews; on one cell it is a convex
-quadratic in t on an interval, minimised exactly. All cells with transitions up to
-``max_transition`` spacings are searched (the ST's cell near the one that puts the
-diagram's centroid on the survey's), and the best kept.
+quadratic in t on an interval, minimised exactly. The cells of every pair of transitions
+up to ``max_transition`` spacings are searched (above 100 pairs: odd lengths first, then
+every pair within 2 of the best), the ST's cell near the one that puts the diagram's
+centroid on the survey's, and the best kept.
 
-With the closure using two of three unknowns, a cell meets at most one hold point in
-general; more holds are met only where the survey happens to allow (a local versine
+With the closure using two of three unknowns, a cell meets one hold point in general.
+For two or three holds (or one hold and a chosen radius) the transitions may take any
+length (core.versine_free: five unknowns per cell, the cells near the best design without
+the holds); four or more holds are met only where the survey allows (a local versine
 correction at hold points is not offered). When no cell meets the holds and the limit,
 the smallest limit that works is min over cells of min max |s_i|, a linear program
-(scipy.optimize.linprog) solved on the best cells.
+(scipy.optimize.linprog) solved on the best-ranked cells.
 """
 
 from __future__ import annotations
@@ -55,9 +58,20 @@ from curvetui.core.versine_cells import (
     _search_near_minimax,
     _smallest_limit,
 )
+from curvetui.core.versine_free import free_search, free_smallest_limit
 from curvetui.core.versine_realign import radius_for_versine, slews_from_differences
 
-__all__ = ["DEFAULT_MAX_TRANSITION", "SLEW_TOLERANCE", "RealignDesign", "design_realignment"]
+__all__ = [
+    "DEFAULT_MAX_TRANSITION",
+    "SLEW_TOLERANCE",
+    "RealignDesign",
+    "RealignInputError",
+    "design_realignment",
+]
+
+
+class RealignInputError(ValueError):
+    """Input design_realignment cannot use (the message names it)."""
 
 
 @dataclass(frozen=True)
@@ -119,24 +133,24 @@ def design_realignment(
     m = np.asarray(measured, dtype=float)
     c = float(chord)
     if not (math.isfinite(c) and c > 0):
-        raise ValueError(f"chord must be a positive length; got {c:g}")
+        raise RealignInputError(f"chord must be a positive length; got {c:g}")
     if st.ndim != 1 or m.shape != st.shape:
-        raise ValueError("stations and measured versines must be 1-D arrays of one length")
+        raise RealignInputError("stations and measured versines must be 1-D arrays of one length")
     if st.size < 7:
-        raise ValueError(f"a survey needs at least 7 stations; got {st.size}")
+        raise RealignInputError(f"a survey needs at least 7 stations; got {st.size}")
     if not (np.all(np.isfinite(st)) and np.all(np.isfinite(m))):
-        raise ValueError("stations and versines must be finite numbers")
+        raise RealignInputError("stations and versines must be finite numbers")
     step = c / 2.0
     gaps = np.diff(st)
     bad = np.flatnonzero(np.abs(gaps - step) > 1e-6 * max(step, 1.0))
     if bad.size:
         i = int(bad[0]) + 1
-        raise ValueError(
+        raise RealignInputError(
             f"stations must be equally spaced at half the chord ({step:g}); station {i} "
             f"is {gaps[i - 1]:g} from the one before"
         )
     if not m.sum() > 0:
-        raise ValueError(
+        raise RealignInputError(
             "the measured versines must sum to more than 0 (versines are taken "
             "positive on the curve)"
         )
@@ -145,35 +159,50 @@ def design_realignment(
         i = int(round((float(station) - st[0]) / step))
         off = abs(st[0] + i * step - float(station))
         if not (0 <= i < st.size and off <= 1e-6 * max(step, 1.0)):
-            raise ValueError(f"hold point at {float(station):g} is not a station of the survey")
+            raise RealignInputError(
+                f"hold point at {float(station):g} is not a station of the survey"
+            )
         if not math.isfinite(float(slew)):
-            raise ValueError(f"hold point at {float(station):g}: the slew must be a number")
+            raise RealignInputError(f"hold point at {float(station):g}: the slew must be a number")
         hold_pairs.append((i, float(slew)))
     hold_pairs = tuple(sorted(dict(hold_pairs).items()))
     if slew_limit is not None and not (math.isfinite(slew_limit) and slew_limit > 0):
-        raise ValueError(f"slew limit must be a positive length; got {slew_limit:g}")
+        raise RealignInputError(f"slew limit must be a positive length; got {slew_limit:g}")
     if central_versine is not None and not (math.isfinite(central_versine) and central_versine > 0):
-        raise ValueError(f"central versine must be a positive length; got {central_versine:g}")
+        raise RealignInputError(
+            f"central versine must be a positive length; got {central_versine:g}"
+        )
     if transitions is not None and (len(transitions) != 2 or min(transitions) < 1):
-        raise ValueError("transitions must be two whole numbers of station spacings, 1 or more")
+        raise RealignInputError(
+            "transitions must be two whole numbers of station spacings, 1 or more"
+        )
     lengths = _lengths(m.size, transitions, max_transition)
     p = _Problem(m, hold_pairs, slew_limit, central_versine, lengths)
-    best, count = _search(p, fallback=slew_limit is None)
-    got = None
-    if best is None and slew_limit is not None:
-        best, more, got = _search_near_minimax(p)
-        count += more
+    free_ok = transitions is None
+    best, count, got = _solve(p, free_ok)
     holds_out = tuple((float(st[0] + i * step), v) for i, v in hold_pairs)
     if best is not None:
         binding = []
         margin = max(1e-15, 1e-9 * best.objective)
         for i, _ in hold_pairs:  # a hold binds when dropping it lowers the optimum
             rest = tuple(h for h in hold_pairs if h[0] != i)
-            other, _ = _search(_Problem(m, rest, slew_limit, central_versine, p.lengths))
+            other, _, _ = _solve(_Problem(m, rest, slew_limit, central_versine, p.lengths), free_ok)
             if other is not None and other.objective < best.objective - margin:
                 binding.append(float(st[i]))
         return _result(st, c, m, best, p, count, True, tuple(binding), None, "")
-    if got is None:
+    if got is None and _free_applies(p, free_ok):
+        centre = _centre(p)
+        tau = None if centre is None else free_smallest_limit(p, centre)
+        if tau is not None:
+            reason = (
+                f"no design keeps every slew within {slew_limit:g} while meeting the hold "
+                f"points; the smallest limit that works is {tau[0]:.6g}"
+            )
+            free = _Problem(m, hold_pairs, None, central_versine, lengths)
+            b, more = free_search(free, centre)
+            if b is not None:
+                return _result(st, c, m, b, p, count + more, False, (), tau[0], reason)
+    elif got is None:
         got = _smallest_limit(p)
     if got is None:
         reason = "no diagram in the search space closes and meets the hold points" + (
@@ -181,9 +210,9 @@ def design_realignment(
         )
         if len(hold_pairs) > 1:
             reason += (
-                f" (a transition - constant versine - transition diagram that closes has one "
-                f"free parameter for given breakpoints, so it meets one hold point in general; "
-                f"{len(hold_pairs)} are met only where the survey allows)"
+                " (a transition - constant versine - transition diagram that closes meets up "
+                "to three hold points in general; more, or holds that pull against each "
+                "other, only where the survey allows)"
             )
         empty = np.array([])
         return RealignDesign(
@@ -224,10 +253,44 @@ def design_realignment(
     return _result(st, c, m, b, p, count, False, (), tau, reason)
 
 
+def _free_applies(p: _Problem, free_ok: bool) -> bool:
+    """Two or three equations besides the closure (holds, a chosen radius): free lengths."""
+    extra = len(p.holds) + (p.u_fixed is not None)
+    return free_ok and 2 <= extra <= 3
+
+
+def _centre(p: _Problem):
+    """The cells (TS, SC, CS, ST) of the best whole-spacing design without holds or limit."""
+    best, _ = _search(_Problem(p.m, (), None, p.u_fixed, p.lengths))
+    if best is None:
+        return None
+    u, w, z = (float(v) for v in best.x)
+    ts, st = w / u, z / u
+    return tuple(math.floor(v) for v in (ts, ts + best.n1, st - best.n2, st))
+
+
+def _solve(p: _Problem, free_ok: bool):
+    """(best or None, cells searched, smallest-limit tuple or None)."""
+    if _free_applies(p, free_ok):
+        best, count = _search(p, fallback=False)
+        if best is None:
+            centre = _centre(p)
+            if centre is not None:
+                best, more = free_search(p, centre)
+                count += more
+        return best, count, None
+    best, count = _search(p, fallback=p.limit is None)
+    got = None
+    if best is None and p.limit is not None:
+        best, more, got = _search_near_minimax(p)
+        count += more
+    return best, count, got
+
+
 def _result(st, c, m, b: _Best, p: _Problem, count, feasible, binding, smallest, reason):
     step = c / 2.0
     u, w, z = (float(v) for v in b.x)
-    ts, stt = w / u, z / u
+    ts, sc, cs, stt = b.breaks or (w / u, w / u + b.n1, z / u - b.n2, z / u)
     s = b.slews
     hit = ()
     if p.limit is not None:
@@ -241,11 +304,11 @@ def _result(st, c, m, b: _Best, p: _Problem, count, feasible, binding, smallest,
         central_versine=u,
         radius=float(radius_for_versine(u, c)),
         ts=float(st[0] + ts * step),
-        sc=float(st[0] + (ts + b.n1) * step),
-        cs=float(st[0] + (stt - b.n2) * step),
+        sc=float(st[0] + sc * step),
+        cs=float(st[0] + cs * step),
         st=float(st[0] + stt * step),
-        transition_in=b.n1 * step,
-        transition_out=b.n2 * step,
+        transition_in=b.n1 * step if b.breaks is None else (sc - ts) * step,
+        transition_out=b.n2 * step if b.breaks is None else (stt - cs) * step,
         sum_squared_slews=float(s @ s),
         max_slew=float(np.max(np.abs(s))),
         feasible=feasible,

@@ -158,7 +158,7 @@ def test_output_never_over_the_survey(tmp_path, capsys):
         (["--chord", "12", "--hold", "25"], "--hold"),
         (["--chord", "12", "--hold", "24=x"], "--hold"),
         (["--chord", "12", "--slew-limit", "-1"], "--slew-limit"),
-        (["--chord", "12", "--radius", "600"], "--radius and --transition"),
+        (["--chord", "12", "--radius", "3"], "--radius"),
         (["--chord", "12", "--radius", "600", "--transition", "10"], "--transition"),
         (["--chord", "12", "--cant", "50"], "--cant: needs --speed"),
     ],

@@ -206,3 +206,63 @@ def test_bad_input_refused():
         design_realignment(st, m, CHORD, holds={13.0: 0.0})
     with pytest.raises(ValueError, match="more than 0"):
         design_realignment(st, -m, CHORD)
+
+
+def trapezoid_free(n, ts, sc, cs, st, u):
+    """Point versines of a diagram with breakpoints anywhere (stations, fractional)."""
+    i = np.arange(n, dtype=float)
+    return u * np.clip(np.minimum((i - ts) / (sc - ts), (st - i) / (st - cs)), 0.0, 1.0)
+
+
+def free_survey(n, breaks, radius, slews):
+    d = trapezoid_free(n, *breaks, CHORD**2 / (8 * radius))
+    y_track = offsets_from_versines(d) - np.concatenate(([0.0], slews, [0.0]))
+    return np.arange(n) * STEP, d, chord_versines(y_track)
+
+
+def test_three_holds_recover_transitions_of_any_length_exactly():
+    # transitions 6.5 and 7.75 spacings: not whole spacings, found by the free-length search;
+    # closure and three holds leave no free parameter, so the true design is the one found
+    n = 60
+    s = known_slews(n, 6, 52, 0.03)
+    st, d, m = free_survey(n, (10.0, 16.5, 40.25, 48.0), 900.0, s)
+    holds = {st[i]: s[i] for i in (15, 30, 44)}
+    r = design_realignment(st, m, CHORD, holds=holds, max_transition=10)
+    assert r.feasible
+    np.testing.assert_allclose(r.slews, s, rtol=0, atol=1e-9)
+    np.testing.assert_allclose(r.designed, d, rtol=0, atol=1e-12)
+    assert r.transition_in == pytest.approx(65.0, abs=1e-6)
+    assert r.transition_out == pytest.approx(77.5, abs=1e-6)
+    assert r.radius == pytest.approx(900.0, rel=1e-9)
+
+
+def test_two_holds_met_and_no_worse_than_the_true_slews():
+    # two holds leave one free parameter: the true design meets them, so the optimum's sum
+    # of squared slews is at most the true one's
+    n = 60
+    s = known_slews(n, 6, 52, 0.03)
+    st, d, m = free_survey(n, (10.0, 16.5, 40.25, 48.0), 900.0, s)
+    r = design_realignment(st, m, CHORD, holds={st[20]: s[20], st[35]: s[35]}, max_transition=10)
+    assert r.feasible
+    assert abs(r.slews[20] - s[20]) <= 1e-9 and abs(r.slews[35] - s[35]) <= 1e-9
+    assert r.sum_squared_slews <= float(s @ s) + 1e-15
+
+
+def test_two_holds_at_zero_met_and_the_limit_they_need():
+    n = 60
+    s = known_slews(n, 6, 52, 0.03)
+    st, d, m = free_survey(n, (10.0, 16.5, 40.25, 48.0), 900.0, s)
+    holds = {st[20]: 0.0, st[35]: 0.0}
+    r = design_realignment(st, m, CHORD, holds=holds, max_transition=10)
+    assert r.feasible
+    assert abs(r.slews[20]) <= 1e-9 and abs(r.slews[35]) <= 1e-9
+    e = r.measured - r.designed  # closes: sum and first moment of e vanish
+    assert abs(e.sum()) < 1e-12 and abs((np.arange(n) * e).sum()) < 1e-10
+    low = design_realignment(st, m, CHORD, holds=holds, slew_limit=0.2 * r.max_slew,
+                             max_transition=10)
+    assert not low.feasible and low.smallest_limit is not None
+    assert low.smallest_limit <= r.max_slew + 1e-12  # the least-squares design meets it
+    assert abs(low.slews[20]) <= 1e-9 and abs(low.slews[35]) <= 1e-9
+    ok = design_realignment(st, m, CHORD, holds=holds, slew_limit=low.smallest_limit * 1.001,
+                            max_transition=10)
+    assert ok.feasible and ok.max_slew <= low.smallest_limit * 1.001 + 1e-9
