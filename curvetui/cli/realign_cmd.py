@@ -109,7 +109,9 @@ def run(args: argparse.Namespace) -> int:
     holds = _holds(args.hold, survey.stations, units)
     limit = None
     if args.slew_limit is not None:
-        limit = _number("--slew-limit", args.slew_limit, 0.0, 1e4, cl) * units.cant
+        least = 0.01 if units.name == "metric" else 0.0005  # 0.01 mm, 0.0005 in
+        limit = _number("--slew-limit", args.slew_limit, least, 1e4, cl, lo_open=False)
+        limit *= units.cant
     transitions = _transitions(args.transition, spacing, ln)
     radius = None
     if args.radius is not None:
@@ -206,4 +208,16 @@ def _rail(args, design, units):
 
     limits = rail_limits(args.limits, units.name)
     raw = geo.raw_inputs(args, RAIL_KEYS)
+    _check_rail_options(raw, units, limits)
     return rail_verdict(design, raw, units, limits)
+
+
+def _check_rail_options(raw: dict, units, limits) -> None:
+    """The rail options given, checked on a curve of the largest radius allowed (so only
+    they can be at fault): InputError naming the option, exit code 2."""
+    from curvetui.bend.fields import BY_KEY
+    from curvetui.bend.service import evaluate_bend
+
+    trial = {**raw, "radius": BY_KEY["radius"].allowed("rail", units)[1]}
+    trial.setdefault("cant", 0)
+    evaluate_bend("rail", trial, units, None, limits)

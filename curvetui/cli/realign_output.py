@@ -138,8 +138,8 @@ def _design_lines(design, units) -> list[str]:
             f"{_length(s['transition_in'])} and {_length(s['transition_out'])} {ln}"
         )
         lines.append(
-            f"Breakpoints: TS {s['ts']:.2f}, SC {s['sc']:.2f}, CS {s['cs']:.2f}, "
-            f"ST {s['st']:.2f} {ln}"
+            f"Breakpoints: TS {fixed(s['ts'], 2)}, SC {fixed(s['sc'], 2)}, "
+            f"CS {fixed(s['cs'], 2)}, ST {fixed(s['st'], 2)} {ln}"
         )
         lines.append(
             f"Greatest slew {s['max_slew']:.{k}f} {cl}; sum of squared slews "
