@@ -39,6 +39,7 @@ def main() -> None:
     cases = {
         "free": {},
         "one hold": {"holds": {st[n // 2]: 0.0}},
+        "two holds": {"holds": {st[n // 2]: 0.0, st[2 * n // 3]: 0.0}},
         "limit binds": {"slew_limit": 0.97 * free.max_slew},
         "infeasible limit": {"slew_limit": 0.2 * free.max_slew},
     }

@@ -78,7 +78,7 @@ def summary(design, units) -> dict:
         "holds": [{"station": s / ln, "slew": v / c} for s, v in design.holds],
         "binding_holds": [s / ln for s in design.binding_holds],
         "binding_limit_stations": [s / ln for s in design.binding_limit_stations],
-        "reason": design.reason,
+        "reason": "" if design.feasible else infeasible_text(design, units),
     }
 
 

@@ -199,3 +199,23 @@ def test_us_units(tmp_path, capsys):
     got = json.loads(capsys.readouterr().out)
     assert [r["slew"] for r in got["slews"]] == pytest.approx(SLEWS, abs=1e-9)
     assert got["units"]["slew"] == "in"
+
+
+def test_hostile_file_name_cleaned_in_the_csv_comment(tmp_path, capsys):
+    rows = "".join(f"{6 * i},{v}\n" for i, v in enumerate(MEASURED))
+    path = write(tmp_path, "station,versine\n" + rows, name="=cmd|x\x1b[2J.csv")
+    out = tmp_path / "slews.csv"
+    assert main(["realign", path, "--chord", "12", "-o", str(out)]) == 0
+    text = out.read_text(encoding="utf-8")
+    assert "\x1b" not in text and "\x1b" not in capsys.readouterr().out
+    for line in text.splitlines():
+        assert not line.startswith(("=", "+", "-", "@"))
+
+
+def test_infeasible_json_in_user_units(capsys):
+    assert main(["realign", DEMO, "--chord", "20", "--slew-limit", "2", "--json"]) == 1
+    got = json.loads(capsys.readouterr().out)
+    assert got["design"]["feasible"] is False
+    assert got["design"]["smallest_limit"] > 2  # mm
+    assert "within 2 mm" in got["design"]["reason"]
+    assert got["status"] == "fail"
