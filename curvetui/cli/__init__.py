@@ -83,6 +83,10 @@ def build_parser(command: str | None = None) -> argparse.ArgumentParser:
         from curvetui.cli import landxml_cmd
 
         landxml_cmd.add_parser(sub)
+    if wanted("realign"):
+        from curvetui.cli import realign_cmd
+
+        realign_cmd.add_parser(sub)
     return parser
 
 

@@ -29,6 +29,7 @@ COMMANDS = {
     "crossfall",
     "design",
     "landxml",
+    "realign",
     "-h",
     "--help",
     "--version",
