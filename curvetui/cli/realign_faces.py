@@ -21,9 +21,7 @@ def add_options(p) -> None:
         help="write the realignment worksheet: FILE.pdf, FILE.txt or FILE.md (never over "
         "the survey; an existing file is replaced whole)",
     )
-    p.add_argument(
-        "--view", action="store_true", help="show the realignment in the terminal app"
-    )
+    p.add_argument("--view", action="store_true", help="show the realignment in the terminal app")
 
 
 def check_options(args) -> None:
@@ -33,9 +31,7 @@ def check_options(args) -> None:
     if sheet is not None:
         suffix = os.path.splitext(str(sheet))[1].lower()
         if sheet == "-" or suffix not in SHEET_SUFFIXES:
-            raise InputError(
-                f"--sheet: give a file name ending .pdf, .txt or .md; got {sheet!r}"
-            )
+            raise InputError(f"--sheet: give a file name ending .pdf, .txt or .md; got {sheet!r}")
         try:
             same = os.path.exists(sheet) and os.path.samefile(sheet, args.survey)
         except OSError:

@@ -103,9 +103,7 @@ def design_lines(design, units) -> list[Line]:
     else:
         out.append(Line("Slew limit", "none given"))
     if s["smallest_limit"] is not None:
-        out.append(
-            Line("Smallest limit that works", f"{fixed(s['smallest_limit'], k)} {cl}", True)
-        )
+        out.append(Line("Smallest limit that works", f"{fixed(s['smallest_limit'], k)} {cl}", True))
     binding = set(s["binding_holds"])
     for h in s["holds"]:
         if not design.feasible:

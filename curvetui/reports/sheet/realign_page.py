@@ -210,9 +210,7 @@ def make_pdf(s: RealignSheet, paper: str = "a4", details=None):
     else:
         pdf.set_font(FONT, "B", 8)
         pdf.set_text_color(*RED)
-        pdf.multi_cell(
-            0, 4, "No designed curve: no slew table.", new_x="LMARGIN", new_y="NEXT"
-        )
+        pdf.multi_cell(0, 4, "No designed curve: no slew table.", new_x="LMARGIN", new_y="NEXT")
         pdf.set_text_color(0, 0, 0)
     return pdf
 

@@ -56,6 +56,12 @@ def _md(text: str) -> str:
     return str(text).replace("|", "\\|").replace("\n", " ")
 
 
+def _md_row(x) -> str:
+    """A label-value row; a failing value in bold with FAIL before it."""
+    value = f"**FAIL: {_md(x.value)}**" if x.fail else _md(x.value)
+    return f"| {_md(x.label)} | {value} |"
+
+
 def render_markdown(s: RealignSheet) -> str:
     """The sheet in Markdown: the summary and rail tables, the slew table, the caution."""
     out = [
@@ -70,11 +76,9 @@ def render_markdown(s: RealignSheet) -> str:
         "| Item | Value |",
         "|---|---|",
     ]
-    for x in s.design:
-        out.append(f"| {_md(x.label)} | " + (f"**{_md(x.value)}**" if x.fail else _md(x.value)) + " |")
+    out += [_md_row(x) for x in s.design]
     out += ["", "## Rail checks of the designed curve", "", "| Item | Value |", "|---|---|"]
-    for x in s.rail:
-        out.append(f"| {_md(x.label)} | " + (f"**{_md(x.value)}**" if x.fail else _md(x.value)) + " |")
+    out += [_md_row(x) for x in s.rail]
     out += [f"\n- {_md(n)}" for n in s.notes]
     if s.keys:
         out += ["", "Key stations: " + ", ".join(f"{n} {v:.2f}" for n, v in s.keys)]
