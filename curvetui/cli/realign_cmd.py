@@ -138,9 +138,7 @@ def run(args: argparse.Namespace) -> int:
     if args.sheet is not None:
         realign_faces.write_sheet(args.sheet, design, rail, units, args.survey)
     if args.view:
-        code = realign_faces.run_view(design, rail, units, args.survey)
-        if code:
-            return code
+        return realign_faces.run_view(design, rail, units, args.survey)
     if args.json:
         from curvetui.cli.common import print_json
 

@@ -67,11 +67,14 @@ def write_sheet(path: str, design, rail, units, survey: str) -> None:
 
 
 def run_view(design, rail, units, survey: str) -> int:
-    """The realignment screen in its own app (escape or ctrl+q ends it)."""
+    """The realignment screen in its own app (escape or ctrl+q ends it). Exit code as the
+    command's: 1 when the design is infeasible or a rail check fails, 3 after a crash."""
     from curvetui.app.realign_screen import RealignApp
     from curvetui.cli.project_cmd import run_app
 
-    return run_app(RealignApp(design, rail, units, survey))
+    code = run_app(RealignApp(design, rail, units, survey))
+    failed = not design.feasible or (rail is not None and rail.status == "fail")
+    return code or (1 if failed else 0)
 
 
 def say_written(path: str) -> None:
