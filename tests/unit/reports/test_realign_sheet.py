@@ -118,7 +118,8 @@ def test_the_diagram_is_vector_lines(good):
     # a polyline through every station: a move then n - 1 line segments in a row (measured,
     # designed, slews); table borders are single segments
     n = good.stations.size
-    runs = re.findall(r"(?:-?[\d.]+ -?[\d.]+ l\s+){%d,}" % (n - 1), stream)
+    segment = r"-?[\d.]+ -?[\d.]+ l\s+"
+    runs = re.findall(f"(?:{segment}){{{n - 1},}}", stream)
     assert len(runs) >= 3
     assert not page.images
 
