@@ -67,6 +67,8 @@ def test_palette_action_on_a_rail_bend_with_a_survey_file(tmp_path):
         await pilot.pause()
         assert not isinstance(app.screen, RealignSurveyDialog)
         await go_to(app, pilot, "QS-01")
+        titles = [c.title for c in app.get_system_commands(app.screen)]
+        assert "Realign from a versine survey" in titles
         await pilot.press("f10")
         await pilot.pause()
         dialog = app.screen
