@@ -47,6 +47,7 @@ class CurveApp(StopsCleanly, KeyOrder):
         Binding("shift+f7", "propose_all", "Propose every bend", show=False),
         Binding("f9", "next_view", "Next view"),
         Binding("escape", "focus_list", "Bend list", show=False),
+        Binding("f10", "realign", "Realign (rail)", show=False),
         Binding("ctrl+q", "request_quit", "Quit", priority=True),
     ]
 
@@ -269,6 +270,22 @@ class CurveApp(StopsCleanly, KeyOrder):
 
         self.push_screen(ProposeAllDialog(items, report, units), done)
 
+    def action_realign(self) -> None:
+        """F10: a rail bend realigned from a versine survey (curvetui.app.realign_flow)."""
+        bend = self.current
+        if bend is None or bend.kind != "rail":
+            self.notify("Realignment is for a rail bend: select one first.", severity="warning")
+            return
+        from curvetui.app.dialogs.realign_survey import RealignSurveyDialog
+        from curvetui.app.realign_screen import RealignScreen
+
+        def done(sheet) -> None:
+            if sheet is not None:
+                self.push_screen(RealignScreen(sheet, f"of {bend.id}"))
+
+        self.project_screen.take_typed()
+        self.push_screen(RealignSurveyDialog(self.session, bend), done)
+
     def action_request_quit(self) -> None:
         self.project_screen.take_typed()
         if not self.session.dirty:
@@ -332,6 +349,11 @@ class CurveApp(StopsCleanly, KeyOrder):
             "Propose every bend",
             "Every bend's proposal in one list, applied as one step (shift+F7)",
             self.action_propose_all,
+        )
+        yield SystemCommand(
+            "Realign from a versine survey",
+            "A rail bend: slews, radius and cant from measured versines (F10)",
+            self.action_realign,
         )
         yield SystemCommand(
             "Undo proposal",

@@ -13,6 +13,7 @@ import math
 import os
 
 from curvetui.cli import geometry_opts as geo
+from curvetui.cli import realign_faces
 from curvetui.cli.common import add_units_option
 from curvetui.inputs import InputError
 
@@ -59,6 +60,7 @@ def add_parser(sub) -> None:
     add_units_option(p)
     p.add_argument("-o", "--output", help="write the slew table as CSV to this file")
     p.add_argument("--json", action="store_true", help="print one JSON object")
+    realign_faces.add_options(p)
     p.set_defaults(run=run)
 
 
@@ -124,6 +126,7 @@ def run(args: argparse.Namespace) -> int:
         if max_t < 1:
             raise InputError(f"--max-transition: at least half the chord ({spacing:g} {ln})")
     out_path = _output_path(args.output, args.survey)
+    realign_faces.check_options(args)
     design = _solve(survey, units, chord, holds, limit, radius, transitions, max_t)
     rail = _rail(args, design, units)
     from curvetui.cli.realign_output import csv_text, print_report, report_json
@@ -132,12 +135,18 @@ def run(args: argparse.Namespace) -> int:
         from curvetui.storage.files import atomic_write_text
 
         atomic_write_text(out_path, csv_text(design, units, args.survey))
+    if args.sheet is not None:
+        realign_faces.write_sheet(args.sheet, design, rail, units, args.survey)
+    if args.view:
+        return realign_faces.run_view(design, rail, units, args.survey)
     if args.json:
         from curvetui.cli.common import print_json
 
         print_json(report_json(design, rail, units))
     else:
         print_report(design, rail, units, args.output)
+        if args.sheet is not None:
+            realign_faces.say_written(args.sheet)
     failed = not design.feasible or (rail is not None and rail.status == "fail")
     return 1 if failed else 0
 
