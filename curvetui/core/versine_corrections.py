@@ -25,9 +25,13 @@ a linearly constrained least squares, solved on the null space of C (scipy.linal
 y = y_p + N z, then an ordinary least squares in z). With a slew limit L the same objective
 is minimised under |s_i| <= L (scipy.optimize.minimize, SLSQP, from the min-max design);
 the smallest limit that works is min max |s_i| under the same equations, a linear program
-in (y, tau) (scipy.optimize.linprog). The breakpoints of the best smooth design and those
+in (y, tau) (scipy.optimize.linprog). The corrections balance over each run of corrected
+stations (sum c = 0 and sum i c = 0 on the run: the practice's balancing pairs and
+triples), so the slews outside the runs are the smooth diagram's and the closure is the
+smooth diagram's. The breakpoints of the best smooth design and those
 shifted a whole spacing either way at each end (9 cells) are tried; the least objective
-(or, with no design under the limit, the least smallest limit) is kept.
+(or, with no design under the limit, the least smallest limit) is kept; with balancing
+only the cells whose smooth diagram closes remain (in general the given one).
 
 Computed in millimetres internally (better scaled); inputs and outputs in metres.
 """
@@ -80,7 +84,15 @@ def window_of(n: int, holds, window: int) -> np.ndarray:
     return np.array(sorted(got), dtype=int)
 
 
-def _system(m, holds, breaks, u_fixed, win):
+def clusters_of(win: np.ndarray) -> list[np.ndarray]:
+    """The window's runs of consecutive stations (positions in ``win``)."""
+    if win.size == 0:
+        return []
+    cuts = np.flatnonzero(np.diff(win) > 1) + 1
+    return np.split(np.arange(win.size), cuts)
+
+
+def _system(m, holds, breaks, u_fixed, win, balanced=True):
     """Matrices (mm): sm, B (s = sm - B y), C, f (C y = f), D (penalty diagonal)."""
     n = m.size
     idx = np.arange(n, dtype=float)
@@ -103,6 +115,13 @@ def _system(m, holds, breaks, u_fixed, win):
     for h, v in holds:
         c_rows.append(b[h])
         f.append(sm[h] - v * _MM)
+    first = 1 if u_fixed is None else 0
+    for run in clusters_of(win) if balanced else ():  # sum c = 0 and sum i c = 0 per run
+        for weights in (np.ones(run.size), win[run].astype(float)):
+            row = np.zeros(cols.shape[1])
+            row[first + run] = weights
+            c_rows.append(row)
+            f.append(0.0)
     return sm, b, np.array(c_rows), np.array(f), pen, cols, phi
 
 
@@ -215,7 +234,7 @@ def corrected_design(m, holds, breaks, u_fixed=None, limit=None, window=DEFAULT_
         fits = [t for t in systems if np.max(np.abs(t[2] - t[3] @ t[9])) <= lim + 1e-6]
         if fits:
             best = fits[0]
-            return _build(m, best, u_fixed, win, True, None, len(cells), weight)
+            return _build(m, best, u_fixed, win, True, None, len(cells), weight, len(holds))
         ranked = []
         for t in systems:
             mm_ = _minimax(t[2], t[3], t[4], t[5], u_fixed is None)
@@ -227,18 +246,20 @@ def corrected_design(m, holds, breaks, u_fixed=None, limit=None, window=DEFAULT_
         tau, t, y_lp = ranked[0]
         smallest = tau / _MM
         if tau > lim + 1e-6:
-            chosen = t[:9] + (y_lp, None)
-            return _build(m, chosen, u_fixed, win, False, smallest, len(cells), weight)
+            # the design shown: least objective with every slew within the smallest limit
+            y = _limited(t[2], t[3], t[4], t[5], t[6], weight, tau * (1 + 1e-9), y_lp)
+            chosen = t[:9] + (y, None)
+            return _build(m, chosen, u_fixed, win, False, smallest, len(cells), weight, len(holds))
         under = [r for r in ranked if r[0] <= lim + 1e-6]
         under.sort(key=lambda r: r[1][0])
         tau, t, y_lp = under[0]
         y = _limited(t[2], t[3], t[4], t[5], t[6], weight, lim, y_lp)
         chosen = t[:9] + (y, None)
-        return _build(m, chosen, u_fixed, win, True, smallest, len(cells), weight)
-    return _build(m, systems[0], u_fixed, win, True, None, len(cells), weight)
+        return _build(m, chosen, u_fixed, win, True, smallest, len(cells), weight, len(holds))
+    return _build(m, systems[0], u_fixed, win, True, None, len(cells), weight, len(holds))
 
 
-def _build(m, t, u_fixed, win, feasible, smallest, count, weight) -> Corrected:
+def _build(m, t, u_fixed, win, feasible, smallest, count, weight, n_holds) -> Corrected:
     obj_, q, sm, b, c_mat, f, pen, cols, phi, y, lam = t
     n = m.size
     c = np.zeros(n)
@@ -253,7 +274,7 @@ def _build(m, t, u_fixed, win, feasible, smallest, count, weight) -> Corrected:
     obj = float(s @ s + weight * c @ c)
     binding = ()
     if lam is not None:
-        hold_lam = np.abs(lam[2:])
+        hold_lam = np.abs(lam[2 : 2 + n_holds])
         scale = 1e-9 * max(obj * _MM * _MM, 1e-12)
         binding = tuple(int(j) for j in np.flatnonzero(hold_lam * 1.0 > scale))
     return Corrected(

@@ -294,8 +294,14 @@ def _smooth(st, c, m, p, hold_pairs, slew_limit, central_versine, lengths, free_
 
 def _corrected(st, c, m, p: _Problem, window: int, count: int):
     """The design with local corrections at the holds, on the breakpoints of the best
-    smooth design without holds or limit; None when there is none."""
-    base, more = _search(_Problem(m, (), None, p.u_fixed, p.lengths))
+    smooth design without holds (within the limit if one is, else without); None when
+    there is none."""
+    base, more = None, 0
+    if p.limit is not None:  # the best smooth design within the limit, if any
+        base, more = _search(_Problem(m, (), p.limit, p.u_fixed, p.lengths), fallback=False)
+    if base is None:
+        base, extra = _search(_Problem(m, (), None, p.u_fixed, p.lengths))
+        more += extra
     if base is None:
         return None
     u, w, z = (float(v) for v in base.x)
