@@ -181,8 +181,14 @@ def _limited(sm, b, c_mat, f, pen, weight, limit_mm, y0):
         {"type": "ineq", "fun": lambda z: limit_mm - (s0 - bn @ z), "jac": lambda z: bn},
         {"type": "ineq", "fun": lambda z: limit_mm + (s0 - bn @ z), "jac": lambda z: -bn},
     ]
-    res = minimize(fun, np.zeros(nsp.shape[1]), jac=True, method="SLSQP", constraints=cons,
-                   options={"maxiter": 200, "ftol": 1e-12})
+    res = minimize(
+        fun,
+        np.zeros(nsp.shape[1]),
+        jac=True,
+        method="SLSQP",
+        constraints=cons,
+        options={"maxiter": 200, "ftol": 1e-12},
+    )
     y = y0 + nsp @ res.x
     if np.max(np.abs(sm - b @ y)) > limit_mm + SLEW_TOLERANCE * _MM:
         return y0
@@ -201,8 +207,9 @@ def _cells_around(n: int, breaks):
     return out
 
 
-def corrected_design(m, holds, breaks, u_fixed=None, limit=None, window=DEFAULT_WINDOW,
-                     weight=DEFAULT_WEIGHT) -> Corrected | None:
+def corrected_design(
+    m, holds, breaks, u_fixed=None, limit=None, window=DEFAULT_WINDOW, weight=DEFAULT_WEIGHT
+) -> Corrected | None:
     """The design with local corrections near ``breaks`` (see the module docstring).
 
     ``m`` measured versines [m]; ``holds`` (index, slew [m]) pairs; ``breaks`` the smooth

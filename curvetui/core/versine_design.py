@@ -296,14 +296,13 @@ def _corrected(st, c, m, p: _Problem, window: int, count: int):
     """The design with local corrections at the holds, on the breakpoints of the best
     smooth design without holds (within the limit if one is, else without); None when
     there is none."""
-    base, more = None, 0
-    if p.limit is not None:  # the best smooth design within the limit, if any
-        base, more = _search(_Problem(m, (), p.limit, p.u_fixed, p.lengths), fallback=False)
-    if base is None:
-        base, extra = _search(_Problem(m, (), None, p.u_fixed, p.lengths))
-        more += extra
+    base, more = _search(_Problem(m, (), None, p.u_fixed, p.lengths))
     if base is None:
         return None
+    if p.limit is not None and float(np.max(np.abs(base.slews))) > p.limit:
+        # the best smooth design within the limit instead, if the coarse pass finds one
+        within, extra = _search(_Problem(m, (), p.limit, p.u_fixed, p.lengths), fallback=False)
+        base, more = within or base, more + extra
     u, w, z = (float(v) for v in base.x)
     breaks = base.breaks or (w / u, w / u + base.n1, z / u - base.n2, z / u)
     return corrected_result(RealignDesign, st, c, m, p, breaks, window, count + more)

@@ -89,4 +89,3 @@ def corrected_result(design_cls, st, c, m, p, breaks, window: int, count: int):
         corrections=corr,
         correction_window=window,
     )
-

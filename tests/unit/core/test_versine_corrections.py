@@ -50,10 +50,12 @@ def survey(n=60, ts=10, n1=6, n2=8, st=48, radius=800.0, amp=0.02):
 def smooth_diagram(design, n):
     """u * trapezoid from the reported breakpoints (stations -> spacings)."""
     i = np.arange(n, dtype=float)
-    ts, sc, cs, st = ((x - design.stations[0]) / STEP for x in
-                      (design.ts, design.sc, design.cs, design.st))
-    return design.central_versine * np.clip(np.minimum((i - ts) / (sc - ts), (st - i) / (st - cs)),
-                                            0.0, 1.0), (ts, sc, cs, st)
+    ts, sc, cs, st = (
+        (x - design.stations[0]) / STEP for x in (design.ts, design.sc, design.cs, design.st)
+    )
+    return design.central_versine * np.clip(
+        np.minimum((i - ts) / (sc - ts), (st - i) / (st - cs)), 0.0, 1.0
+    ), (ts, sc, cs, st)
 
 
 def window_mask(n, hold_idx):
@@ -112,8 +114,7 @@ def test_infeasible_limit_smallest_limit_by_independent_linprog():
     st, m = survey()
     holds = {st[i]: 0.0 for i in range(24, 30)}
     free = design_realignment(st, m, CHORD, holds, corrections=True)
-    r = design_realignment(st, m, CHORD, holds, slew_limit=0.3 * free.max_slew,
-                           corrections=True)
+    r = design_realignment(st, m, CHORD, holds, slew_limit=0.3 * free.max_slew, corrections=True)
     assert not r.feasible and r.smallest_limit is not None
     assert "even with local versine corrections" in r.reason
     n = m.size
@@ -138,8 +139,15 @@ def test_infeasible_limit_smallest_limit_by_independent_linprog():
         for w in (np.isin(win, run).astype(float), np.where(np.isin(win, run), win, 0.0)):
             a_eq.append(np.r_[0.0, w, 0.0])
             b_eq.append(0.0)
-    res = linprog(np.r_[np.zeros(k), 1.0], A_ub=a_ub, b_ub=b_ub, A_eq=np.array(a_eq), b_eq=b_eq,
-                  bounds=[(0, None)] + [(None, None)] * win.size + [(0, None)], method="highs")
+    res = linprog(
+        np.r_[np.zeros(k), 1.0],
+        A_ub=a_ub,
+        b_ub=b_ub,
+        A_eq=np.array(a_eq),
+        b_eq=b_eq,
+        bounds=[(0, None)] + [(None, None)] * win.size + [(0, None)],
+        method="highs",
+    )
     assert res.status == 0
     assert r.smallest_limit == pytest.approx(res.x[-1], rel=1e-6)
     # the design shown meets the holds and the closure with that greatest slew
@@ -147,8 +155,9 @@ def test_infeasible_limit_smallest_limit_by_independent_linprog():
     assert np.max(np.abs(s_all[hold_idx])) <= 1e-9 and abs(s_all[-1]) <= 1e-9
     assert np.max(np.abs(s_all)) == pytest.approx(res.x[-1], rel=1e-6)
     # and that limit is met
-    ok = design_realignment(st, m, CHORD, holds, slew_limit=r.smallest_limit * (1 + 1e-6),
-                            corrections=True)
+    ok = design_realignment(
+        st, m, CHORD, holds, slew_limit=r.smallest_limit * (1 + 1e-6), corrections=True
+    )
     assert ok.feasible and ok.max_slew <= r.smallest_limit * (1 + 1e-6) + 1e-9
 
 
