@@ -34,8 +34,10 @@ centroid on the survey's, and the best kept.
 With the closure using two of three unknowns, a cell meets one hold point in general.
 For two or three holds (or one hold and a chosen radius) the transitions may take any
 length (core.versine_free: five unknowns per cell, the cells near the best design without
-the holds); four or more holds are met only where the survey allows (a local versine
-correction at hold points is not offered). When no cell meets the holds and the limit,
+the holds); four or more holds are met only where the survey allows. With
+``corrections=True``, when the smooth diagram cannot meet the holds (or the limit with them),
+local versine corrections near the holds are added to the best smooth diagram without the
+holds (core.versine_corrections, core.versine_holds). When no cell meets the holds and the limit,
 the smallest limit that works is min over cells of min max |s_i|, a linear program
 (scipy.optimize.linprog) solved on the best-ranked cells.
 """
