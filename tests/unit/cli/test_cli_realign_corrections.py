@@ -43,38 +43,40 @@ def holds():
 def test_platform_met_with_corrections_by_default(tmp_path, capsys):
     path = survey_file(tmp_path)
     out = tmp_path / "slews.csv"
-    code = main(["realign", path, "--chord", "20", *holds(), "-o", str(out)])
-    text = capsys.readouterr().out
-    assert code == 0
-    assert "include local versine corrections" in text and "correction mm" in text
-    with open(out, encoding="utf-8") as f:
-        rows = [r for r in csv.reader(f) if r and not r[0].startswith("#")]
-    assert rows[0][-1] == "correction_mm"
-    table = np.array([[float(v) for v in r[:4]] + [float(r[5])] for r in rows[1:]])
-    st, m, d, s, c = table.T
-    # the slews by the recurrence written out, from the CSV's measured and designed
-    prev, cur, mine = 0.0, 0.0, [0.0]
-    for ei in m - d:
-        prev, cur = cur, 2 * ei + 2 * cur - prev
-        mine.append(cur)
-    # CSV to 0.01 mm: the recurrence multiplies rounding by up to ~2 n^2 / 4 at the end
-    assert np.max(np.abs(np.array(mine[:-1]) - s)) < 0.01 * 60**2
-    # the unrounded JSON slews against the recurrence on the JSON's versines
-    assert main(["realign", path, "--chord", "20", *holds(), "--json"]) == 0
+    code = main(["realign", path, "--chord", "20", *holds(), "-o", str(out), "--json"])
     got = json.loads(capsys.readouterr().out)
+    assert code == 0 and got["status"] == "pass"
     assert got["design"]["corrections_allowed"] is True and got["design"]["correction_window"] == 2
+    # the unrounded JSON slews against the recurrence on the JSON's versines (mm)
     e = [r["measured"] - r["designed"] for r in got["slews"]]
     prev, cur, mine = 0.0, 0.0, [0.0]
     for ei in e:
         prev, cur = cur, 2 * ei + 2 * cur - prev
         mine.append(cur)
     assert np.allclose(mine[:-1], [r["slew"] for r in got["slews"]], atol=1e-6)
-    assert abs(mine[-1]) < 1e-6 and abs(mine[-2]) < 1e-6  # closes (mm)
+    assert abs(mine[-1]) < 1e-6 and abs(mine[-2]) < 1e-6  # closes
     assert all(abs(r["slew"]) < 1e-6 for r in got["slews"] if r["station"] in PLATFORM)
+    with open(out, encoding="utf-8") as f:
+        lines = f.read().splitlines()
+    assert any("include local versine corrections" in x for x in lines if x.startswith("#"))
+    rows = list(csv.reader(x for x in lines if x and not x.startswith("#")))
+    assert rows[0][-1] == "correction_mm"
+    table = np.array([[float(v) for v in r[:4]] + [float(r[5])] for r in rows[1:]])
+    st, m, d, s, c = table.T
     held = np.isin(st, PLATFORM)
     assert np.all(np.abs(s[held]) <= 0.005)  # held at 0 (to the CSV's 0.01 mm)
     near = np.any([np.abs(st - h) <= 20 for h in PLATFORM], axis=0)
     assert np.all(c[~near] == 0) and np.max(np.abs(c[near])) > 0.1
+    json_c = np.array([r["correction"] for r in got["slews"]])
+    assert np.allclose(c, json_c, atol=0.005)
+
+
+def test_text_report_says_so(tmp_path, capsys):
+    path = survey_file(tmp_path)
+    assert main(["realign", path, "--chord", "20", *holds(), "--transition", "60,80"]) == 0
+    text = capsys.readouterr().out
+    assert "include local versine corrections" in text and "correction mm" in text
+    assert "met with local corrections" in text
 
 
 def test_no_corrections_refuses(tmp_path, capsys):

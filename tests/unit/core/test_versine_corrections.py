@@ -165,3 +165,14 @@ def test_bad_window_named():
     st, m = survey()
     with pytest.raises(ValueError, match="correction window"):
         design_realignment(st, m, CHORD, {st[20]: 0.0}, corrections=True, correction_window=0)
+
+
+def test_bridge_at_a_chosen_radius_keeps_it():
+    st, m = survey()
+    holds = {st[18]: 0.0, st[33]: 0.0}
+    v = CHORD**2 / (8 * 800.0)  # R 800 m on a 20 m chord: 62.5 mm (by hand)
+    r = design_realignment(
+        st, m, CHORD, holds, central_versine=v, transitions=(6, 8), corrections=True
+    )
+    assert r.feasible and r.central_versine == v
+    check_design(r, st, m, holds)
