@@ -28,10 +28,9 @@ the smallest limit that works is min max |s_i| under the same equations, a linea
 in (y, tau) (scipy.optimize.linprog). The corrections balance over each run of corrected
 stations (sum c = 0 and sum i c = 0 on the run: the practice's balancing pairs and
 triples), so the slews outside the runs are the smooth diagram's and the closure is the
-smooth diagram's. The breakpoints of the best smooth design and those
-shifted a whole spacing either way at each end (9 cells) are tried; the least objective
-(or, with no design under the limit, the least smallest limit) is kept; with balancing
-only the cells whose smooth diagram closes remain (in general the given one).
+smooth diagram's. The breakpoints are those of the best smooth design
+without the holds (within the limit when one is): with balanced corrections only a smooth
+diagram that closes by itself can be kept, so other cells are not tried.
 
 Computed in millimetres internally (better scaled); inputs and outputs in metres.
 """
@@ -128,7 +127,7 @@ def _system(m, holds, breaks, u_fixed, win, balanced=True):
 def _ls(sm, b, c_mat, f, pen, weight):
     """Least sum s^2 + weight sum c^2 with C y = f: (y, multipliers) or None."""
     y_p = lstsq(c_mat, f)[0]
-    if np.max(np.abs(c_mat @ y_p - f)) > 1e-9 * (1.0 + np.max(np.abs(f))):
+    if np.max(np.abs(c_mat @ y_p - f) - 1e-13 * np.abs(f)) > 1e-6:  # mm (mm x stations)
         return None
     nsp = null_space(c_mat)
     a = np.vstack([b, np.sqrt(weight) * np.diag(np.sqrt(pen))])
@@ -195,18 +194,6 @@ def _limited(sm, b, c_mat, f, pen, weight, limit_mm, y0):
     return y
 
 
-def _cells_around(n: int, breaks):
-    """The breakpoints and those shifted a whole spacing either way at each end."""
-    ts, sc, cs, st = breaks
-    out = []
-    for da in (0, -1, 1):
-        for de in (0, -1, 1):
-            q = (ts + da, sc + da, cs + de, st + de)
-            if q[0] >= 0 and q[1] < q[2] and q[3] <= n - 1 and q[1] > q[0] and q[3] > q[2]:
-                out.append(q)
-    return out
-
-
 def corrected_design(
     m, holds, breaks, u_fixed=None, limit=None, window=DEFAULT_WINDOW, weight=DEFAULT_WEIGHT
 ) -> Corrected | None:
@@ -220,7 +207,7 @@ def corrected_design(
     n = m.size
     win = window_of(n, holds, window)
     best = None
-    cells = _cells_around(n, breaks)
+    cells = [tuple(float(v) for v in breaks)]  # balanced: only a closing smooth diagram
     systems = []
     for q in cells:
         sm, b, c_mat, f, pen, cols, phi = _system(m, holds, q, u_fixed, win)
