@@ -30,7 +30,10 @@ def add_parser(sub) -> None:
         description="Read a survey CSV (header station,versine; stations half a chord "
         "apart, in m or ft; versines in mm or in, positive on the curve), design a "
         "transition - constant versine - transition diagram whose slews close (zero at both "
-        "ends) with the least sum of squared slews, meeting --hold points and --slew-limit, "
+        "ends) with the least sum of squared slews, meeting --hold points and --slew-limit "
+        "(where the smooth diagram cannot meet the holds, with local versine corrections "
+        "within 2 stations of each hold, balanced so the slews elsewhere are the smooth "
+        "diagram's; --no-corrections refuses them), "
         "and give the slew at every station (+ out, away from the curve's centre). With "
         "--speed, the designed curve's cant, deficiency and excess and its transitions are "
         "checked against the rail limits.",
@@ -45,6 +48,12 @@ def add_parser(sub) -> None:
         help="a station whose slew is fixed: 0 (default) or SLEW (mm or in); repeat it",
     )
     p.add_argument("--slew-limit", help="largest slew allowed either way (mm or in)")
+    p.add_argument(
+        "--no-corrections",
+        action="store_true",
+        help="never add local versine corrections at the holds (by default they are added "
+        "only when the smooth diagram cannot meet the holds or the limit with them)",
+    )
     p.add_argument(
         "--transition",
         metavar="L1[,L2]",
@@ -127,7 +136,9 @@ def run(args: argparse.Namespace) -> int:
             raise InputError(f"--max-transition: at least half the chord ({spacing:g} {ln})")
     out_path = _output_path(args.output, args.survey)
     realign_faces.check_options(args)
-    design = _solve(survey, units, chord, holds, limit, radius, transitions, max_t)
+    design = _solve(
+        survey, units, chord, holds, limit, radius, transitions, max_t, not args.no_corrections
+    )
     rail = _rail(args, design, units)
     from curvetui.cli.realign_output import csv_text, print_report, report_json
 
@@ -139,11 +150,20 @@ def run(args: argparse.Namespace) -> int:
         realign_faces.write_sheet(args.sheet, design, rail, units, args.survey)
     if args.view:
         return realign_faces.run_view(design, rail, units, args.survey)
+    refused = args.no_corrections and bool(holds) and not design.feasible
     if args.json:
         from curvetui.cli.common import print_json
 
-        print_json(report_json(design, rail, units))
+        got = report_json(design, rail, units)
+        got["design"]["corrections_allowed"] = not args.no_corrections
+        print_json(got)
     else:
+        if refused:
+            from curvetui.cli.common import console
+
+            console().print(
+                "Local versine corrections at the holds were not tried (--no-corrections)."
+            )
         print_report(design, rail, units, args.output)
         if args.sheet is not None:
             realign_faces.say_written(args.sheet)
@@ -185,7 +205,7 @@ def _output_path(output, survey: str):
     return output
 
 
-def _solve(survey, units, chord, holds, limit, radius, transitions, max_t):
+def _solve(survey, units, chord, holds, limit, radius, transitions, max_t, corrections=False):
     import numpy as np
 
     from curvetui.core.versine_design import RealignInputError, design_realignment
@@ -195,7 +215,9 @@ def _solve(survey, units, chord, holds, limit, radius, transitions, max_t):
     c = chord * units.length
     v_c = None if radius is None else c**2 / (8.0 * radius * units.length)
     try:
-        return design_realignment(st, m, c, holds, limit, v_c, transitions, max_t)
+        return design_realignment(
+            st, m, c, holds, limit, v_c, transitions, max_t, corrections=corrections
+        )
     except RealignInputError as exc:
         raise InputError(f"survey: {exc}") from None
 

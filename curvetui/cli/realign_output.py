@@ -53,6 +53,32 @@ def rows(design, units) -> list[tuple[float, float, float, float, str]]:
     return out
 
 
+def corrections_by_row(design, units) -> list[float] | None:
+    """The local versine correction at every station (user units, 0 outside the windows);
+    None when the design has none."""
+    corr = getattr(design, "corrections", ())
+    if not corr or not design.designed.size:
+        return None
+    by = {round(float(st), 9): float(v) for st, v in corr}
+    return [by.get(round(float(st), 9), 0.0) / units.cant for st in design.stations]
+
+
+def corrections_line(design, units) -> str:
+    """One sentence: the designed versines include local corrections (largest, where)."""
+    corr = getattr(design, "corrections", ())
+    if not corr:
+        return ""
+    k = _decimals(units)
+    st, v = max(corr, key=lambda q: abs(q[1]))
+    return (
+        "The designed versines include local versine corrections at the holds (the smooth "
+        f"diagram alone cannot meet them): {len(corr)} stations within "
+        f"{design.correction_window} of each hold, balanced so the slews elsewhere are the "
+        f"smooth diagram's; largest {fixed(v / units.cant, k)} {units.cant_label} at "
+        f"{st / units.length:g} {units.length_label} (common practice, no source)"
+    )
+
+
 def summary(design, units) -> dict:
     """The design's figures in user units (None where there is no design)."""
     ln, c = units.length, units.cant
@@ -79,12 +105,21 @@ def summary(design, units) -> dict:
         "binding_holds": [s / ln for s in design.binding_holds],
         "binding_limit_stations": [s / ln for s in design.binding_limit_stations],
         "reason": "" if design.feasible else infeasible_text(design, units),
+        "corrections": [
+            {"station": st_ / ln, "correction": v / c}
+            for st_, v in getattr(design, "corrections", ())
+        ],
+        "correction_window": getattr(design, "correction_window", 0),
     }
 
 
 def report_json(design, rail, units) -> dict:
     """One JSON object: units, the design, the table, the rail record, the caution."""
     table = [dict(zip(COLUMNS, r, strict=True)) for r in rows(design, units)]
+    corr = corrections_by_row(design, units)
+    if corr is not None:
+        for row, v in zip(table, corr, strict=True):
+            row["correction"] = v
     return {
         "units": {
             "station": units.length_label,
@@ -114,6 +149,8 @@ def infeasible_text(design, units) -> str:
         return design.reason
     k = _decimals(units)
     holds = " while meeting the hold points" if design.holds else ""
+    if getattr(design, "corrections", ()):
+        holds += ", even with local versine corrections at the holds"
     return (
         f"no design keeps every slew within {design.slew_limit / units.cant:g} {cl}{holds}; "
         f"the smallest limit that works is {fixed(design.smallest_limit / units.cant, k)} {cl}"
@@ -158,9 +195,13 @@ def _design_lines(design, units) -> list[str]:
         binds = h["station"] in s["binding_holds"]
         if not design.feasible:
             state = "(not met)" if s["radius"] is None else "(met by the design below)"
+        elif getattr(design, "corrections", ()):
+            state = "(met with local corrections)"
         else:
             state = "(binds: the optimum moves without it)" if binds else "(does not bind)"
         lines.append(f"Hold at {h['station']:g} {ln}: slew {h['slew']:g} {cl} {state}")
+    if corrections_line(design, units):
+        lines.append(corrections_line(design, units))
     return lines
 
 
@@ -202,8 +243,12 @@ def print_report(design, rail, units, output) -> None:
         for c, j in zip(COLUMNS, ("right", "right", "right", "right", "left"), strict=True):
             unit = {"station": units.length_label, "direction": ""}.get(c, units.cant_label)
             t.add_column(f"{c} {unit}".strip(), justify=j)
-        for st, m, d, s, dr in rows(design, units):
-            t.add_row(f"{st:g}", fixed(m, k), fixed(d, k), fixed(s, k), dr)
+        corr = corrections_by_row(design, units)
+        if corr is not None:
+            t.add_column(f"correction {units.cant_label}", justify="right")
+        for j, (st, m, d, s, dr) in enumerate(rows(design, units)):
+            extra = () if corr is None else (fixed(corr[j], k),)
+            t.add_row(f"{st:g}", fixed(m, k), fixed(d, k), fixed(s, k), dr, *extra)
         out.print(t)
     if output is not None:
         out.print(f"Slew table written: {markup(output)}")
@@ -218,9 +263,12 @@ def csv_text(design, units, survey_path: str) -> str:
     ln, cl = units.length_label, units.cant_label
     buf = io.StringIO()
     w = csv.writer(buf, lineterminator="\n")
-    w.writerow([f"station_{ln}", f"measured_{cl}", f"designed_{cl}", f"slew_{cl}", "direction"])
-    for st, m, d, s, dr in rows(design, units):
-        w.writerow([f"{st:.4f}", fixed(m, k + 1), fixed(d, k + 1), fixed(s, k + 1), dr])
+    corr = corrections_by_row(design, units)  # a column only when there are corrections
+    head = [f"station_{ln}", f"measured_{cl}", f"designed_{cl}", f"slew_{cl}", "direction"]
+    w.writerow(head + ([] if corr is None else [f"correction_{cl}"]))
+    for j, (st, m, d, s, dr) in enumerate(rows(design, units)):
+        extra = [] if corr is None else [fixed(corr[j], k + 1)]
+        w.writerow([f"{st:.4f}", fixed(m, k + 1), fixed(d, k + 1), fixed(s, k + 1), dr, *extra])
     name = neutral_text(clean(survey_path, one_line=True))
     buf.write(
         f"# survey {name}; chord {design.chord / units.length:g} {ln}; stations in "

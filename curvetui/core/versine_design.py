@@ -34,8 +34,10 @@ centroid on the survey's, and the best kept.
 With the closure using two of three unknowns, a cell meets one hold point in general.
 For two or three holds (or one hold and a chosen radius) the transitions may take any
 length (core.versine_free: five unknowns per cell, the cells near the best design without
-the holds); four or more holds are met only where the survey allows (a local versine
-correction at hold points is not offered). When no cell meets the holds and the limit,
+the holds); four or more holds are met only where the survey allows. With
+``corrections=True``, when the smooth diagram cannot meet the holds (or the limit with them),
+local versine corrections near the holds are added to the best smooth diagram without the
+holds (core.versine_corrections, core.versine_holds). When no cell meets the holds and the limit,
 the smallest limit that works is min over cells of min max |s_i|, a linear program
 (scipy.optimize.linprog) solved on the best-ranked cells.
 """
@@ -58,7 +60,9 @@ from curvetui.core.versine_cells import (
     _search_near_minimax,
     _smallest_limit,
 )
+from curvetui.core.versine_corrections import DEFAULT_WINDOW
 from curvetui.core.versine_free import free_search, free_smallest_limit
+from curvetui.core.versine_holds import corrected_result
 from curvetui.core.versine_realign import radius_for_versine, slews_from_differences
 
 __all__ = [
@@ -108,6 +112,10 @@ class RealignDesign:
     reason: str
     cells_searched: int = 0
     notes: tuple[str, ...] = field(default_factory=tuple)
+    # local versine corrections (core.versine_corrections): (station [m], correction [m])
+    # at every station of the windows, the designed versines include them; () for none
+    corrections: tuple[tuple[float, float], ...] = ()
+    correction_window: int = 0  # stations either side of each hold (0: no corrections)
 
 
 def design_realignment(
@@ -119,6 +127,8 @@ def design_realignment(
     central_versine: float | None = None,
     transitions: tuple[int, int] | None = None,
     max_transition: int | None = None,
+    corrections: bool = False,
+    correction_window: int = DEFAULT_WINDOW,
 ) -> RealignDesign:
     """Solve the designed versine diagram for a measured survey (SI metres).
 
@@ -127,7 +137,10 @@ def design_realignment(
     ``slew_limit`` [m] bounds |s| at every station; ``central_versine`` [m] fixes the
     central versine (a chosen radius: c^2 / (8 R)); ``transitions`` fixes the two
     transition lengths in station spacings; ``max_transition`` bounds the search (spacings,
-    default 20). Raises ValueError for input outside these terms.
+    default 20). ``corrections``: when the smooth diagram cannot meet the holds (or the
+    limit with them), offer local versine corrections within ``correction_window``
+    stations of each hold (core.versine_corrections); with four or more holds the smooth
+    search is then cut to its coarse pass. Raises ValueError for input outside these terms.
     """
     st = np.asarray(stations, dtype=float)
     m = np.asarray(measured, dtype=float)
@@ -179,6 +192,34 @@ def design_realignment(
     lengths = _lengths(m.size, transitions, max_transition)
     p = _Problem(m, hold_pairs, slew_limit, central_versine, lengths)
     free_ok = transitions is None
+    use = corrections and bool(hold_pairs)
+    if use and not (isinstance(correction_window, int) and 1 <= correction_window <= 10):
+        raise RealignInputError(
+            "correction window must be a whole number of stations, 1 to 10; got "
+            f"{correction_window!r}"
+        )
+    if use and len(hold_pairs) + (central_versine is not None) > 3:
+        quick, count = _search(p, fallback=False)
+        if quick is None:  # four or more equations: corrections without the full search
+            got = _corrected(st, c, m, p, correction_window, count)
+            if got is not None:
+                return got
+    smooth = _smooth(st, c, m, p, hold_pairs, slew_limit, central_versine, lengths, free_ok)
+    if use and not smooth.feasible:
+        got = _corrected(st, c, m, p, correction_window, smooth.cells_searched)
+        inf = math.inf
+        if got is not None and (
+            got.feasible
+            or smooth.designed.size == 0
+            or (got.smallest_limit or inf) < (smooth.smallest_limit or inf)
+        ):
+            return got
+    return smooth
+
+
+def _smooth(st, c, m, p, hold_pairs, slew_limit, central_versine, lengths, free_ok):
+    """The smooth diagram (no corrections): the search, its smallest limit, its reason."""
+    step = c / 2.0
     best, count, got = _solve(p, free_ok)
     holds_out = tuple((float(st[0] + i * step), v) for i, v in hold_pairs)
     if best is not None:
@@ -251,6 +292,22 @@ def design_realignment(
         f"works is {tau:.6g}"
     )
     return _result(st, c, m, b, p, count, False, (), tau, reason)
+
+
+def _corrected(st, c, m, p: _Problem, window: int, count: int):
+    """The design with local corrections at the holds, on the breakpoints of the best
+    smooth design without holds (within the limit if one is, else without); None when
+    there is none."""
+    base, more = _search(_Problem(m, (), None, p.u_fixed, p.lengths))
+    if base is None:
+        return None
+    if p.limit is not None and float(np.max(np.abs(base.slews))) > p.limit:
+        # the best smooth design within the limit instead, if the coarse pass finds one
+        within, extra = _search(_Problem(m, (), p.limit, p.u_fixed, p.lengths), fallback=False)
+        base, more = within or base, more + extra
+    u, w, z = (float(v) for v in base.x)
+    breaks = base.breaks or (w / u, w / u + base.n1, z / u - base.n2, z / u)
+    return corrected_result(RealignDesign, st, c, m, p, breaks, window, count + more)
 
 
 def _free_applies(p: _Problem, free_ok: bool) -> bool:
