@@ -14,7 +14,7 @@ import math
 from dataclasses import dataclass, field
 
 from curvetui import CAUTION
-from curvetui.cli.realign_output import fixed, rows, summary
+from curvetui.cli.realign_output import corrections_line, fixed, rows, summary
 from curvetui.screen_text import clean
 
 HEAD = ("Station", "Measured", "Designed", "Slew", "Direction")
@@ -108,6 +108,8 @@ def design_lines(design, units) -> list[Line]:
     for h in s["holds"]:
         if not design.feasible:
             state, bad = ("not met" if s["radius"] is None else "met by the design shown"), True
+        elif getattr(design, "corrections", ()):
+            state, bad = "met with local corrections", False
         elif h["station"] in binding:
             state, bad = "binds (the optimum moves without it)", False
         else:
@@ -117,6 +119,13 @@ def design_lines(design, units) -> list[Line]:
         )
     if not s["holds"]:
         out.append(Line("Hold points", "none"))
+    if corrections_line(design, units):  # the designed versines are not the smooth diagram
+        out.append(Line("Local corrections", corrections_line(design, units)))
+        listed = ", ".join(
+            f"{_station(st / units.length)} {fixed(v / units.cant, k)}"
+            for st, v in design.corrections
+        )
+        out.append(Line(f"Corrections ({units.length_label}: {units.cant_label})", listed))
     if not design.feasible and s["smallest_limit"] is not None:
         why = (
             f"no design keeps every slew within {s['slew_limit']:g} {cl}; the smallest "

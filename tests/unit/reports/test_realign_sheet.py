@@ -127,3 +127,21 @@ def test_the_diagram_is_vector_lines(good):
 def test_control_characters_in_the_file_name_are_cleaned(good):
     s = build_sheet(good, None, METRIC, "bad\x1b]0;x\x07.csv")
     assert "\x1b" not in render_text(s) and "\x07" not in render_markdown(s)
+
+
+def test_local_corrections_are_on_the_sheet_station_by_station():
+    """A run of held stations met with local versine corrections: each hold says so, and
+    every correction the design carries is listed at its station, rounded as shown (the
+    designed versines are then not the smooth diagram: a checker must see it)."""
+    st, m = survey(16)
+    holds = [(float(st[i]), 0.0) for i in (10, 11, 12, 13)]
+    design = design_realignment(st, m, CHORD, holds=holds, max_transition=4, corrections=True)
+    assert design.corrections  # four held stations in a row: the smooth diagram cannot
+    sheet = build_sheet(design, None, METRIC, "s.csv")
+    lines = {line.label: line.value for line in sheet.design}
+    for station, _ in holds:
+        assert "met with local corrections" in lines[f"Hold at {station:.2f} m"]
+    listed = lines["Corrections (m: mm)"]
+    for station, value in design.corrections:
+        assert f"{station:.2f} {value * 1000:.1f}" in listed
+    assert "local versine corrections" in lines["Local corrections"]
