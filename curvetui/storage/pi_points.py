@@ -17,27 +17,21 @@ import math
 from dataclasses import dataclass
 
 from curvetui.inputs import InputError
+from curvetui.storage.small_csv import CsvFileError, cell_number, header_names, quoted
 
 MAX_POINTS_BYTES = 1_000_000  # 1 MB: thousands of PIs, far more than one road holds
 COLUMNS = ("id", "easting", "northing")
 REQUIRED = ("easting", "northing")
 MAX_COORDINATE = 1e8  # [project unit]: beyond any survey grid's false origin
 ID_LENGTH = 40  # as the app's bend id rule (app/session.py ID_RULE)
-MAX_PROBLEMS = 20  # problems listed; the rest counted
 # a PI turning by less than this is in line with its neighbours (as storage.project.chain)
 IN_LINE = 1e-9  # [rad]
 
 
-class PointsFileError(InputError):
+class PointsFileError(CsvFileError):
     """A points file that cannot be used; ``problems`` names each row and column."""
 
-    def __init__(self, path: str, problems: list[str]):
-        self.path = path
-        self.problems = problems
-        shown = problems[:MAX_PROBLEMS]
-        more = len(problems) - len(shown)
-        tail = f"; and {more} more" if more > 0 else ""
-        super().__init__(f"{path}: cannot use this points file: " + "; ".join(shown) + tail)
+    what = "points file"
 
 
 @dataclass(frozen=True)
@@ -50,33 +44,6 @@ class PointsFile:
     rows: tuple[int, ...]
 
 
-def _number(text: str, decimal_comma: bool) -> float | None:
-    t = text.strip()
-    if decimal_comma and "," in t and "." not in t:
-        t = t.replace(",", ".")
-    try:
-        x = float(t)
-    except ValueError:
-        return None
-    return x if math.isfinite(x) else None
-
-
-def _show(text: str) -> str:
-    """A cell as a message quotes it: control characters as escapes, at most 40 shown."""
-    t = "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
-    return "'" + (t if len(t) <= 40 else t[:40] + "...") + "'"
-
-
-def _header(line: str) -> tuple[list[str], str]:
-    best: list[str] = []
-    delimiter = ","
-    for candidate in (",", ";", "\t"):
-        names = next(csv.reader([line], delimiter=candidate))
-        if len(names) > len(best):
-            best, delimiter = names, candidate
-    return [n.strip().lower() for n in best], delimiter
-
-
 def parse_points(text: str, path: str = "points file") -> PointsFile:
     """The chain from the file's text; PointsFileError listing every problem."""
     lines = text.splitlines()
@@ -86,13 +53,13 @@ def parse_points(text: str, path: str = "points file") -> PointsFile:
             path,
             ["the file is empty: it needs a header row (easting,northing or id,easting,northing)"],
         )
-    names, delimiter = _header(lines[first])
+    names, delimiter = header_names(lines[first])
     problems: list[str] = []
     where: dict[str, int] = {}
     for pos, name in enumerate(names):
         if name not in COLUMNS:
             problems.append(
-                f"row {first + 1}, column {pos + 1}: {_show(name)} is not a column of a points "
+                f"row {first + 1}, column {pos + 1}: {quoted(name)} is not a column of a points "
                 f"file (columns: {', '.join(COLUMNS)}; easting and northing required)"
             )
         elif name in where:
@@ -125,9 +92,9 @@ def parse_points(text: str, path: str = "points file") -> PointsFile:
         xy = []
         for col in ("easting", "northing"):
             cell = cells[where[col]]
-            x = _number(cell, decimal_comma)
+            x = cell_number(cell, decimal_comma)
             if x is None:
-                problems.append(f"row {row}, column {col}: {_show(cell)} is not a number")
+                problems.append(f"row {row}, column {col}: {quoted(cell)} is not a number")
             elif abs(x) > MAX_COORDINATE:
                 problems.append(
                     f"row {row}, column {col}: {x:g} is outside -{MAX_COORDINATE:g} to "
@@ -138,7 +105,7 @@ def parse_points(text: str, path: str = "points file") -> PointsFile:
         ident = cells[where["id"]].strip() if "id" in where else ""
         if not ident.isprintable():
             problems.append(
-                f"row {row}, column id: {_show(ident)} holds control characters; a bend id is "
+                f"row {row}, column id: {quoted(ident)} holds control characters; a bend id is "
                 "1 to 40 printable characters"
             )
         elif len(ident) > ID_LENGTH:
@@ -168,7 +135,7 @@ def _bend_ids(cells: list[str], rows: list[int], problems: list[str]) -> list[st
     for ident, row in zip(inner, rows[1:-1], strict=True):
         if ident in seen:
             problems.append(
-                f"row {row}, column id: {_show(ident)} is the id of row {seen[ident]} too"
+                f"row {row}, column id: {quoted(ident)} is the id of row {seen[ident]} too"
             )
         elif ident:
             seen[ident] = row

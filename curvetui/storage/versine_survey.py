@@ -13,31 +13,24 @@ its row number (the header is row 1) and column; all problems are given at once
 from __future__ import annotations
 
 import csv
-import math
 from dataclasses import dataclass
 
 from curvetui.inputs import InputError
+from curvetui.storage.small_csv import CsvFileError, cell_number, header_names, quoted
 
 MAX_SURVEY_BYTES = 1_000_000
 MAX_STATIONS = 1000  # the design search grows with the square of the stations
 MIN_STATIONS = 7
 COLUMNS = ("station", "versine")
-MAX_PROBLEMS = 20
 SPACING_TOLERANCE = 1e-3  # of the spacing: a station this far off its place is refused
 MAX_STATION = 1e7  # [m or ft]
 MAX_VERSINE = 10_000.0  # [mm or in]: far beyond any track's versine
 
 
-class SurveyFileError(InputError):
+class SurveyFileError(CsvFileError):
     """A survey file that cannot be used; ``problems`` names each row and column."""
 
-    def __init__(self, path: str, problems: list[str]):
-        self.path = path
-        self.problems = problems
-        shown = problems[:MAX_PROBLEMS]
-        more = len(problems) - len(shown)
-        tail = f"; and {more} more" if more > 0 else ""
-        super().__init__(f"{path}: cannot use this survey: " + "; ".join(shown) + tail)
+    what = "survey"
 
 
 @dataclass(frozen=True)
@@ -49,33 +42,6 @@ class Survey:
     rows: tuple[int, ...]
 
 
-def _number(text: str, decimal_comma: bool) -> float | None:
-    t = text.strip()
-    if decimal_comma and "," in t and "." not in t:
-        t = t.replace(",", ".")
-    try:
-        x = float(t)
-    except ValueError:
-        return None
-    return x if math.isfinite(x) else None
-
-
-def _show(text: str) -> str:
-    """A cell as a message quotes it: control characters as escapes, at most 40 shown."""
-    t = "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
-    return "'" + (t if len(t) <= 40 else t[:40] + "...") + "'"
-
-
-def _header(line: str) -> tuple[list[str], str]:
-    best: list[str] = []
-    delimiter = ","
-    for candidate in (",", ";", "\t"):
-        names = next(csv.reader([line], delimiter=candidate))
-        if len(names) > len(best):
-            best, delimiter = names, candidate
-    return [n.strip().lower() for n in best], delimiter
-
-
 def parse_survey(text: str, spacing: float, path: str = "survey") -> Survey:
     """The survey from the file's text; stations must be ``spacing`` (half the chord) apart.
     SurveyFileError listing every problem."""
@@ -83,13 +49,13 @@ def parse_survey(text: str, spacing: float, path: str = "survey") -> Survey:
     first = next((i for i, line in enumerate(lines) if line.strip()), None)
     if first is None:
         raise SurveyFileError(path, ["the file is empty: it needs a header row station,versine"])
-    names, delimiter = _header(lines[first])
+    names, delimiter = header_names(lines[first])
     problems: list[str] = []
     where: dict[str, int] = {}
     for pos, name in enumerate(names):
         if name not in COLUMNS:
             problems.append(
-                f"row {first + 1}, column {pos + 1}: {_show(name)} is not a column of a survey "
+                f"row {first + 1}, column {pos + 1}: {quoted(name)} is not a column of a survey "
                 f"(columns: station, versine)"
             )
         elif name in where:
@@ -118,9 +84,9 @@ def parse_survey(text: str, spacing: float, path: str = "survey") -> Survey:
         got = []
         for col, top in (("station", MAX_STATION), ("versine", MAX_VERSINE)):
             cell = cells[where[col]]
-            x = _number(cell, decimal_comma)
+            x = cell_number(cell, decimal_comma)
             if x is None:
-                problems.append(f"row {row}, column {col}: {_show(cell)} is not a number")
+                problems.append(f"row {row}, column {col}: {quoted(cell)} is not a number")
             elif abs(x) > top:
                 problems.append(f"row {row}, column {col}: {x:g} is outside -{top:g} to {top:g}")
             else:
