@@ -1,4 +1,6 @@
-"""A run's summary: row counts by status, the worst failing bends and the first errors."""
+"""A run's summary: row counts by status, the failures grouped by reason (the first failed
+rule, its numbers taken out) with a count and the worst bend of each, the worst failing
+bends and the first errors."""
 
 from __future__ import annotations
 
@@ -8,6 +10,7 @@ import io
 from dataclasses import dataclass, field
 
 import numpy as np
+import pyarrow.compute as pc
 
 from curvetui.batch.chunk import ERROR, FAIL, PASS
 from curvetui.batch.header import Header
@@ -51,6 +54,30 @@ class Worst:
 
 
 @dataclass
+class Reason:
+    """Failing bends that share their first failed rule: the rule as text with its numbers
+    shown as #, how many bends, and the worst of them (largest demand/limit ratio)."""
+
+    rule: str
+    count: int
+    worst: Worst
+
+
+# the rule of a failure message: its numbers (with sign, decimals, thousands) as #
+NUMBER = r"[-+]?\d[\d.,]*(?:[eE][-+]?\d+)?"
+
+
+def _merge_reasons(into: dict, other: dict) -> None:
+    """Add ``other``'s counts by rule to ``into``, keeping the worst example of each."""
+    for rule, (count, example) in other.items():
+        if rule in into:
+            have, worst = into[rule]
+            into[rule] = (have + count, max(worst, example, key=lambda w: (w[0], -w[1])))
+        else:
+            into[rule] = (count, example)
+
+
+@dataclass
 class Summary:
     """Counts and the worst bends of a run."""
 
@@ -61,6 +88,8 @@ class Summary:
     blank: int = 0  # rows with every cell empty: skipped, not bends
     worst: list[Worst] = field(default_factory=list)
     first_errors: list[Worst] = field(default_factory=list)
+    reasons: list[Reason] = field(default_factory=list)  # most bends first
+    by_rule: dict = field(default_factory=dict, repr=False)  # rule -> (count, example)
     delimiter: str = ","
     columns: tuple[str, ...] = ()
 
@@ -79,6 +108,7 @@ class Tally:
     errors: int = 0
     worst: list[tuple[float, int, str, str, str]] = field(default_factory=list)
     first_errors: list[Worst] = field(default_factory=list)
+    by_rule: dict = field(default_factory=dict)  # rule -> (count, (ratio, row, id, kind, text))
 
 
 def merge(summary: Summary, part: Tally, worst: list) -> None:
@@ -94,6 +124,7 @@ def merge(summary: Summary, part: Tally, worst: list) -> None:
             heapq.heapreplace(worst, item)
     room = WORST_SHOWN - len(summary.first_errors)
     summary.first_errors += part.first_errors[: max(room, 0)]
+    _merge_reasons(summary.by_rule, part.by_rule)
 
 
 def finish(summary: Summary, worst: list) -> None:
@@ -103,6 +134,12 @@ def finish(summary: Summary, worst: list) -> None:
     summary.worst = [
         Worst(u, r, i, k, m) for u, r, i, k, m in sorted(worst, key=lambda w: (-w[0], w[1]))
     ][:WORST_SHOWN]
+    summary.reasons = [
+        Reason(rule, count, Worst(*example))
+        for rule, (count, example) in sorted(
+            summary.by_rule.items(), key=lambda kv: (-kv[1][0], -kv[1][1][0], kv[1][1][1])
+        )
+    ]
 
 
 def tally_rows(part: Tally, result, rows, batch, id_pos) -> None:
@@ -135,6 +172,32 @@ def tally_rows(part: Tally, result, rows, batch, id_pos) -> None:
     for i in np.nonzero(status == ERROR)[0][:WORST_SHOWN]:
         text = messages[int(i)].as_py() or ""
         part.first_errors.append(Worst(np.nan, int(rows[i]), ident(int(i)), "", text))
+    if len(fails):
+        _tally_rules(part, result, rows, fails, messages, ident)
+
+
+def _tally_rules(part: Tally, result, rows, fails, messages, ident) -> None:
+    """Count the failing rows by their first failed rule (vectorised), keeping the worst
+    row of each rule."""
+    texts = messages.take(fails)
+    first = pc.struct_field(pc.extract_regex(texts, r"(?P<m>FAIL[^;]*)"), [0])
+    rules = pc.replace_substring_regex(first, NUMBER, "#").to_numpy(zero_copy_only=False)
+    rules = np.array(["FAIL (no message)" if r is None else r for r in rules], dtype=object)
+    util = np.nan_to_num(result.utilisation[fails], nan=0.0)
+    names, inverse, counts = np.unique(rules, return_inverse=True, return_counts=True)
+    for k, (rule, count) in enumerate(zip(names, counts, strict=True)):
+        members = np.nonzero(inverse == k)[0]
+        j = int(members[np.argmax(util[members])])  # the first of the worst, by row order
+        i = int(fails[j])
+        text = first[j].as_py() or ""
+        example = (
+            float(util[j]),
+            int(rows[i]),
+            ident(i),
+            "rail" if result.is_rail[i] else "road",
+            text,
+        )
+        _merge_reasons(part.by_rule, {str(rule): (int(count), example)})
 
 
 def tally_bad_rows(part: Tally, bad, header: Header) -> None:
@@ -172,3 +235,4 @@ def add_tally(part: Tally, other: Tally) -> None:
     part.errors += other.errors
     part.worst += other.worst
     part.first_errors += other.first_errors[: max(WORST_SHOWN - len(part.first_errors), 0)]
+    _merge_reasons(part.by_rule, other.by_rule)

@@ -124,6 +124,9 @@ def run(args: argparse.Namespace) -> int:
     return summary.exit_code
 
 
+REASONS_SHOWN = 20  # rules listed; the rest counted in the title
+
+
 def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> None:
     """Counts, the worst bends, the first errors, what was used, and the caution."""
     from rich.table import Table
@@ -140,13 +143,19 @@ def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> Non
     err.print(grid)
     if s.rows == 0:
         err.print("[yellow]The file has a header but no bends.[/]")
-    if s.worst:
-        worst = Table(title=f"Worst failing bends (of {s.failed:,})")
-        for name in ("row", "id", "kind", "demand / limit", "first reason"):
+    if s.reasons:
+        # grouped by the first failed rule (numbers as #): ten near-identical rows told
+        # a reader less than one line per rule with its count and its worst bend
+        shown = s.reasons[:REASONS_SHOWN]
+        more = len(s.reasons) - len(shown)
+        title = f"Failing bends by reason ({s.failed:,} bends, {len(s.reasons):,} reasons)"
+        worst = Table(title=title + (f"; first {len(shown)} shown" if more > 0 else ""))
+        for name in ("bends", "first failed rule", "worst: row", "id", "demand / limit"):
             worst.add_column(name, overflow="fold")
-        for w in s.worst:
+        for r in shown:
+            w = r.worst
             ratio = f"{100 * w.utilisation:.0f} %" if w.utilisation > 0 else "-"
-            worst.add_row(str(w.row), markup(w.id, True), w.kind, ratio, markup(w.message))
+            worst.add_row(f"{r.count:,}", markup(r.rule), str(w.row), markup(w.id, True), ratio)
         err.print(worst)
     if s.first_errors:
         errors = Table(title=f"Rows with errors (first {len(s.first_errors)} of {s.errors:,})")

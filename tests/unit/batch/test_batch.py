@@ -402,3 +402,33 @@ def test_station_and_sight_columns_come_with_their_inputs():
     assert float(rows[0]["sight.stopping_sight_distance"]) == 425
     tangent = float(rows[0]["geometry.tangent"])
     assert float(rows[0]["geometry.pc"]) == pytest.approx(1000 - tangent, abs=1e-6)
+
+
+def test_failures_grouped_by_their_first_failed_rule_across_chunks():
+    """The summary counts the failing bends by their first failed rule (its numbers as #)
+    and keeps the worst bend of each; the counts are those of the output's own rows, the
+    same in one block, many chunks and two worker processes (the grouping is the
+    project's own presentation, no source)."""
+    import re
+
+    text = mixed_rows("metric", 300, seed=5)
+    data, one = run(text, workers=1)
+    _, rows = parse(data)
+    expected: dict[str, list] = {}
+    for r in rows:
+        if r["status"] != "fail":
+            continue
+        first = next(m for m in r["messages"].split("; ") if "FAIL" in m)
+        first = first[first.index("FAIL") :]  # "transition: FAIL ..." from its verdict on
+        rule = re.sub(r"[-+]?\d[\d.,]*(?:[eE][-+]?\d+)?", "#", first)
+        expected.setdefault(rule, []).append(int(r["row"]))
+    assert expected, "the mixed rows must hold failures for this test to mean anything"
+    for summary in (one, run(text, workers=2, block_size=2048)[1]):
+        got = {r.rule: r.count for r in summary.reasons}
+        assert got == {k: len(v) for k, v in expected.items()}
+        assert sum(got.values()) == summary.failed
+        counts = [r.count for r in summary.reasons]
+        assert counts == sorted(counts, reverse=True)  # most bends first
+        for reason in summary.reasons:
+            assert reason.worst.row in expected[reason.rule]
+            assert reason.worst.message.startswith("FAIL")
