@@ -15,6 +15,7 @@ from __future__ import annotations
 import codecs
 import collections
 import contextlib
+import errno
 import io
 import os
 import sys
@@ -234,19 +235,31 @@ def _run(
     options = pcsv.WriteOptions(delimiter=header.delimiter, quoting_style="needed")
     if sink is not None:
         names = schema.names if keep_formulas else [neutral_text(n) for n in schema.names]
-        pcsv.write_csv(schema.empty_table().rename_columns(names), sink, options)  # header
+        try:
+            pcsv.write_csv(schema.empty_table().rename_columns(names), sink, options)  # header
+        except OSError as exc:
+            if not _closed_pipe(exc):
+                raise
+            summary.output_closed = True
     worst: list[tuple[float, int, str, str, str]] = []
     pool = None
     pending: collections.deque = collections.deque()
 
     def take(part: Part) -> None:
-        if part.data is not None:
-            sink.write(part.data)
-        if part.table is not None:
-            if sink is not None:
+        try:
+            if part.data is not None and not summary.output_closed:
+                sink.write(part.data)
+            if part.table is not None and sink is not None and not summary.output_closed:
                 pcsv.write_csv(written(part.table), sink, _no_header(options))
-            if on_table is not None:
-                on_table(part.table)
+        except OSError as exc:  # BrokenPipeError, or pyarrow's own words for it
+            if not _closed_pipe(exc):
+                raise
+            # the reader went away (e.g. `| head`): every row is still checked, so the
+            # summary and the exit code tell what the file holds
+            summary.output_closed = True
+            summary.written_rows = summary.rows
+        if part.table is not None and on_table is not None:
+            on_table(part.table)
         merge(summary, part, worst)
         if progress is not None:
             progress(stream.count, total, summary.rows)
@@ -316,6 +329,15 @@ def not_utf8_rows(batch: pa.RecordBatch, rows: np.ndarray, numbering):
         numbering.bad.append((int(rows[i]), NOT_UTF8_ROW, cells))
     numbering.bad.sort()
     return batch.filter(pa.array(~mask)), rows[~mask]
+
+
+def _closed_pipe(exc: OSError) -> bool:
+    """Whether a write failed because the reading end of a pipe was closed."""
+    return (
+        isinstance(exc, BrokenPipeError)
+        or exc.errno == errno.EPIPE
+        or ("broken pipe" in str(exc).lower())
+    )
 
 
 def _no_header(options: pcsv.WriteOptions) -> pcsv.WriteOptions:

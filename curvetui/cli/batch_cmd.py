@@ -110,7 +110,10 @@ def run(args: argparse.Namespace) -> int:
                 summary = run_batch(
                     source, sys.stdout.buffer, units, table, limits, tick, keep_formulas=keep
                 )
-                sys.stdout.buffer.flush()
+                if summary.output_closed:
+                    _quiet_stdout()  # nothing more can reach the reader; no error at exit
+                else:
+                    sys.stdout.buffer.flush()
             else:
                 with atomic_binary(out_path) as sink:
                     summary = run_batch(
@@ -120,8 +123,22 @@ def run(args: argparse.Namespace) -> int:
         name = "standard input" if args.input == "-" else args.input
         err.print(clean(f"curvetui: error: {name}: {exc}"), markup=False)
         return 2
+    if summary.output_closed:
+        err.print(
+            f"[yellow]The output's reader closed it early (after about "
+            f"{summary.written_rows:,} rows); every one of the {summary.rows:,} rows was "
+            "still checked, and the counts and exit code are theirs.[/]"
+        )
     print_summary(err, summary, out_path, table, limits)
     return summary.exit_code
+
+
+def _quiet_stdout() -> None:
+    """Point standard output at the null device, so Python's final flush to the closed
+    pipe raises nothing (the recipe of the Python docs, "Note on SIGPIPE")."""
+    devnull = os.open(os.devnull, os.O_WRONLY)
+    os.dup2(devnull, sys.stdout.fileno())
+    os.close(devnull)
 
 
 REASONS_SHOWN = 20  # rules listed; the rest counted in the title

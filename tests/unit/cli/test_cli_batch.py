@@ -107,3 +107,30 @@ def test_a_header_that_is_not_utf8_exits_2(tmp_path, capsys):
     assert main(["batch", str(src), "-o", str(dest)]) == 2
     assert not dest.exists()
     assert "not UTF-8" in capsys.readouterr().err
+
+
+def test_exit_code_counts_every_row_when_the_reader_closes_the_pipe_early(tmp_path):
+    """`curvetui batch FILE -o - | head -c 100`: the rows are all checked though the output
+    stops, the summary says so, and the exit code is that of the rows (1: the demo register
+    holds failures and errors), not 0; no error from the final flush (issue 16, item 4)."""
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    demo = (Path(__file__).parents[3] / "projects" / "quillmere-curve-register.csv").read_text(
+        encoding="utf-8"
+    )
+    head, *rows = demo.splitlines()
+    big = tmp_path / "big.csv"
+    big.write_text(head + "\n" + "\n".join(rows * 700) + "\n", encoding="utf-8")  # ~12,600
+    proc = subprocess.Popen(
+        [sys.executable, "-m", "curvetui", "batch", str(big), "-o", "-"],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+    )
+    assert len(proc.stdout.read(100)) == 100
+    proc.stdout.close()  # the reader goes away long before the ~4 MB of output is written
+    err = " ".join(proc.stderr.read().decode("utf-8").split())  # the console wraps lines
+    assert proc.wait(timeout=120) == 1
+    assert "closed it early" in err and f"every one of the {len(rows) * 700:,} rows" in err
+    assert "Traceback" not in err and "Exception ignored" not in err
