@@ -73,6 +73,7 @@ def curvature_cmf(curve_length, radius, spirals) -> CurvatureCMF:
     s = np.asarray(spirals, float)
     with np.errstate(divide="ignore", invalid="ignore"):
         cmf = (1.55 * lc + 80.2 / r - 0.012 * s) / (1.55 * lc)
+    cmf = np.where(lc > 0, cmf, np.nan)  # no curve, no factor
     flags = np.where(r < LIMIT_FT, RADIUS_BELOW_LIMIT, 0)
     flags |= np.where(lc * (MILE / FOOT) < LIMIT_FT, LENGTH_BELOW_LIMIT, 0)
     flags |= np.where(cmf < 1.0, CMF_BELOW_ONE, 0)
