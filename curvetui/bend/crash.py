@@ -33,7 +33,9 @@ def road_crash_factors(ev, rows: np.ndarray, check, flag_outside: int) -> None:
     if not known.any():
         return
     at = rows[known]
-    spirals = cf.spiral_presence(ev.spiral_length("spiral_in", at), ev.spiral_length("spiral_out", at))
+    spirals = cf.spiral_presence(
+        ev.spiral_length("spiral_in", at), ev.spiral_length("spiral_out", at)
+    )
     radius = si["radius"][at]
     c = cf.curvature_cmf(units.length_to_si(arc[known]), radius, spirals)
     values["crash.curvature_cmf"][at] = c.cmf

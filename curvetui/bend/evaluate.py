@@ -13,8 +13,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from curvetui.bend import working_values
-from curvetui.bend.fields import BY_KEY
 from curvetui.bend.crash import road_crash_factors
+from curvetui.bend.fields import BY_KEY
 from curvetui.bend.geometry import bend_geometry
 from curvetui.bend.outputs import OUTPUTS, TEXT
 from curvetui.bend.parse import Issue, Parsed

@@ -43,8 +43,7 @@ def crash_steps(record: dict, units: UnitSystem) -> list[Step]:
         Step(
             "Curve crash factor, curvature",
             f"CMF = (1.55 Lc + 80.2 / R - 0.012 S) / (1.55 Lc), {conv}",
-            f"CMF = (1.55 x {lc} + 80.2 / ({r}) - 0.012 x {num(c['spirals'])}) / "
-            f"(1.55 x {lc})",
+            f"CMF = (1.55 x {lc} + 80.2 / ({r}) - 0.012 x {num(c['spirals'])}) / (1.55 x {lc})",
             f"{ans(c['curvature_cmf'])}{note}",
             f"{HSM} (read in a public implementation); arc without spirals, S = 0.5 per end "
             "with a spiral",
