@@ -40,6 +40,7 @@ assert len(set(RESULT_NAMES)) == len(RESULT_NAMES)
 _NEEDS = (
     ("geometry.", "deflection"),
     ("sight.", "obstruction_offset"),
+    ("crash.", "deflection"),
     *((f"geometry.{k}", "pi_station") for k in STATIONS),
     *((f"transition.{k}", "deflection") for k in RUNOFF_STATIONS),
     *((f"transition.{k}", "pi_station") for k in RUNOFF_STATIONS),

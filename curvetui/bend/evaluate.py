@@ -13,6 +13,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from curvetui.bend import working_values
+from curvetui.bend.crash import road_crash_factors
 from curvetui.bend.fields import BY_KEY
 from curvetui.bend.geometry import bend_geometry
 from curvetui.bend.outputs import OUTPUTS, TEXT
@@ -42,6 +43,7 @@ CURVE_TOO_SHORT = 1 << 7  # no spiral: the curve is too short to reach full supe
 GAUGE_NOT_COVERED = 1 << 8  # the curve's gauge is not the one the rail limits are set for
 TRAFFIC_NOT_USED = 1 << 9  # traffic given, but the rail limits set no speed by traffic
 SPIRAL_NOT_NEEDED = 1 << 10  # radius above the table's largest that uses a spiral: a note
+CRASH_OUTSIDE_RANGE = 1 << 11  # R or arc below HSM Eq. 10-13's 100 ft, or its CMF below 1
 ROAD_SPIRAL_FLAGS = {
     "spiral_in_short": SPIRAL_IN_SHORT,
     "spiral_in_long": SPIRAL_IN_LONG,
@@ -202,6 +204,7 @@ def _road(ev: Evaluation, rows: np.ndarray) -> None:
     curve_length = bend_geometry(ev, rows, r, GEOMETRY_SKIPPED)
     road_transition(ev, rows, v, r, check.superelevation, width, ROAD_SPIRAL_FLAGS)
     road_sight(ev, rows, v, r, width, curve_length)
+    road_crash_factors(ev, rows, check, CRASH_OUTSIDE_RANGE)
 
 
 def _spiral(ev: Evaluation, key: str, rows) -> np.ndarray:

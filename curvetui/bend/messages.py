@@ -14,6 +14,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from curvetui.bend import evaluate as ev_mod
+from curvetui.bend.crash import outside_text as crash_outside_text
 from curvetui.bend.evaluate import Evaluation
 from curvetui.bend.layer_texts import (
     gauge_text,
@@ -289,6 +290,17 @@ RULES: tuple[Rule, ...] = (
         False,
     ),
     Rule("bend", ev_mod.TRAFFIC_NOT_USED, "note", "traffic_not_used", traffic_text, True),
+    Rule(
+        "bend",
+        ev_mod.CRASH_OUTSIDE_RANGE,
+        "warning",
+        "crash_factor_outside_range",
+        crash_outside_text,
+        False,
+        "crash",
+        ("crash.curvature_cmf",),
+        True,
+    ),
     Rule(
         "bend",
         ev_mod.GEOMETRY_SKIPPED,

@@ -133,6 +133,9 @@ SIGHT = (
     "speed_that_passes",
     "offset_that_passes",
 )
+# HSM 1st ed. 2010: Eq. 10-13's factor; SV (fraction) and Eqs. 10-14..16's factor; product
+CRASH = ("curvature_cmf", "superelevation_variance", "superelevation_cmf", "cmf")
+CRASH_WORKING = ("curve_length_mi", "radius_ft", "spirals")  # Eq. 10-13's Lc, R, S
 
 OUTPUTS: tuple[Output, ...] = (
     *(_o(k, (ROAD,), label=lab, short=sh, unit=u) for k, lab, sh, u in _ROAD_MAIN),
@@ -171,6 +174,10 @@ OUTPUTS: tuple[Output, ...] = (
     *(_o(f"sight.{k}", (ROAD,)) for k in SIGHT),
     _o("sight.grade", (ROAD,), INPUT, echo=True),
     _o("sight.stopping_sight_distance_calculated", (ROAD,), working=True),
+    # curve crash factors, rural two-lane roads (curvetui.bend.crash): with a deflection
+    *(_o(f"crash.{k}", (ROAD,)) for k in CRASH),
+    _o("crash.curvature_validity", (ROAD,), TEXT),
+    *(_o(f"crash.{k}", (ROAD,), working=True) for k in CRASH_WORKING),
 )
 BY_KEY = {o.key: o for o in OUTPUTS}
 assert len(BY_KEY) == len(OUTPUTS)

@@ -86,6 +86,8 @@ class BendRecord:
             record["geometry"] = _ordered_geometry(parts["geometry"])
         if "sight" in parts:
             record["sight"] = parts["sight"]
+        if "crash" in parts:
+            record["crash"] = parts["crash"]
         if "superelevation_working" in parts:
             record["superelevation_working"] = parts["superelevation_working"]
         return record

@@ -64,6 +64,8 @@ def print_road(record: dict, units: UnitSystem) -> None:
     grid.add_row("Cross-section", record["cross_section"], "")
     out.print(grid)
     print_parts(out, record, units)
+    if "crash" not in record:
+        out.print("Curve crash factors: none (they need the curve length: give a deflection)")
     colour = "red" if record["status"] == "fail" else "green"
     out.print(f"Status: [bold {colour}]{record['status'].upper()}[/]")
     print_messages(out, record)
@@ -74,6 +76,7 @@ PART_TITLES = {
     "geometry": "Curve geometry",
     "transition": "Transition and runoff",
     "sight": "Sight distance round the bend",
+    "crash": "Curve crash factors (rural two-lane roads; HSM 1st ed. 2010)",
 }
 
 

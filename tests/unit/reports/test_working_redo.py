@@ -113,6 +113,11 @@ FORMULA_SOURCES = {
     "Transition length, rate of change of cant": "L = E v / (dE/dt) (linear ramp)",
     "Transition length, rate of change of cant deficiency": "L = D v / (dD/dt)",
     "Transition length": "the longest length governs",
+    "Curve crash factor, curvature": "HSM 1st ed. 2010 Eq. 10-13 (read in a public "
+    "implementation, REFERENCES); 1 mi = 5280 ft = 1609.344 m, 1 ft = 0.3048 m (exact)",
+    "Superelevation variance": "SV = e_design - e (HSM 1st ed. 2010 ch. 10, from memory)",
+    "Curve crash factor, superelevation variance": "HSM 1st ed. 2010 Eqs. 10-14..16 (read)",
+    "Curve crash factor, combined": "product of a site's CMFs (HSM 2010 Eq. 10-2, from memory)",
 }
 # comparison lines that carry the bend's verdict: the comparison holds exactly when it passes
 VERDICT_COMPARISONS = {"Least radius", "Applied cant"}
@@ -241,6 +246,14 @@ def expected_road(inputs: dict, rec: dict, table, units: UnitSystem) -> Counter:
         ]
     labels += _geometry_labels(rec)
     labels += ["Stopping sight distance", "Sightline offset"] if "sight" in rec else []
+    if rec.get("geometry"):  # curve crash factors need the curve length
+        labels.append("Curve crash factor, curvature")
+        if "superelevation" in inputs:
+            labels += [
+                "Superelevation variance",
+                "Curve crash factor, superelevation variance",
+                "Curve crash factor, combined",
+            ]
     return Counter(labels)
 
 
