@@ -133,6 +133,15 @@ SIGHT = (
     "speed_that_passes",
     "offset_that_passes",
 )
+ADVISORY = (
+    "speed",  # rounded down to the sign table's step (5 mph; 10 km/h on metric projects)
+    "speed_calculated",  # V = sqrt(k R (e + f)) before rounding
+    "friction",  # f of the speed's band
+    "design_speed_inferred",  # highest speed within the road table's f_max (interpolated)
+    "design_speed_inferred_row",  # the highest table row met
+)
+ADVISORY_WORKING = ("superelevation", "step")  # e used, percent; the rounding step
+SIGNS = ("sign", "warning_sign", "plaque", "chevrons")
 
 OUTPUTS: tuple[Output, ...] = (
     *(_o(k, (ROAD,), label=lab, short=sh, unit=u) for k, lab, sh, u in _ROAD_MAIN),
@@ -171,6 +180,17 @@ OUTPUTS: tuple[Output, ...] = (
     *(_o(f"sight.{k}", (ROAD,)) for k in SIGHT),
     _o("sight.grade", (ROAD,), INPUT, echo=True),
     _o("sight.stopping_sight_distance_calculated", (ROAD,), working=True),
+    # the curve as an existing one (curvetui.bend.road_advisory): advisory speed by the design
+    # method, rounded down to the sign table's step; the inferred design speed; with a
+    # posted speed, the warning sign, the advisory speed plaque and chevrons
+    *(_o(f"advisory.{k}", (ROAD,)) for k in ADVISORY),
+    _o("advisory.design_speed_inferred_kind", (ROAD,), TEXT),
+    *(_o(f"advisory.{k}", (ROAD,), working=True) for k in ADVISORY_WORKING),
+    _o("advisory.capped", (ROAD,), TEXT, working=True),
+    _o("signs.posted_speed", (ROAD,), INPUT, echo=True),
+    _o("signs.speed_difference", (ROAD,)),
+    *(_o(f"signs.{k}", (ROAD,), TEXT) for k in SIGNS),
+    _o("signs.table", (ROAD,), TEXT, working=True),
 )
 BY_KEY = {o.key: o for o in OUTPUTS}
 assert len(BY_KEY) == len(OUTPUTS)

@@ -74,6 +74,8 @@ PART_TITLES = {
     "geometry": "Curve geometry",
     "transition": "Transition and runoff",
     "sight": "Sight distance round the bend",
+    "advisory": "Existing curve: advisory speed and inferred design speed",
+    "signs": "Warning signs (posted speed given)",
 }
 
 
