@@ -122,8 +122,8 @@ ADVISORY_RULES = (
         "inferred_design_speed_below_table",
         lambda ev, i, ref, units: (
             "inferred design speed: the curve's friction demand exceeds the table's f_max "
-            f"even at its lowest speed {float(ref.speeds[0]):g} "
-            f"{'km/h' if ref.units == 'metric' else 'mph'} (not extrapolated)"
+            f"even at its lowest speed {float(ev.ctx.table.speeds[0]):g} "
+            f"{'km/h' if ev.ctx.table.units == 'metric' else 'mph'} (not extrapolated)"
         ),
         True,
         "advisory",
