@@ -140,7 +140,8 @@ ADVISORY = (
     "design_speed_inferred",  # highest speed within the road table's f_max (interpolated)
     "design_speed_inferred_row",  # the highest table row met
 )
-ADVISORY_WORKING = ("superelevation", "step")  # e used, percent; the rounding step
+# e used, percent; the rounding step; the band's top speed where V reached it (a gap)
+ADVISORY_WORKING = ("superelevation", "step", "band_top")
 SIGNS = ("sign", "warning_sign", "plaque", "chevrons")
 
 OUTPUTS: tuple[Output, ...] = (

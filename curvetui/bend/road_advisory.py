@@ -39,8 +39,14 @@ def road_advisory(ev, rows: np.ndarray, r, e, flags: dict[str, int]) -> None:
     step, unit = signs.step_for(units.name)
     rounded = adv.round_speed(v / unit, step, capped, signs.rounding) * unit
     put["advisory.speed"][rows] = units.speed_from_si(rounded)
-    put["advisory.speed_calculated"][rows] = units.speed_from_si(v)
-    put["advisory.friction"][rows] = np.where(band >= 0, signs.friction[band], np.nan)
+    f_band = np.where(band >= 0, signs.friction[np.clip(band, 0, None)], np.nan)
+    with np.errstate(invalid="ignore"):
+        v_band = np.sqrt(table.k_si * r * (e + f_band))  # before a gap's cap (the working)
+    put["advisory.speed_calculated"][rows] = units.speed_from_si(v_band)
+    put["advisory.friction"][rows] = f_band
+    put["advisory.band_top"][rows] = units.speed_from_si(
+        np.where(capped, np.append(signs.friction_from[1:], np.inf)[band] * su, np.nan)
+    )
     put["advisory.superelevation"][rows] = 100 * e
     put["advisory.step"][rows] = step
     vd, kind, row_v = adv.inferred_design_speed(

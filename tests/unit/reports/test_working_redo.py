@@ -52,6 +52,8 @@ FORMULA_SOURCES = {
     "Design superelevation": M5 + "; linear: e = e_max R_min / R (Method 1)",
     "Side friction demand": f"{AASHTO} Eq. 3-8 (point-mass model, read)",
     "Safe speed": f"{AASHTO} Eq. 3-8 solved for V; Table 3-7 interpolated",
+    "Advisory speed": "design method, TxDOT speed zones (read; REFERENCES)",
+    "Inferred design speed": "FHWA-SA-10-001 appendix (method read); Table 3-7 interpolated",
     "Spiral length, comfort": f"{AASHTO} 3.3.8, L = v^3 / (C R) (from memory)",
     "Spiral length, least lateral shift": f"{AASHTO} 3.3.8, sqrt(24 p R) (from memory)",
     "Spiral length, most lateral shift": f"{AASHTO} 3.3.8, sqrt(24 p R) (from memory)",
@@ -210,6 +212,7 @@ def expected_road(inputs: dict, rec: dict, table, units: UnitSystem) -> Counter:
         labels += [*METHOD5, *([] if on_row else ["Average running speed"])]
     labels.append("Side friction demand")
     labels.append("Safe speed")
+    labels += ["Advisory speed", "Inferred design speed"]  # every road bend has them
     t = rec["transition"]
     labels += [
         "Spiral length, comfort",
