@@ -108,7 +108,6 @@ _RAIL_NOT_EVALUATED = tuple(
 )
 
 
-
 def _signs_of(ev: Evaluation):
     return ev.parts["sign_table"]
 

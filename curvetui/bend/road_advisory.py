@@ -33,9 +33,7 @@ def road_advisory(ev, rows: np.ndarray, r, e, flags: dict[str, int]) -> None:
     ev.parts["sign_table"] = signs
     put = ev.values
     su = signs.speed_unit
-    v, band, capped = adv.advisory_speed(
-        r, e, signs.friction_from * su, signs.friction, table.k_si
-    )
+    v, band, capped = adv.advisory_speed(r, e, signs.friction_from * su, signs.friction, table.k_si)
     step, unit = signs.step_for(units.name)
     rounded = adv.round_speed(v / unit, step, capped, signs.rounding) * unit
     put["advisory.speed"][rows] = units.speed_from_si(rounded)

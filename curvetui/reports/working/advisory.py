@@ -41,8 +41,7 @@ def advisory_steps(record: dict, table: RoadTable, units: UnitSystem, K: float) 
                 "Advisory speed",
                 f"V = sqrt({num(K)} R (e + f)), f by the speed's band",
                 f"V = sqrt({num(K)} x {num(R)} x ({num(e)} / 100 + {num(f)}))",
-                f"{how}; advisory {num(a['speed'])} {sp} (down to a multiple of "
-                f"{num(a['step'])})",
+                f"{how}; advisory {num(a['speed'])} {sp} (down to a multiple of {num(a['step'])})",
                 ADVISORY_SOURCE,
             )
         )
