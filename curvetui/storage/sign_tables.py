@@ -116,11 +116,13 @@ def sign_tables() -> dict[str, SignTable]:
 
 
 def sign_table(name: str | None = None) -> SignTable:
-    """The sign table called ``name`` (or a path to a .toml file); MUTCD 2009 by default."""
+    """The sign table called ``name`` (or a path to a .toml file); without a name the one
+    the CURVETUI_SIGNS environment variable names, else MUTCD 2009 Table 2C-5."""
+    name = name or os.environ.get("CURVETUI_SIGNS") or None
     if name and (name.endswith(".toml") or os.sep in name):
         return parse_sign_table(read_table_file(Path(name)), name)
     tables = sign_tables()
     key = name or DEFAULT_SIGNS
     if key not in tables:
-        raise TableError(f"--signs: unknown sign table {key!r}; known: {', '.join(sorted(tables))}")
+        raise TableError(f"CURVETUI_SIGNS: unknown sign table {key!r}; known: {', '.join(sorted(tables))}")
     return tables[key]

@@ -81,3 +81,25 @@ def test_batch_us_without_posted_speed():
     row = next(csv.DictReader(io.StringIO(data.decode("utf-8"))))
     assert float(row["advisory.speed"]) == 35  # 39.69 mph rounded down
     assert row["signs.sign"] == ""
+
+
+def test_authority_sign_table_sets_the_metric_step(tmp_path, monkeypatch):
+    # R 228 m, e 5 %: sqrt(127 x 228 x 0.20) = 76.10 km/h: 70 with the shipped 10 km/h step,
+    # 75 with an authority's 5 km/h step (its own file, named by CURVETUI_SIGNS)
+    from curvetui.storage.sign_tables import sign_table
+
+    text = "id,kind,speed,radius,superelevation\nC,road,60,228,5\n"
+
+    def advisory():
+        data, _ = batch_bytes(text, METRIC, road_table(None, "metric"), rail_limits(None, "metric"))
+        return float(next(csv.DictReader(io.StringIO(data.decode("utf-8"))))["advisory.speed"])
+
+    assert advisory() == 70
+    own = open(sign_table().path, encoding="utf-8").read()
+    own = own.replace("metric_step = 10", "metric_step = 5").replace(
+        'name = "mutcd-2009-table-2c-5"', 'name = "authority-test"'
+    )
+    path = tmp_path / "authority-test.toml"
+    path.write_text(own, encoding="utf-8")
+    monkeypatch.setenv("CURVETUI_SIGNS", str(path))
+    assert advisory() == 75

@@ -44,5 +44,5 @@ def test_bad_level_and_rising_friction_refused():
 
 
 def test_unknown_name():
-    with pytest.raises(TableError, match="unknown sign table"):
+    with pytest.raises(TableError, match="CURVETUI_SIGNS: unknown sign table"):
         sign_table("no-such-table")
