@@ -124,5 +124,6 @@ def sign_table(name: str | None = None) -> SignTable:
     tables = sign_tables()
     key = name or DEFAULT_SIGNS
     if key not in tables:
-        raise TableError(f"CURVETUI_SIGNS: unknown sign table {key!r}; known: {', '.join(sorted(tables))}")
+        known = ", ".join(sorted(tables))
+        raise TableError(f"CURVETUI_SIGNS: unknown sign table {key!r}; known: {known}")
     return tables[key]
