@@ -83,4 +83,24 @@ def advisory_steps(record: dict, table: RoadTable, units: UnitSystem, K: float) 
                 INFERRED_SOURCE + "; " + table_row_text(table, vd, units),
             )
         )
+    steps += _sign_steps(record, units)
     return steps
+
+
+def _sign_steps(record: dict, units: UnitSystem) -> list[Step]:
+    """The sign table's column by posted - advisory speed, and what it asks for."""
+    s, a = record.get("signs"), record.get("advisory") or {}
+    if not s or missing(s.get("posted_speed")) or missing(a.get("speed")):
+        return []
+    sp = units.speed_label
+    return [
+        Step(
+            "Warning signs",
+            "difference = posted speed - advisory speed; the sign table's column",
+            f"{num(s['posted_speed'])} - {num(a['speed'])}",
+            f"{ans(s['speed_difference'])} {sp}: {s['sign']} sign {s['warning_sign']}, "
+            f"advisory speed plaque {s['plaque']}, chevrons or large arrow {s['chevrons']}",
+            f"sign table {s.get('table')} (each value's source in its file); Turn at an "
+            "advisory of 30 mph or less (read, TxDOT); Reverse/Winding need consecutive curves",
+        )
+    ]
