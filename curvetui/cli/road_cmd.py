@@ -99,6 +99,8 @@ def print_parts(out, record: dict, units: UnitSystem) -> None:
                 value = format_station(value, units.name)
             elif isinstance(value, float):
                 value = f"{value:,.3f}"
+            else:  # words, some from a user's table file (a sign table's name): as text
+                value = markup(str(value))
             grid.add_row(key.replace("_", " "), str(value))
         out.print(grid)
 

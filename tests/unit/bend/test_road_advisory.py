@@ -103,3 +103,15 @@ def test_authority_sign_table_sets_the_metric_step(tmp_path, monkeypatch):
     path.write_text(own, encoding="utf-8")
     monkeypatch.setenv("CURVETUI_SIGNS", str(path))
     assert advisory() == 75
+
+
+def test_user_sign_table_name_is_text_not_markup(tmp_path, monkeypatch, capsys):
+    from curvetui.storage.sign_tables import sign_table
+
+    own = open(sign_table().path, encoding="utf-8").read()
+    own = own.replace('name = "mutcd-2009-table-2c-5"', 'name = "[red]x[/red]"')
+    path = tmp_path / "own.toml"
+    path.write_text(own, encoding="utf-8")
+    monkeypatch.setenv("CURVETUI_SIGNS", str(path))
+    main(["check", "road", "--speed", "60", "--radius", "200", "--posted-speed", "100"])
+    assert "[red]x[/red]" in capsys.readouterr().out
