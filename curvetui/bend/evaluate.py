@@ -18,6 +18,7 @@ from curvetui.bend.fields import BY_KEY
 from curvetui.bend.geometry import bend_geometry
 from curvetui.bend.outputs import OUTPUTS, TEXT
 from curvetui.bend.parse import Issue, Parsed
+from curvetui.bend.road_advisory import road_advisory
 from curvetui.bend.road_sight import road_sight
 from curvetui.bend.road_transition import road_transition
 from curvetui.core import transitions as tr
@@ -44,6 +45,14 @@ GAUGE_NOT_COVERED = 1 << 8  # the curve's gauge is not the one the rail limits a
 TRAFFIC_NOT_USED = 1 << 9  # traffic given, but the rail limits set no speed by traffic
 SPIRAL_NOT_NEEDED = 1 << 10  # radius above the table's largest that uses a spiral: a note
 CRASH_OUTSIDE_RANGE = 1 << 11  # R or arc below HSM Eq. 10-13's 100 ft, or its CMF below 1
+ADVISORY_BELOW_TABLE = 1 << 12  # the curve fails the table's f_max at its lowest speed
+SMALL_DEFLECTION = 1 << 13  # deflection under the sign table's reliable minimum: a note
+SIGNS_SINGLE_BEND = 1 << 14  # signs chosen for one bend: Reverse/Winding not available
+ADVISORY_FLAGS = {
+    "below_table": ADVISORY_BELOW_TABLE,
+    "small_deflection": SMALL_DEFLECTION,
+    "consecutive": SIGNS_SINGLE_BEND,
+}
 ROAD_SPIRAL_FLAGS = {
     "spiral_in_short": SPIRAL_IN_SHORT,
     "spiral_in_long": SPIRAL_IN_LONG,
@@ -86,6 +95,7 @@ class Context:
     units: UnitSystem
     table: RoadTable
     limits: RailLimits
+    signs: object = None  # a curvetui.core.signs.SignTable; None: the shipped default
 
 
 @dataclass
@@ -205,6 +215,7 @@ def _road(ev: Evaluation, rows: np.ndarray) -> None:
     road_transition(ev, rows, v, r, check.superelevation, width, ROAD_SPIRAL_FLAGS)
     road_sight(ev, rows, v, r, width, curve_length)
     road_crash_factors(ev, rows, check, CRASH_OUTSIDE_RANGE)
+    road_advisory(ev, rows, r, check.superelevation, ADVISORY_FLAGS)
 
 
 def _spiral(ev: Evaluation, key: str, rows) -> np.ndarray:

@@ -322,6 +322,19 @@ FIELDS: tuple[Field, ...] = (
         hint=" / ".join(AXES),
         short="rotation axis",
     ),
+    _f(
+        "posted_speed",
+        "Posted speed",
+        SPEED,
+        (ROAD,),
+        "posted (or 85th-percentile) speed of the approach, for the curve's warning signs "
+        "and advisory speed plaque (the sign table, e.g. MUTCD 2009 Table 2C-5)",
+        # speed limits in use (common practice, no source)
+        {ROAD: {"metric": (10.0, 150.0), "us": (5.0, 90.0)}},
+        default="no sign check",
+        short="posted speed",
+        hint="for the signs",
+    ),
 )
 
 BY_KEY: dict[str, Field] = {f.key: f for f in FIELDS}

@@ -108,6 +108,52 @@ _RAIL_NOT_EVALUATED = tuple(
     )
 )
 
+
+def _signs_of(ev: Evaluation):
+    return ev.parts["sign_table"]
+
+
+# the existing-curve notes (curvetui.bend.road_advisory); sources in the sign table's file
+ADVISORY_RULES = (
+    Rule(
+        "bend",
+        ev_mod.ADVISORY_BELOW_TABLE,
+        "note",
+        "inferred_design_speed_below_table",
+        lambda ev, i, ref, units: (
+            "inferred design speed: the curve's friction demand exceeds the table's f_max "
+            f"even at its lowest speed {float(ev.ctx.table.speeds[0]):g} "
+            f"{'km/h' if ev.ctx.table.units == 'metric' else 'mph'} (not extrapolated)"
+        ),
+        True,
+        "advisory",
+    ),
+    Rule(
+        "bend",
+        ev_mod.SMALL_DEFLECTION,
+        "note",
+        "deflection_not_reliable",
+        lambda ev, i, ref, units: (
+            f"deflection under {_signs_of(ev).reliable_deflection_min:g} degrees: such curves "
+            f"are not reliably measured ({_signs_of(ev).reliable_deflection_min_source})"
+        ),
+        True,
+        "advisory",
+    ),
+    Rule(
+        "bend",
+        ev_mod.SIGNS_SINGLE_BEND,
+        "note",
+        "signs_single_bend",
+        lambda ev, i, ref, units: (
+            f"signs by {_signs_of(ev).title}; {_signs_of(ev).consecutive_note}; the table "
+            f"applies to {_signs_of(ev).applies_to}"
+        ),
+        True,
+        "signs",
+    ),
+)
+
 RULES: tuple[Rule, ...] = (
     *(Rule("road", bit, sev, code, b, c, "", keys) for bit, sev, code, b, c, keys in ROAD_MESSAGES),
     *(Rule("rail", bit, sev, code, b, c, "", keys) for bit, sev, code, b, c, keys in RAIL_MESSAGES),
@@ -313,6 +359,7 @@ RULES: tuple[Rule, ...] = (
         True,
         "geometry",
     ),
+    *ADVISORY_RULES,
 )
 
 

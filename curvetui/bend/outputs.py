@@ -136,6 +136,16 @@ SIGHT = (
 # HSM 1st ed. 2010: Eq. 10-13's factor; SV (fraction) and Eqs. 10-14..16's factor; product
 CRASH = ("curvature_cmf", "superelevation_variance", "superelevation_cmf", "cmf")
 CRASH_WORKING = ("curve_length_mi", "radius_ft", "spirals")  # Eq. 10-13's Lc, R, S
+ADVISORY = (
+    "speed",  # rounded down to the sign table's step (5 mph; 10 km/h on metric projects)
+    "speed_calculated",  # V = sqrt(k R (e + f)) before rounding
+    "friction",  # f of the speed's band
+    "design_speed_inferred",  # highest speed within the road table's f_max (interpolated)
+    "design_speed_inferred_row",  # the highest table row met
+)
+# e used, percent; the rounding step; the band's top speed where V reached it (a gap)
+ADVISORY_WORKING = ("superelevation", "step", "band_top")
+SIGNS = ("sign", "warning_sign", "plaque", "chevrons")
 
 OUTPUTS: tuple[Output, ...] = (
     *(_o(k, (ROAD,), label=lab, short=sh, unit=u) for k, lab, sh, u in _ROAD_MAIN),
@@ -178,6 +188,17 @@ OUTPUTS: tuple[Output, ...] = (
     *(_o(f"crash.{k}", (ROAD,)) for k in CRASH),
     _o("crash.curvature_validity", (ROAD,), TEXT),
     *(_o(f"crash.{k}", (ROAD,), working=True) for k in CRASH_WORKING),
+    # the curve as an existing one (curvetui.bend.road_advisory): advisory speed by the design
+    # method, rounded down to the sign table's step; the inferred design speed; with a
+    # posted speed, the warning sign, the advisory speed plaque and chevrons
+    *(_o(f"advisory.{k}", (ROAD,)) for k in ADVISORY),
+    _o("advisory.design_speed_inferred_kind", (ROAD,), TEXT),
+    *(_o(f"advisory.{k}", (ROAD,), working=True) for k in ADVISORY_WORKING),
+    _o("advisory.capped", (ROAD,), TEXT, working=True),
+    _o("signs.posted_speed", (ROAD,), INPUT, echo=True),
+    _o("signs.speed_difference", (ROAD,)),
+    *(_o(f"signs.{k}", (ROAD,), TEXT) for k in SIGNS),
+    _o("signs.table", (ROAD,), TEXT, working=True),
 )
 BY_KEY = {o.key: o for o in OUTPUTS}
 assert len(BY_KEY) == len(OUTPUTS)

@@ -90,6 +90,9 @@ class BendRecord:
             record["crash"] = parts["crash"]
         if "superelevation_working" in parts:
             record["superelevation_working"] = parts["superelevation_working"]
+        for head in ("advisory", "signs"):  # the curve as an existing one (road_advisory)
+            if head in parts:
+                record[head] = parts[head]
         return record
 
 

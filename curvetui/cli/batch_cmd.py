@@ -79,6 +79,9 @@ def run(args: argparse.Namespace) -> int:
     units = unit_system(args.units)
     table = road_table(args.table, units.name)
     limits = rail_limits(args.limits, units.name)
+    from curvetui.storage.sign_tables import sign_table
+
+    sign_table()  # a bad CURVETUI_SIGNS is a usage error here, not an error on every row
     err = Console(stderr=True, highlight=False)
     out_path = _output_path(args)
     if args.input != "-" and out_path != "-":

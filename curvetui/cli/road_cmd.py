@@ -77,6 +77,8 @@ PART_TITLES = {
     "transition": "Transition and runoff",
     "sight": "Sight distance round the bend",
     "crash": "Curve crash factors (rural two-lane roads; HSM 1st ed. 2010)",
+    "advisory": "Existing curve: advisory speed and inferred design speed",
+    "signs": "Warning signs (posted speed given)",
 }
 
 
@@ -100,6 +102,8 @@ def print_parts(out, record: dict, units: UnitSystem) -> None:
                 value = format_station(value, units.name)
             elif isinstance(value, float):
                 value = f"{value:,.3f}"
+            else:  # words, some from a user's table file (a sign table's name): as text
+                value = markup(str(value))
             grid.add_row(key.replace("_", " "), str(value))
         out.print(grid)
 

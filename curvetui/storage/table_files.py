@@ -113,12 +113,18 @@ def load_user_files(kind: str, section: str, parse: Callable[[dict, str], object
         for path in paths:
             try:
                 data = read_table_file(path)
-                if "table" not in data and "limits" not in data:
-                    raise TableError(f"{path}: neither [table] nor [limits]: not a table file")
+                if not any(k in data for k in ("table", "limits", "signs")):
+                    raise TableError(
+                        f"{path}: none of [table], [limits], [signs]: not a table file"
+                    )
                 if section not in data:
                     continue  # the other kind's file
                 head = data[section]
-                if isinstance(head, dict) and head.get("kind", "road") not in ("road", "rail"):
+                if isinstance(head, dict) and head.get("kind", "road") not in (
+                    "road",
+                    "rail",
+                    "signs",
+                ):
                     raise TableError(f"{path}: 'kind' must be 'road' or 'rail'")
                 if section == "table" and isinstance(head, dict) and head.get("kind") == "rail":
                     continue

@@ -274,6 +274,18 @@ def results_renderable(
         grid.add_row(
             "curve length", f"{g.get('length', g.get('total_length')):,.2f}", units.length_label
         )
+    a = record.get("advisory") or {}
+    if a.get("speed") is not None:
+        grid.add_row("advisory speed", f"{a['speed']:g}", units.speed_label)
+    if a.get("design_speed_inferred") is not None:
+        grid.add_row(
+            "inferred V",
+            shown("safe_speed", a["design_speed_inferred"]),
+            f"{units.speed_label} ({a['design_speed_inferred_kind']})",
+        )
+    sg = record.get("signs")
+    if sg:
+        grid.add_row("sign", visible(str(sg["sign"])), f"chevrons {sg['chevrons']}")
     msgs = Text()
     for m in record["messages"]:
         style = {"fail": "bold red", "error": "bold red", "warning": "yellow"}

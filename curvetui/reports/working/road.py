@@ -12,6 +12,7 @@ from __future__ import annotations
 from curvetui.bend.display import shown
 from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem
+from curvetui.reports.working.advisory import advisory_steps
 from curvetui.reports.working.crash import crash_steps
 from curvetui.reports.working.geometry import geometry_steps
 from curvetui.reports.working.sight import sight_steps
@@ -88,6 +89,7 @@ def road_working(record: dict, table: RoadTable, units: UnitSystem) -> list[Step
         )
     )
     steps += _safe_speed_steps(record, table, units, K)
+    steps += advisory_steps(record, table, units, K)
     steps += road_transition_steps(record, units)
     steps += geometry_steps(record, units)
     steps += sight_steps(record, units)

@@ -52,6 +52,9 @@ FORMULA_SOURCES = {
     "Design superelevation": M5 + "; linear: e = e_max R_min / R (Method 1)",
     "Side friction demand": f"{AASHTO} Eq. 3-8 (point-mass model, read)",
     "Safe speed": f"{AASHTO} Eq. 3-8 solved for V; Table 3-7 interpolated",
+    "Advisory speed": "design method, TxDOT speed zones (read; REFERENCES)",
+    "Inferred design speed": "FHWA-SA-10-001 appendix (method read); Table 3-7 interpolated",
+    "Warning signs": "MUTCD 2009 2C.06 Table 2C-5: posted - advisory speed (read)",
     "Spiral length, comfort": f"{AASHTO} 3.3.8, L = v^3 / (C R) (from memory)",
     "Spiral length, least lateral shift": f"{AASHTO} 3.3.8, sqrt(24 p R) (from memory)",
     "Spiral length, most lateral shift": f"{AASHTO} 3.3.8, sqrt(24 p R) (from memory)",
@@ -215,6 +218,8 @@ def expected_road(inputs: dict, rec: dict, table, units: UnitSystem) -> Counter:
         labels += [*METHOD5, *([] if on_row else ["Average running speed"])]
     labels.append("Side friction demand")
     labels.append("Safe speed")
+    labels += ["Advisory speed", "Inferred design speed"]  # every road bend has them
+    labels += ["Warning signs"] if "signs" in rec else []  # with a posted speed
     t = rec["transition"]
     labels += [
         "Spiral length, comfort",
@@ -302,6 +307,7 @@ def road_bends(n: int, seed: int):
     """Road bends across both tables and both unit systems (a fifth in the other table's
     units), inside the fields' ranges."""
     rng = np.random.default_rng(seed)
+    signs_rng = np.random.default_rng(seed + 1)  # its own stream: the other draws unchanged
     for _ in range(n):
         units = METRIC if rng.random() < 0.5 else US
         own = rng.random() < 0.8
@@ -334,6 +340,9 @@ def road_bends(n: int, seed: int):
             if rng.random() < 0.5:
                 inputs["grade"] = round(float(rng.uniform(-15, 15)), 1)
         inputs.update(_geometry_inputs(rng, inputs["radius"] * units.length, units))
+        if signs_rng.random() < 0.4:
+            top = 150 if units is METRIC else 90
+            inputs["posted_speed"] = float(signs_rng.integers(2, top // 5 + 1) * 5)
         yield units, table, inputs
 
 
