@@ -15,7 +15,19 @@ from __future__ import annotations
 
 import math
 
-DOWN = ("safe_speed", "max_speed", "sight.speed_that_passes")
+DOWN = (
+    "safe_speed",
+    "max_speed",
+    "sight.speed_that_passes",
+    # an existing curve's speeds: the advisory is already a multiple of the sign table's
+    # step; the inferred design speed is claimed no higher than the curve meets
+    "advisory.speed",
+    "advisory.design_speed_inferred",
+    "advisory.design_speed_inferred_row",
+    "advisory.step",
+    "signs.posted_speed",
+    "signs.speed_difference",
+)
 UP = ("min_speed",)
 CANT = (
     "equilibrium_cant",

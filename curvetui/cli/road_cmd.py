@@ -86,6 +86,7 @@ def print_parts(out, record: dict, units: UnitSystem) -> None:
     """Print the geometry, transition and sight objects of a record as small tables."""
     from rich.table import Table
 
+    from curvetui.bend.display import DOWN, shown
     from curvetui.stations import format_station
 
     for part, title in PART_TITLES.items():
@@ -100,6 +101,8 @@ def print_parts(out, record: dict, units: UnitSystem) -> None:
                 continue
             if key in ("pi", "pc", "pt", "ts", "sc", "cs", "st"):
                 value = format_station(value, units.name)
+            elif isinstance(value, float) and f"{part}.{key}" in DOWN:
+                value = shown(f"{part}.{key}", value, units.name)  # whole speeds, safe side
             elif isinstance(value, float):
                 value = f"{value:,.3f}"
             else:  # words, some from a user's table file (a sign table's name): as text

@@ -115,3 +115,21 @@ def test_user_sign_table_name_is_text_not_markup(tmp_path, monkeypatch, capsys):
     monkeypatch.setenv("CURVETUI_SIGNS", str(path))
     main(["check", "road", "--speed", "60", "--radius", "200", "--posted-speed", "100"])
     assert "[red]x[/red]" in capsys.readouterr().out
+
+
+def test_text_output_gives_the_speeds_in_whole_units_to_the_safe_side(capsys):
+    """R 500 ft, e 6 %: V = sqrt(15 x 500 x (0.06 + 0.15)) = 39.69 mph (f 0.15 at 35 mph and
+    above, TxDOT; REFERENCES.md), shown as the advisory 35 (rounded down to 5 mph) beside
+    its unrounded 39.686; the posted 55 and the difference 20 as whole mph (the display
+    rule for speeds: common practice, no source)."""
+    main(
+        ["check", "road", "--units", "us", "--speed", "55", "--radius", "500", "--emax", "8",
+         "--superelevation", "6", "--posted-speed", "55", "--deflection", "40"]
+    )  # fmt: skip
+    rows = {
+        " ".join(line.strip("│ ").split("│")[0].split()): line.split("│")[-2].strip()
+        for line in capsys.readouterr().out.splitlines()
+        if line.count("│") >= 3
+    }
+    assert rows["speed"] == "35" and rows["speed calculated"] == "39.686"
+    assert rows["posted speed"] == "55" and rows["speed difference"] == "20"
