@@ -17,8 +17,9 @@ from curvetui.inputs import InputError, parse_number
 _NUMBER = r"^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$"
 
 
-# what pyarrow's text-to-float cast raises on a cell it does not read as a number
-_CAST_ERRORS = (pa.ArrowInvalid, pa.ArrowNotImplementedError)
+# what pyarrow's text-to-float cast raises on a cell it does not read as a number (the
+# batch reader gives every column as text, so no other cast error can arise)
+_CAST_ERRORS = (pa.ArrowInvalid,)
 
 
 def _to_float(text: pa.Array) -> np.ndarray:

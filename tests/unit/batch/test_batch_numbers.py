@@ -8,6 +8,8 @@ built-in ``round(x, 6)`` and ``float(text)`` (Python docs, Built-in Functions).
 
 from __future__ import annotations
 
+import re
+
 import numpy as np
 import pyarrow as pa
 from hypothesis import given, settings
@@ -58,3 +60,18 @@ def test_number_column_reads_what_float_reads():
 def test_decimal_comma():
     col = NumberColumn(pa.array(["250,5", "7"]), 2, decimal_comma=True)
     assert col.value.tolist() == [250.5, 7.0] and not col.bad.any()
+
+
+@settings(max_examples=150, deadline=None, derandomize=True)
+@given(st.lists(st.one_of(st.none(), st.text(max_size=12), st.floats().map(repr)), max_size=12))
+def test_any_text_column_casts_without_an_error(cells):
+    """Every text cell becomes a float or NaN, never an exception: the batch reader gives each
+    column as text, and a cell pyarrow cannot read sends the column the careful way. Each
+    finite value equals Python's float() of the cell (the reference), others are NaN."""
+    from curvetui.batch.numbers import _NUMBER, _to_float
+
+    got = _to_float(pa.array(cells, pa.string()))
+    assert got.shape == (len(cells),)
+    for cell, value in zip(cells, got, strict=True):
+        if cell is not None and re.match(_NUMBER, cell) and np.isfinite(float(cell)):
+            assert value == float(cell)
