@@ -1,6 +1,11 @@
 """`curvetui realign ... --sheet FILE` and `--view`: the options' checks and the files
 written. The survey is the worked example's measured versines (REFERENCES.md "Track
-realignment from versines (Hallade)"); only the faces are under test here."""
+realignment from versines (Hallade)"); only the faces are under test here.
+
+Sources of the check values: the worked example of REFERENCES.md "Track realignment from
+versines (Hallade)" (derived, exact; US Army TR 0671 3.18-3.28 read in outline); the
+caution text is the project's (every face must show it).
+"""
 
 from __future__ import annotations
 

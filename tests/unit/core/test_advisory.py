@@ -1,4 +1,11 @@
-"""curvetui.core.advisory: band matching, edges, rounding, table edges (hand values)."""
+"""curvetui.core.advisory: band matching, edges, rounding, table edges (hand values).
+
+Sources of the check values: V = sqrt(15 R (e + f)) (mph, ft) and the speed-banded side
+friction f 0.15 at 35 mph and above, 0.18 for 20-35 mph (TxDOT, read; REFERENCES.md
+"Existing curves"); f 0.21 below 20 mph FROM MEMORY (the stored text is garbled); advisory
+speeds in multiples of 5 mph (MUTCD 2009, read), rounded DOWN to the safe side (common
+practice, no source); f_max of AASHTO Green Book 2018 Table 3-7 (read) for the inferred
+design speed. Every expected number is the hand arithmetic written beside it."""
 
 from __future__ import annotations
 

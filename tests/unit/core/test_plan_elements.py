@@ -1,6 +1,12 @@
 """Plan elements from a chain and back: hand-worked simple curves (T = R tan(D/2),
 L = R D; Indiana DOT Design Manual Fig. 43-6D for PC = PI - T, PT = PC + L), reverse bends
-with no tangent between them, a spiral-spiral bend, and what is refused."""
+with no tangent between them, a spiral-spiral bend, and what is refused.
+
+Sources of the check values: T = R tan(D/2), L = R D (REFERENCES.md "Curve geometry", a
+surveying reference, read; e.g. Delta 60 deg, R 150 ft: T 86.60, L 157.08 ft); a clothoid's
+spiral angle Ls / (2R) (textbook clothoid geometry, REFERENCES.md "Geometry data"); the
+coordinates are the plane geometry written beside each check.
+"""
 
 from __future__ import annotations
 

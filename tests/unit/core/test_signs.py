@@ -1,5 +1,11 @@
 """curvetui.core.signs: row choice by the speed difference, Turn vs Curve (MUTCD 2009
-Table 2C-5 columns, read; Turn at 30 mph or less, read, TxDOT)."""
+Table 2C-5 columns, read; Turn at 30 mph or less, read, TxDOT).
+
+Sources of the check values: the column edges 5, 10, 15, 20, 25+ mph and "required from
+10 mph, chevrons from 15 mph" on the roads 2C.06 names (MUTCD 2009, read; REFERENCES.md
+"Existing curves"); the rest of the table body, the plaque entries and the 5 mph column
+are FROM MEMORY, as the shipped data file marks them; km/h differences converted with
+1 mph = 1.609344 km/h exactly (international mile)."""
 
 from __future__ import annotations
 

@@ -6,6 +6,13 @@ the versine at station i on the chord from i-1 to i+1 is v_i = y_i - (y_{i-1} + 
 (the chord's mid-ordinate, small angles; c^2 / (8R) on a circle). The designed track y_d
 has the designed versines d; the track as it lies is y_m = y_d - s (slewing it outward by s
 puts it on the design), so its measured versines are m = d + (s_{i-1} - 2 s_i + s_{i+1}) / 2.
+
+Sources of the check values: v = c^2 / (8R) and the Hallade slews s = 2 x second sums of
+(measured - designed) (REFERENCES.md "Track realignment from versines": read in outline
+from US Army TR 0671 3.18-3.28, the recurrence derived); the smallest slew limit is checked
+against scipy.optimize.linprog set up independently in this file; the least sum of squared
+slews as the objective is common practice, no source. The surveys are synthetic geometry
+built here (not project data).
 """
 
 import numpy as np

@@ -7,6 +7,11 @@ geometry) and the track fixed at the start (s_{-1} = s_0 = 0):
 so sum_{k<=n-1} e_k = F_{n-1} = (s_n - s_{n-1}) / 2 and
   sum_k k e_k = n sum_k e_k - G_n = n (s_n - s_{n-1}) / 2 - s_n / 2.
 Both vanish  <=>  s_{n-1} = s_n = 0 (the last slew and the one a station beyond it).
+
+Sources of the check values: the versine method's first and second sums and closure
+(REFERENCES.md "Track realignment from versines", US Army TR 0671 3.18-3.28 read in
+outline; the worked example there derived, exact); the telescoping sums above are the
+derivation the tests check, done by hand.
 """
 
 import numpy as np

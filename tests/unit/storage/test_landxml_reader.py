@@ -10,6 +10,13 @@ Hand calculation for tests/data/landxml/two-bends-metric.xml (see its comment):
   k 24.98698 m), 30 deg to the left from the TS at (E 150, N 150) heading east:
   T = (R + p) tan(15 deg) + k = 200.52054 x 0.2679492 + 24.98698 = 78.71630 m, so
   PI 2 = (E 228.71630, N 150).
+
+Sources of the check values: LandXML 1.2 schema (read; REFERENCES.md "Geometry data"):
+points written "northing easting", an infinite radius as INF, rot cw|ccw, angles in radians
+by default; the clothoid's p and k derived from the Fresnel integrals (REFERENCES.md);
+T = R tan(D/2) for a simple curve (REFERENCES.md "Curve geometry", a surveying reference,
+read); 1 ft = 0.3048 m exactly and the US survey foot 1200/3937 m (NIST SP 811, from
+memory). Every PI below is the hand arithmetic written out.
 """
 
 from __future__ import annotations

@@ -1,4 +1,10 @@
-"""Reading a versine survey: header, separators, rows named by number and column."""
+"""Reading a versine survey: header, separators, rows named by number and column.
+
+Sources of the check values: the expected numbers are the file's own cells read back (no
+engineering value is computed here); stations half a chord apart is the versine method's
+layout (REFERENCES.md "Track realignment from versines", US Army TR 0671 3.18-3.28, read
+in outline); the wording of the row and column messages is the project's own (common
+practice, no source)."""
 
 import pytest
 
