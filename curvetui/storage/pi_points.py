@@ -12,12 +12,17 @@ problems are given at once (``PointsFileError``), never a traceback.
 
 from __future__ import annotations
 
-import csv
 import math
 from dataclasses import dataclass
 
 from curvetui.inputs import InputError
-from curvetui.storage.small_csv import CsvFileError, cell_number, header_names, quoted
+from curvetui.storage.small_csv import (
+    CsvFileError,
+    bounded_numbers,
+    data_rows,
+    quoted,
+    read_layout,
+)
 
 MAX_POINTS_BYTES = 1_000_000  # 1 MB: thousands of PIs, far more than one road holds
 COLUMNS = ("id", "easting", "northing")
@@ -47,61 +52,20 @@ class PointsFile:
 def parse_points(text: str, path: str = "points file") -> PointsFile:
     """The chain from the file's text; PointsFileError listing every problem."""
     lines = text.splitlines()
-    first = next((i for i, line in enumerate(lines) if line.strip()), None)
-    if first is None:
-        raise PointsFileError(
-            path,
-            ["the file is empty: it needs a header row (easting,northing or id,easting,northing)"],
-        )
-    names, delimiter = header_names(lines[first])
+    layout = read_layout(
+        lines, COLUMNS, REQUIRED, PointsFileError, path,
+        empty="the file is empty: it needs a header row (easting,northing or id,easting,northing)",
+        listing=f"columns: {', '.join(COLUMNS)}; easting and northing required",
+        header="a points file's header names easting and northing (and optionally id)",
+    )  # fmt: skip
+    where = layout.where
     problems: list[str] = []
-    where: dict[str, int] = {}
-    for pos, name in enumerate(names):
-        if name not in COLUMNS:
-            problems.append(
-                f"row {first + 1}, column {pos + 1}: {quoted(name)} is not a column of a points "
-                f"file (columns: {', '.join(COLUMNS)}; easting and northing required)"
-            )
-        elif name in where:
-            problems.append(f"row {first + 1}: column {name!r} appears twice; keep one")
-        else:
-            where[name] = pos
-    missing = [c for c in REQUIRED if c not in where]
-    if missing:
-        problems.append(
-            f"row {first + 1} (the header): column{'s' if len(missing) > 1 else ''} "
-            f"{', '.join(missing)} missing; a points file's header names easting and "
-            "northing (and optionally id)"
-        )
-    if problems:
-        raise PointsFileError(path, problems)
-    decimal_comma = delimiter == ";"
     points: list[tuple[float, float]] = []
     cells_id: list[str] = []
     rows: list[int] = []
-    reader = csv.reader(lines[first + 1 :], delimiter=delimiter)
-    for offset, cells in enumerate(reader):
-        row = first + 2 + offset  # the file's line number (one record per line)
-        if not any(c.strip() for c in cells):
-            continue  # a blank line
-        if len(cells) != len(names):
-            problems.append(
-                f"row {row}: {len(cells)} value(s), the header has {len(names)} column(s)"
-            )
-            continue
-        xy = []
-        for col in ("easting", "northing"):
-            cell = cells[where[col]]
-            x = cell_number(cell, decimal_comma)
-            if x is None:
-                problems.append(f"row {row}, column {col}: {quoted(cell)} is not a number")
-            elif abs(x) > MAX_COORDINATE:
-                problems.append(
-                    f"row {row}, column {col}: {x:g} is outside -{MAX_COORDINATE:g} to "
-                    f"{MAX_COORDINATE:g}"
-                )
-            else:
-                xy.append(x)
+    bounds = (("easting", MAX_COORDINATE), ("northing", MAX_COORDINATE))
+    for row, cells in data_rows(lines, layout, problems):
+        xy = bounded_numbers(cells, row, layout, bounds, problems)
         ident = cells[where["id"]].strip() if "id" in where else ""
         if not ident.isprintable():
             problems.append(
@@ -110,7 +74,7 @@ def parse_points(text: str, path: str = "points file") -> PointsFile:
             )
         elif len(ident) > ID_LENGTH:
             problems.append(f"row {row}, column id: must be 1 to {ID_LENGTH} characters")
-        if len(xy) == 2:
+        if xy is not None:
             points.append((xy[0], xy[1]))
             cells_id.append(ident)
             rows.append(row)

@@ -6,6 +6,7 @@ from __future__ import annotations
 
 import csv
 import math
+from dataclasses import dataclass
 
 from curvetui.inputs import InputError
 
@@ -55,3 +56,86 @@ def header_names(line: str) -> tuple[list[str], str]:
         if len(names) > len(best):
             best, delimiter = names, candidate
     return [n.strip().lower() for n in best], delimiter
+
+
+@dataclass(frozen=True)
+class Layout:
+    """A small CSV file's header: its column names, the position of each known one, the
+    delimiter, and the index of the header line (blank lines before it skipped)."""
+
+    names: list[str]
+    where: dict[str, int]
+    delimiter: str
+    first: int
+
+    @property
+    def decimal_comma(self) -> bool:
+        """A semicolon file may write 12,5 for 12.5."""
+        return self.delimiter == ";"
+
+
+def read_layout(
+    lines: list[str], columns, required, error: type[CsvFileError], path: str, empty: str,
+    listing: str, header: str,
+) -> Layout:  # fmt: skip
+    """The header of ``lines``: every column one of ``columns``, none twice, every one of
+    ``required`` present; else ``error`` listing each problem by row and column. ``empty``,
+    ``listing`` and ``header`` are the file kind's words: the empty-file message, the
+    columns it takes, and what its header must name."""
+    first = next((i for i, line in enumerate(lines) if line.strip()), None)
+    if first is None:
+        raise error(path, [empty])
+    names, delimiter = header_names(lines[first])
+    problems: list[str] = []
+    where: dict[str, int] = {}
+    for pos, name in enumerate(names):
+        if name not in columns:
+            problems.append(
+                f"row {first + 1}, column {pos + 1}: {quoted(name)} is not a column of a "
+                f"{error.what} ({listing})"
+            )
+        elif name in where:
+            problems.append(f"row {first + 1}: column {name!r} appears twice; keep one")
+        else:
+            where[name] = pos
+    missing = [c for c in required if c not in where]
+    if missing:
+        problems.append(
+            f"row {first + 1} (the header): column{'s' if len(missing) > 1 else ''} "
+            f"{', '.join(missing)} missing; {header}"
+        )
+    if problems:
+        raise error(path, problems)
+    return Layout(names, where, delimiter, first)
+
+
+def data_rows(lines: list[str], layout: Layout, problems: list[str]):
+    """(row number, cells) of each line after the header (the file's line number, one record
+    a line); blank lines skipped, a line of the wrong width named in ``problems``."""
+    reader = csv.reader(lines[layout.first + 1 :], delimiter=layout.delimiter)
+    for offset, cells in enumerate(reader):
+        row = layout.first + 2 + offset
+        if not any(c.strip() for c in cells):
+            continue
+        if len(cells) != len(layout.names):
+            problems.append(
+                f"row {row}: {len(cells)} value(s), the header has {len(layout.names)} column(s)"
+            )
+            continue
+        yield row, cells
+
+
+def bounded_numbers(cells, row: int, layout: Layout, bounds, problems: list[str]):
+    """The cells of the columns in ``bounds`` ((column, largest magnitude), ...) as numbers,
+    or None with each bad cell named in ``problems``."""
+    got = []
+    for col, top in bounds:
+        cell = cells[layout.where[col]]
+        x = cell_number(cell, layout.decimal_comma)
+        if x is None:
+            problems.append(f"row {row}, column {col}: {quoted(cell)} is not a number")
+        elif abs(x) > top:
+            problems.append(f"row {row}, column {col}: {x:g} is outside -{top:g} to {top:g}")
+        else:
+            got.append(x)
+    return got if len(got) == len(bounds) else None

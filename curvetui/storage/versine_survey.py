@@ -12,11 +12,10 @@ its row number (the header is row 1) and column; all problems are given at once
 
 from __future__ import annotations
 
-import csv
 from dataclasses import dataclass
 
 from curvetui.inputs import InputError
-from curvetui.storage.small_csv import CsvFileError, cell_number, header_names, quoted
+from curvetui.storage.small_csv import CsvFileError, bounded_numbers, data_rows, read_layout
 
 MAX_SURVEY_BYTES = 1_000_000
 MAX_STATIONS = 1000  # the design search grows with the square of the stations
@@ -46,52 +45,20 @@ def parse_survey(text: str, spacing: float, path: str = "survey") -> Survey:
     """The survey from the file's text; stations must be ``spacing`` (half the chord) apart.
     SurveyFileError listing every problem."""
     lines = text.splitlines()
-    first = next((i for i, line in enumerate(lines) if line.strip()), None)
-    if first is None:
-        raise SurveyFileError(path, ["the file is empty: it needs a header row station,versine"])
-    names, delimiter = header_names(lines[first])
+    layout = read_layout(
+        lines, COLUMNS, COLUMNS, SurveyFileError, path,
+        empty="the file is empty: it needs a header row station,versine",
+        listing="columns: station, versine",
+        header="a survey's header is station,versine",
+    )  # fmt: skip
     problems: list[str] = []
-    where: dict[str, int] = {}
-    for pos, name in enumerate(names):
-        if name not in COLUMNS:
-            problems.append(
-                f"row {first + 1}, column {pos + 1}: {quoted(name)} is not a column of a survey "
-                f"(columns: station, versine)"
-            )
-        elif name in where:
-            problems.append(f"row {first + 1}: column {name!r} appears twice; keep one")
-        else:
-            where[name] = pos
-    missing = [c for c in COLUMNS if c not in where]
-    if missing:
-        problems.append(
-            f"row {first + 1} (the header): column{'s' if len(missing) > 1 else ''} "
-            f"{', '.join(missing)} missing; a survey's header is station,versine"
-        )
-    if problems:
-        raise SurveyFileError(path, problems)
-    decimal_comma = delimiter == ";"
     stations: list[float] = []
     versines: list[float] = []
     rows: list[int] = []
-    for offset, cells in enumerate(csv.reader(lines[first + 1 :], delimiter=delimiter)):
-        row = first + 2 + offset
-        if not any(c.strip() for c in cells):
-            continue
-        if len(cells) != len(names):
-            problems.append(f"row {row}: {len(cells)} value(s), the header has {len(names)}")
-            continue
-        got = []
-        for col, top in (("station", MAX_STATION), ("versine", MAX_VERSINE)):
-            cell = cells[where[col]]
-            x = cell_number(cell, decimal_comma)
-            if x is None:
-                problems.append(f"row {row}, column {col}: {quoted(cell)} is not a number")
-            elif abs(x) > top:
-                problems.append(f"row {row}, column {col}: {x:g} is outside -{top:g} to {top:g}")
-            else:
-                got.append(x)
-        if len(got) == 2:
+    bounds = (("station", MAX_STATION), ("versine", MAX_VERSINE))
+    for row, cells in data_rows(lines, layout, problems):
+        got = bounded_numbers(cells, row, layout, bounds, problems)
+        if got is not None:
             stations.append(got[0])
             versines.append(got[1])
             rows.append(row)
