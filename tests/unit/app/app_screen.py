@@ -41,6 +41,13 @@ def copy_demo(folder: Path) -> Path:
     return target
 
 
+def demo_session(folder: Path):
+    """A Session (no Textual) on a copy of the demo in ``folder``."""
+    from curvetui.app.session import Session
+
+    return Session.open(copy_demo(folder))
+
+
 def copy_demo_off_alignment(folder: Path) -> Path:
     """A copy of the demo without its alignment (format 2): its bends' deflection and PI
     station are then their own, typed in the form."""
@@ -230,6 +237,12 @@ def status_word(app: CurveApp, bend_id: str) -> str:
 def list_ids(app: CurveApp) -> list[str]:
     table = app.query_one(BendList)
     return [str(table.get_row_at(i)[0]) for i in range(table.row_count)]
+
+
+async def settle(pilot: Pilot, rounds: int = 6) -> None:
+    """Let a few rounds of messages run (a dialog opening, a recompute landing)."""
+    for _ in range(rounds):
+        await pilot.pause()
 
 
 async def go_to(app: CurveApp, pilot: Pilot, bend_id: str) -> None:

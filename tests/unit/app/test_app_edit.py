@@ -25,6 +25,7 @@ from app_screen import (
     row_cells,
     screen_text,
     set_box,
+    settle,
     show_view,
 )
 from textual import events
@@ -49,11 +50,6 @@ def burst(app, *keys: str) -> None:
     for key in keys:
         char = key if len(key) == 1 else None
         app.post_message(events.Key(key, char))
-
-
-async def settle(pilot, rounds: int = 6) -> None:
-    for _ in range(rounds):
-        await pilot.pause()
 
 
 def values(app, *keys: str) -> list[str]:

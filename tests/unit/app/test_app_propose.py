@@ -9,7 +9,7 @@ tests/unit/bend); here only the app's behaviour is under test.
 from __future__ import annotations
 
 import pytest
-from app_screen import caution_on_screen, copy_demo, drive, flat, go_to, screen_text
+from app_screen import caution_on_screen, copy_demo, drive, flat, go_to, screen_text, settle
 from textual.widgets import Button, Input
 
 from curvetui.app.dialogs.proposal import ProposalDialog
@@ -20,11 +20,6 @@ pytestmark = pytest.mark.app
 @pytest.fixture
 def demo_path(tmp_path):
     return copy_demo(tmp_path)
-
-
-async def settle(pilot, rounds: int = 6) -> None:
-    for _ in range(rounds):
-        await pilot.pause()
 
 
 def test_f7_shows_applies_and_ctrl_r_puts_back_the_proposal(demo_path):

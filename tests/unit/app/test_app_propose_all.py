@@ -10,7 +10,7 @@ tests/unit/bend); here only the app's behaviour is under test.
 from __future__ import annotations
 
 import pytest
-from app_screen import caution_on_screen, copy_demo, drive, flat, go_to, screen_text
+from app_screen import caution_on_screen, copy_demo, drive, flat, go_to, screen_text, settle
 from textual.widgets import Button, Static
 
 from curvetui.app.dialogs.proposal import ProposalDialog
@@ -22,11 +22,6 @@ pytestmark = pytest.mark.app
 @pytest.fixture
 def demo_path(tmp_path):
     return copy_demo(tmp_path)
-
-
-async def settle(pilot, rounds: int = 6) -> None:
-    for _ in range(rounds):
-        await pilot.pause()
 
 
 def test_propose_every_bend_applies_as_one_step_and_ctrl_r_puts_all_back(demo_path):

@@ -7,23 +7,16 @@ tested against published values in tests/unit/core and tests/unit/bend.
 
 from __future__ import annotations
 
-import shutil
-from pathlib import Path
-
 import pytest
+from app_screen import demo_session
 
 from curvetui.app.proposals import propose_for
-from curvetui.app.session import Session
 from curvetui.inputs import InputError
-
-DEMO = Path(__file__).resolve().parents[3] / "projects" / "quillmere-valley-road.json"
 
 
 @pytest.fixture
 def session(tmp_path):
-    path = tmp_path / "demo.json"
-    shutil.copyfile(DEMO, path)
-    return Session.open(path)
+    return demo_session(tmp_path)
 
 
 def test_apply_is_one_change_and_putting_back_restores_every_field(session):
