@@ -235,29 +235,18 @@ def _run(
     options = pcsv.WriteOptions(delimiter=header.delimiter, quoting_style="needed")
     if sink is not None:
         names = schema.names if keep_formulas else [neutral_text(n) for n in schema.names]
-        try:
+        with _reader_may_leave(summary):
             pcsv.write_csv(schema.empty_table().rename_columns(names), sink, options)  # header
-        except OSError as exc:
-            if not _closed_pipe(exc):
-                raise
-            summary.output_closed = True
     worst: list[tuple[float, int, str, str, str]] = []
     pool = None
     pending: collections.deque = collections.deque()
 
     def take(part: Part) -> None:
-        try:
+        with _reader_may_leave(summary):
             if part.data is not None and not summary.output_closed:
                 sink.write(part.data)
             if part.table is not None and sink is not None and not summary.output_closed:
                 pcsv.write_csv(written(part.table), sink, _no_header(options))
-        except OSError as exc:  # BrokenPipeError, or pyarrow's own words for it
-            if not _closed_pipe(exc):
-                raise
-            # the reader went away (e.g. `| head`): every row is still checked, so the
-            # summary and the exit code tell what the file holds
-            summary.output_closed = True
-            summary.written_rows = summary.rows
         if part.table is not None and on_table is not None:
             on_table(part.table)
         merge(summary, part, worst)
@@ -329,6 +318,20 @@ def not_utf8_rows(batch: pa.RecordBatch, rows: np.ndarray, numbering):
         numbering.bad.append((int(rows[i]), NOT_UTF8_ROW, cells))
     numbering.bad.sort()
     return batch.filter(pa.array(~mask)), rows[~mask]
+
+
+@contextlib.contextmanager
+def _reader_may_leave(summary: Summary):
+    """Run a write to the output; if the reader of a pipe went away (e.g. `| head`), mark the
+    output closed instead of stopping: every row is still checked, so the summary and the
+    exit code tell what the file holds."""
+    try:
+        yield
+    except OSError as exc:  # BrokenPipeError, or pyarrow's own words for it
+        if not _closed_pipe(exc):
+            raise
+        summary.output_closed = True
+        summary.written_rows = summary.rows
 
 
 def _closed_pipe(exc: OSError) -> bool:
