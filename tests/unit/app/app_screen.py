@@ -41,13 +41,6 @@ def copy_demo(folder: Path) -> Path:
     return target
 
 
-def demo_session(folder: Path):
-    """A Session (no Textual) on a copy of the demo in ``folder``."""
-    from curvetui.app.session import Session
-
-    return Session.open(copy_demo(folder))
-
-
 def copy_demo_off_alignment(folder: Path) -> Path:
     """A copy of the demo without its alignment (format 2): its bends' deflection and PI
     station are then their own, typed in the form."""

@@ -8,7 +8,7 @@ tested against published values in tests/unit/core and tests/unit/bend.
 from __future__ import annotations
 
 import pytest
-from app_screen import demo_session
+from demo_session import demo_session
 
 from curvetui.app.proposals import propose_for
 from curvetui.inputs import InputError
