@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from curvetui.core.road import speed_within_table
 from curvetui.core.road_table import ABOVE_TABLE, BELOW_TABLE, INTERPOLATED, ROW
 
 __all__ = [
@@ -81,47 +82,25 @@ def round_speed(speed, step: float, capped=False, mode: str = "down"):
 
 
 def inferred_design_speed(radius, e, speeds, f_max, k: float):
-    """Highest speed [m/s] at which f = v^2/(k R) - e is within the table's f_max(v).
+    """Highest speed [m/s] at which f = v^2/(k R) - e is within the table's f_max(v): the
+    safe speed's own solve (``curvetui.core.road.speed_within_table``: f_max linear between
+    rows, the crossing a quadratic, the table never extended), told as the FHWA guide's
+    method reports it (FHWA-SA-10-001, 2009, appendix; REFERENCES.md).
 
     ``speeds`` [m/s] ascending and ``f_max`` the table's rows; ``k`` the table's constant
-    in SI. Between rows f_max is linear in v, so on the segment where the demand first
-    exceeds f_max the crossing solves v^2/(k R) - s v - (e + f_a - s v_a) = 0 (s the slope
-    of f_max; the larger root, as the left side is convex and <= 0 at v_a).
-
-    Returns (speed [m/s], kind, highest table row met [m/s]): kind INTERPOLATED (between
-    rows), ROW (exactly on a row), ABOVE_TABLE (the curve meets even the top row: the
-    speed given is that row, "at least"; no extrapolation), BELOW_TABLE (it fails the lowest
-    row: NaN). The row speed is NaN below the table.
+    in SI. Returns (speed [m/s], kind, highest table row met [m/s]): kind INTERPOLATED
+    (between rows), ROW (on a row), ABOVE_TABLE (the curve meets even the top row: the
+    speed given is that row, "at least"), BELOW_TABLE (it fails the lowest row: NaN, and
+    the row speed NaN).
     """
-    r = np.asarray(radius, dtype=float)
-    e_ = np.asarray(e, dtype=float)
     xs = np.asarray(speeds, dtype=float)
-    fs = np.asarray(f_max, dtype=float)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        excess = xs**2 / (k * r[..., None]) - e_[..., None] - fs  # > 0: demand over f_max
-    meets = excess <= 1e-12
-    m = len(xs)
-    # the last row met before the first failed row (the demand gap rises with speed
-    # when f_max does not rise; the first failure is used so a rising f_max cannot skip one)
-    fails = ~meets
-    first_fail = np.where(fails.any(axis=-1), np.argmax(fails, axis=-1), m)
-    last = first_fail - 1
-    row_speed = np.where(last >= 0, xs[np.clip(last, 0, m - 1)], np.nan)
-    a = np.clip(last, 0, m - 2)
-    b = a + 1
-    va, vb, fa, fb = xs[a], xs[b], fs[a], fs[b]
-    s = (fb - fa) / (vb - va)
-    big_a = 1.0 / (k * r)
-    c = -(e_ + fa - s * va)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        root = (s + np.sqrt(s * s - 4 * big_a * c)) / (2 * big_a)
-    inside = (last >= 0) & (first_fail < m)
-    speed = np.where(inside, np.clip(root, va, vb), np.where(last == m - 1, xs[-1], np.nan))
+    speed, beyond = speed_within_table(radius, e, xs, f_max, k)
+    met = np.sum(xs <= speed[..., None] * (1 + 1e-12), axis=-1)  # rows at or below it
+    row_speed = np.where(met > 0, xs[np.clip(met - 1, 0, None)], np.nan)
+    on_row = np.abs(speed - row_speed) <= 1e-12 * xs[-1]
     kind = np.where(
-        last < 0,
+        beyond < 0,
         BELOW_TABLE,
-        np.where(
-            first_fail >= m, ABOVE_TABLE, np.where(speed <= va * (1 + 1e-12), ROW, INTERPOLATED)
-        ),
+        np.where(beyond > 0, ABOVE_TABLE, np.where(on_row, ROW, INTERPOLATED)),
     )
     return speed, kind, row_speed

@@ -78,11 +78,18 @@ def safe_speed(table: RoadTable, radius, superelevation, friction=None):
         total = np.maximum(e + np.asarray(friction, dtype=float), 0.0)
         v = np.sqrt(k * r * total)
         return v, np.zeros(np.shape(v), dtype=int)
-    xs = table.speeds_si
-    fs = table.side_friction_max
-    r_, e_ = np.broadcast_arrays(r, e)
+    return speed_within_table(r, e, table.speeds_si, table.side_friction_max, k)
+
+
+def speed_within_table(radius, superelevation, speeds, f_max, k: float):
+    """``safe_speed`` on a table given as its rows: ``speeds`` [m/s] ascending, ``f_max``
+    (non-increasing) and ``k`` in SI. Returns (speed [m/s], beyond [-1, 0 or +1])."""
+    xs = np.asarray(speeds, dtype=float)
+    fs = np.asarray(f_max, dtype=float)
+    r_, e_ = np.broadcast_arrays(np.asarray(radius, float), np.asarray(superelevation, float))
     # g(v) = v^2/(kR) - e - f_max(v) rises with v: count rows where it is still negative.
-    g_rows = xs**2 / (k * r_[..., None]) - e_[..., None] - fs
+    with np.errstate(divide="ignore", invalid="ignore"):
+        g_rows = xs**2 / (k * r_[..., None]) - e_[..., None] - fs
     count = np.sum(g_rows < 0, axis=-1)
     seg = np.clip(count - 1, 0, len(xs) - 2)
     slope = (fs[seg + 1] - fs[seg]) / (xs[seg + 1] - xs[seg])
