@@ -118,8 +118,8 @@ def _inputs(bend, units, given: dict | None = None) -> list[tuple[str, str, str]
             text, unit = format_station(to_number(value), units.name), ""
         else:
             text = _value_text(round(value, 6) if key in given else value)
-        if key in given:
-            unit = f"{unit} (from the alignment)".strip()
+        if key in given:  # beside the value: the unit column is narrow on the PDF
+            text = f"{text} (from the alignment)"
         rows.append((FIELD_NAMES[key], text, unit))
     return rows
 

@@ -18,7 +18,11 @@ from curvetui.reports.superelevation_diagram import Diagram, diagram_for_record,
 from curvetui.stations import format_station
 
 PLOT_HEIGHT = 38.0  # mm, the drawing's plot area
-BLOCK_HEIGHT = 96.0  # mm, heading, drawing, station labels, table and notes
+# mm, heading, drawing, station labels and key-station table (measured 102.8 mm on the
+# demo's bends; the block is kept whole on a page: tests/unit/reports/test_sheet_crossfall)
+BLOCK_HEIGHT = 103.0
+NOTE_HEIGHT = 3.4 * 2  # mm, a red note (up to two lines) below the table
+CAPTION_HEIGHT = 2.8  # mm, the grey line naming the CSV command
 BREAK_GAP = 8.0  # mm, the gap drawn where a long full-superelevation stretch is cut
 
 
@@ -88,11 +92,20 @@ def markdown_lines(d: Diagram | None, note: str) -> list[str]:
     return out
 
 
+def block_height(d: Diagram | None) -> float:
+    """The height [mm] the block needs: drawing and table, its notes and caption."""
+    if d is None:
+        return 12.0
+    return BLOCK_HEIGHT + NOTE_HEIGHT * len(d.notes) + CAPTION_HEIGHT
+
+
 def pdf_crossfall(pdf, d: Diagram | None, note: str, bend_id: str) -> None:
     """The block at the current position, or on a new page when it does not fit."""
     if d is None and not note:
         return
-    if pdf.get_y() + (BLOCK_HEIGHT if d is not None else 12) > pdf.page_break_trigger:
+    # the whole block, its notes and caption included, stays on one page
+    need = block_height(d)
+    if pdf.get_y() + need > pdf.page_break_trigger:
         pdf.add_page()
         pdf.set_font(FONT, "B", 10)
         pdf.cell(0, 6, f"Bend {bend_id}, continued", new_x="LMARGIN", new_y="NEXT")

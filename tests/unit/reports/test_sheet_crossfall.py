@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import io
 import re
+from pathlib import Path
 
 import pytest
 from pypdf import PdfReader
@@ -106,3 +107,23 @@ def test_no_diagram_is_said_and_rail_has_none():
     rail = render_text(project({"speed": 100, "radius": 1000, "cant": 80, "deflection": 20},
                                "rail"))  # fmt: skip
     assert "SUPERELEVATION" not in rail
+
+
+def test_the_block_fits_the_room_it_asks_for():
+    """Drawn on a fresh page, each demo bend's diagram block (drawing, table, notes,
+    caption) takes no more height than ``block_height`` reserves, so it is never split
+    with its last line alone on a page (seen once: page 5 of the demo held one line)."""
+    from curvetui.reports.sheet.content import build
+    from curvetui.reports.sheet.crossfall import block_height, pdf_crossfall
+    from curvetui.reports.sheet.layout import new_pdf
+
+    demo = Path(__file__).parents[3] / "projects" / "quillmere-valley-road.json"
+    s = build(demo)
+    drawn = [b for b in s.bends if b.diagram is not None]
+    assert drawn
+    for b in drawn:
+        pdf = new_pdf(s, "a4")
+        pdf.add_page()
+        top, page = pdf.get_y(), pdf.page
+        pdf_crossfall(pdf, b.diagram, b.diagram_note, b.bend_id)
+        assert pdf.page == page and pdf.get_y() - top <= block_height(b.diagram)
