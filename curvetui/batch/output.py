@@ -27,14 +27,17 @@ from curvetui.batch.summary import (
 MESSAGE_ITEMS = "__messages__"  # the extra column ``on_table`` readers get (never written)
 
 
-def output_schema(header: Header) -> pa.Schema:
-    """The written columns: every input column as text, then the result columns."""
+def output_schema(header: Header, results: tuple[str, ...] | None = None) -> pa.Schema:
+    """The written columns: every input column as text, then the result columns
+    (``results``, see columns.chosen_results; None: all)."""
     types = {cols.FLOAT: pa.float64(), cols.INT: pa.int64(), cols.TEXT: pa.string()}
-    out_names = cols.output_names(list(header.names))
+    if results is None:
+        results = cols.result_names(list(header.names))
+    out_names = cols.chosen_output_names(list(header.names), results)
     fields = [pa.field(name, pa.string()) for name in header.names]
     fields += [
-        pa.field(name, types[kind])
-        for name, (_, kind) in zip(out_names, cols.results_for(list(header.names)), strict=True)
+        pa.field(name, types[cols.TYPE_OF[key]])
+        for name, key in zip(out_names, results, strict=True)
     ]
     return pa.schema(fields)
 
@@ -64,7 +67,7 @@ def error_rows_table(
             arrays.append(pa.array(rows, pa.int64()))
         elif base == "status" and fld.type == pa.string():
             arrays.append(pa.array(["error"] * n, pa.string()))
-        elif base == "messages" and fld.type == pa.string():
+        elif base in ("messages", cols.FINDINGS) and fld.type == pa.string():
             arrays.append(pa.array(messages, pa.string()))
         else:
             arrays.append(pa.nulls(n, fld.type))
@@ -78,8 +81,16 @@ class Job:
     header: Header
     schema: pa.Schema
     ctx: BatchContext
-    want_bytes: bool
+    want_bytes: bool  # CSV bytes; else a table (Parquet, or the app)
     keep_formulas: bool = False  # write cells that would run as formulas verbatim
+    items: bool = False  # each row's messages as a list too (the app)
+
+    @property
+    def results(self) -> tuple[str, ...]:
+        """The result columns written, in order."""
+        if self.ctx.results is not None:
+            return self.ctx.results
+        return cols.result_names(list(self.header.names))
 
 
 @dataclass
@@ -102,7 +113,7 @@ def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> Par
     tables = _checked_tables(job, batch, rows, part)
     if bad:
         bad_table = bad_rows_table(bad, job.header, job.schema)
-        if not job.want_bytes:
+        if job.items:
             bad_table = _with_items(job, bad_table)
         tables.append(bad_table)
         tally_bad_rows(part, bad, job.header)
@@ -112,7 +123,7 @@ def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> Par
         tbl = tables[0]
     else:
         tbl = pa.concat_tables(tables)
-        row_at = width + cols.result_names(list(job.header.names)).index("row")
+        row_at = width + job.results.index("row")
         tbl = tbl.take(pc.sort_indices(tbl.column(row_at)))
     if job.want_bytes:
         if not job.keep_formulas:
@@ -147,11 +158,11 @@ def _checked_table(job: Job, batch: pa.RecordBatch, rows: np.ndarray, part: Part
     header, schema = job.header, job.schema
     width = len(header.names)
     cells = {key: batch.column(pos) for key, pos in header.known.items()}
-    result = evaluate_chunk(cells, rows, job.ctx, items=not job.want_bytes)
+    result = evaluate_chunk(cells, rows, job.ctx, items=job.items)
     arrays = [batch.column(i) for i in range(width)]
-    arrays += [result.columns[name] for name in cols.result_names(list(header.names))]
+    arrays += [result.columns[name] for name in job.results]
     tbl = pa.Table.from_arrays(arrays, schema=schema)
-    if not job.want_bytes:  # the reader gets each row's messages as a list too
+    if job.items:  # the reader gets each row's messages as a list too
         tbl = tbl.append_column(MESSAGE_ITEMS, result.items)
     own = Tally()  # counted apart, so a chunk that raises half-way counts nothing twice
     tally_rows(own, result, rows, batch, header.known.get("id"))
@@ -168,7 +179,7 @@ def _unchecked_row(job: Job, batch: pa.RecordBatch, number: int, exc: Exception,
         f"{type(exc).__name__}); please report it with the row"
     )
     tbl = error_rows_table([cells], [number], [text], width, job.schema)
-    if not job.want_bytes:
+    if job.items:
         tbl = _with_items(job, tbl)
     id_pos = job.header.known.get("id")
     tally_error_row(part, number, "" if id_pos is None else str(cells[id_pos]).strip(), text)
@@ -177,7 +188,8 @@ def _unchecked_row(job: Job, batch: pa.RecordBatch, number: int, exc: Exception,
 
 def _with_items(job: Job, tbl: pa.Table) -> pa.Table:
     """An error table with the messages column the app reads, one error item per row."""
-    at = len(job.header.names) + cols.result_names(list(job.header.names)).index("messages")
+    name = "messages" if "messages" in job.results else cols.FINDINGS
+    at = len(job.header.names) + job.results.index(name)
     lines = tbl.column(at).to_pylist()
     return tbl.append_column(
         MESSAGE_ITEMS,
