@@ -230,10 +230,11 @@ def evaluate_chunk(
     messages = _Messages(n)
     findings = _Messages(n) if every_line and cols.FINDINGS in ctx.written else None
     pieces: list[tuple[np.ndarray, str, list[str] | str]] = []
-    for part in message_parts(ev, column_name):
-        is_finding = part.rule.severity != "note" or part.rule.code in cols.FINDING_NOTES
-        if not (every_line or is_finding):
-            continue
+
+    def is_finding(rule) -> bool:
+        return rule.severity != "note" or rule.code in cols.FINDING_NOTES
+
+    for part in message_parts(ev, column_name, None if every_line else is_finding):
         prefix = f"{part.rule.part}: " if part.rule.part else ""
         word = {"fail": "FAIL", "warning": "WARNING", "note": "NOTE"}[part.rule.severity]
         if isinstance(part.texts, str):
@@ -241,7 +242,7 @@ def evaluate_chunk(
         else:
             lines = [f"{prefix}{word} {t}" for t in part.texts]
         messages.add(part.rows, lines)
-        if findings is not None and is_finding:
+        if findings is not None and is_finding(part.rule):
             findings.add(part.rows, lines)
         pieces.append((part.rows, part.rule.severity, lines))
     joined = messages.array()

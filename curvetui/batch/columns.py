@@ -42,22 +42,22 @@ RESULTS: tuple[tuple[str, str], ...] = (
 RESULT_NAMES = tuple(name for name, _ in RESULTS)
 assert len(set(RESULT_NAMES)) == len(RESULT_NAMES)
 
-# the FAIL, WARNING and ERROR lines of ``messages`` (and the notes that qualify a value the
-# default writes: a safe speed that is "at least" the table's top speed); not in ``all``,
+# the FAIL, WARNING and ERROR lines of ``messages``, without the notes; not in ``all``,
 # whose ``messages`` holds every line
 FINDINGS = "findings"
-FINDING_NOTES = frozenset({"safe_speed_at_least"})  # message codes kept with the findings
+FINDING_NOTES: frozenset[str] = frozenset()  # codes of notes kept with the findings (none)
 ALWAYS = ("row", "status")  # and messages or findings: a failed check is never left out
 TYPE_OF = {**dict(RESULTS), FINDINGS: TEXT}
 
 # the headline results, by the kind of bend they belong to (curvetui.bend.outputs kinds);
-# the checks' values beside their limits, the advisory speed, signs and crash factor
+# the checks' values beside their limits, the advisory speed, signs and crash factor. The
+# safe speed is left to ``all``: the inferred design speed is the same solve told as the
+# highest table speed met (without the safe speed's "at least the table's top" note)
 DEFAULT_ROAD = (
     "side_friction_demand",
     "side_friction_max",
     "min_radius",
     "superelevation",
-    "safe_speed",
     "sight.status",
     "crash.cmf",
     "advisory.speed",

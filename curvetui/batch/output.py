@@ -2,16 +2,15 @@
 
 from __future__ import annotations
 
-import io
 from dataclasses import dataclass
 
 import numpy as np
 import pyarrow as pa
 import pyarrow.compute as pc
-import pyarrow.csv as pcsv
 
 from curvetui.batch import columns as cols
 from curvetui.batch.chunk import MESSAGE_ITEM, BatchContext, evaluate_chunk
+from curvetui.batch.csv_text import csv_lines
 from curvetui.batch.formulas import neutralise
 from curvetui.batch.header import Header
 from curvetui.batch.summary import (
@@ -128,12 +127,7 @@ def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> Par
     if job.want_bytes:
         if not job.keep_formulas:
             tbl = neutralise(tbl)
-        options = pcsv.WriteOptions(
-            include_header=False, delimiter=job.header.delimiter, quoting_style="needed"
-        )
-        buf = io.BytesIO()
-        pcsv.write_csv(tbl, buf, options)
-        part.data = buf.getvalue()
+        part.data = csv_lines(tbl, job.header.delimiter)
     else:
         part.table = tbl
     return part

@@ -31,6 +31,7 @@ import pyarrow.csv as pcsv
 from curvetui import CAUTION
 from curvetui.batch import columns as cols
 from curvetui.batch.chunk import BatchContext
+from curvetui.batch.csv_text import csv_header, csv_lines
 from curvetui.batch.formulas import neutral_text, neutralise
 from curvetui.batch.header import HEAD_BYTES, BatchFileError, read_header
 from curvetui.batch.output import Job, Part, output_schema, process_chunk
@@ -296,7 +297,6 @@ def _run(
     summary.results = job.results
     summary.units = units.name
     written = (lambda t: t) if keep_formulas else neutralise
-    options = pcsv.WriteOptions(delimiter=header.delimiter, quoting_style="needed")
     pq_out = None
     if sink is not None and parquet_out:
         about = {"units": units.name, "table": table.name, "limits": limits.name}
@@ -304,7 +304,7 @@ def _run(
     elif sink is not None:
         names = schema.names if keep_formulas else [neutral_text(n) for n in schema.names]
         with _reader_may_leave(summary):
-            pcsv.write_csv(schema.empty_table().rename_columns(names), sink, options)  # header
+            sink.write(csv_header(names, header.delimiter))
     worst: list[tuple[float, int, str, str, str]] = []
     pool = None
     pending: collections.deque = collections.deque()
@@ -317,7 +317,7 @@ def _run(
                 if pq_out is not None:
                     pq_out.write_table(part.table)
                 else:
-                    pcsv.write_csv(written(part.table), sink, _no_header(options))
+                    sink.write(csv_lines(written(part.table), header.delimiter))
         if part.table is not None and on_table is not None:
             on_table(part.table)
         merge(summary, part, worst)
@@ -413,12 +413,6 @@ def _closed_pipe(exc: OSError) -> bool:
         isinstance(exc, BrokenPipeError)
         or exc.errno == errno.EPIPE
         or ("broken pipe" in str(exc).lower())
-    )
-
-
-def _no_header(options: pcsv.WriteOptions) -> pcsv.WriteOptions:
-    return pcsv.WriteOptions(
-        include_header=False, delimiter=options.delimiter, quoting_style="needed"
     )
 
 
