@@ -174,6 +174,7 @@ def _quiet_stdout() -> None:
 
 
 REASONS_SHOWN = 20  # rules listed; the rest counted in the title
+RESULTS_LISTED = 30  # result column names listed in the summary; the rest counted
 
 
 def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> None:
@@ -217,7 +218,10 @@ def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> Non
     err.print(clean(f"units: {s.units}"), markup=False)
     err.print(clean(f"road table: {table.name} ({table.source})"), markup=False)
     err.print(clean(f"rail limits: {limits.name} ({limits.source})"), markup=False)
-    err.print(clean(f"result columns ({len(s.results)}): {', '.join(s.results)}"), markup=False)
+    said = ", ".join(s.results[:RESULTS_LISTED])
+    if len(s.results) > RESULTS_LISTED:
+        said += f" and {len(s.results) - RESULTS_LISTED} more"
+    err.print(clean(f"result columns ({len(s.results)}): {said}"), markup=False)
     if out_path != "-":
         err.print(clean(f"results written to {out_path}"), markup=False)
     err.print(f"[bold yellow]{CAUTION}[/]")
