@@ -50,13 +50,16 @@ def csv_lines(table: pa.Table, delimiter: str = ",") -> bytes:
     if not table.num_rows:
         return b""
     cells = [cell_text(c.combine_chunks(), delimiter) for c in table.columns]
+    # the line end joined to the last cell (one short column, not every whole line again)
+    cells[-1] = pc.binary_join_element_wise(
+        cells[-1], "\n", "", null_handling="replace", null_replacement=""
+    )
     lines = pc.binary_join_element_wise(
         *cells, delimiter, null_handling="replace", null_replacement=""
     )
-    lines = pc.binary_join_element_wise(lines, "", "\n")
     offsets = np.frombuffer(lines.buffers()[1], dtype=np.int32)
     start, end = offsets[lines.offset], offsets[lines.offset + len(lines)]
-    return lines.buffers()[2].to_pybytes()[start:end]
+    return memoryview(lines.buffers()[2])[start:end].tobytes()
 
 
 def csv_header(names: list[str], delimiter: str = ",") -> bytes:
