@@ -141,3 +141,21 @@ def test_exit_code_counts_every_row_when_the_reader_closes_the_pipe_early(tmp_pa
     assert proc.wait(timeout=120) == 1
     assert "closed it early" in err and f"every one of the {len(rows) * 700:,} rows" in err
     assert "Traceback" not in err and "Exception ignored" not in err
+
+
+def test_columns_unknown_name_is_a_usage_error(tmp_path, capsys):
+    src = tmp_path / "inventory.csv"
+    src.write_text(GOOD)
+    dest = tmp_path / "out.csv"
+    assert main(["batch", str(src), "-o", str(dest), "--columns", "min_radius,radius_min"]) == 2
+    err = " ".join(capsys.readouterr().err.split())
+    assert "unknown result name 'radius_min'" in err and "advisory.speed" in err
+    assert not dest.exists()
+
+
+def test_a_file_named_parquet_that_is_not_parquet_exits_2(tmp_path, capsys):
+    src = tmp_path / "inventory.parquet"
+    src.write_text(GOOD)
+    assert main(["batch", str(src)]) == 2
+    assert "cannot read the file as Parquet" in " ".join(capsys.readouterr().err.split())
+    assert not (tmp_path / "inventory.checked.parquet").exists()
