@@ -45,8 +45,7 @@ PLACE_NAMES = (
     "out of order",
     "ends before it begins",
 )
-LEFT, RIGHT = 0, 1
-DIRECTIONS = ("left", "right")  # the register's words, in code order
+LEFT, RIGHT = 0, 1  # the register's words "left", "right" (curvetui.bend.fields)
 WINDING_MIN = 3  # curves: "three or more changes of direction" (MUTCD 2009 2C.07, memory)
 LOOKAHEAD = 2  # rows after a curve that can change its place
 LOOKBEHIND = 3  # rows before it that can (whether the one before starts its series)
