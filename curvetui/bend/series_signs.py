@@ -23,14 +23,13 @@ WORDS = {
 
 
 def series_note(t: SignTable) -> str:
-    """The note of a curve whose signs were chosen with its neighbours."""
+    """The note of a curve whose signs were chosen with its neighbours: short, as it is on
+    every such row of a batch file; the rules' sources are in the sign table's file (and the
+    README)."""
     return (
-        f"signs by {t.title}, with the curve's neighbours: consecutive curves of a feature "
-        f"with less than {t.series_tangent:g} {t.length_label} of tangent between them are "
-        f"in series ({t.series_tangent_source}); {t.reverse_turn} or {t.reverse_curve} on "
-        f"the first of two turning opposite ways, {t.winding_road} on the first of three or "
-        f"more ({t.series_rule_source}); {t.same_direction_note}; the table applies to "
-        f"{t.applies_to}"
+        f"signs by {t.title}, with the curve's neighbours: curves of a feature less than "
+        f"{t.series_tangent:g} {t.length_label} apart are in series (each rule's source: "
+        f"[signs.series] of {t.name}); the table applies to {t.applies_to}"
     )
 
 
