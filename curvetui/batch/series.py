@@ -19,7 +19,7 @@ import pyarrow.compute as pc
 from curvetui.batch.numbers import NumberColumn
 from curvetui.bend.fields import DIRECTIONS, REGISTER_BY_KEY
 from curvetui.bend.parse import to_number
-from curvetui.core.curve_series import SeriesScanner
+from curvetui.core.curve_series import FEATURE_AGAIN, SeriesScanner
 
 
 @dataclass
@@ -28,6 +28,7 @@ class _Held:
     rows: np.ndarray
     bad: list
     missing: int
+    again: np.ndarray | None = None  # rows whose feature came earlier, others between
     parts: list = field(default_factory=list)
 
 
@@ -41,6 +42,7 @@ class SeriesHold:
         self.queue: collections.deque[_Held] = collections.deque()
         self._run = 0  # feature run number of the last row read
         self._last: str | None = None  # its feature's text
+        self._seen: set[str] = set()  # every feature read so far
 
     @classmethod
     def for_file(cls, header, ctx) -> SeriesHold | None:
@@ -53,9 +55,11 @@ class SeriesHold:
 
     def put(self, batch: pa.RecordBatch, rows: np.ndarray, bad: list) -> list[tuple]:
         """Hold this chunk; (batch, rows, bad, places) of every chunk now complete."""
-        self.queue.append(_Held(batch, rows, bad, batch.num_rows))
+        held = _Held(batch, rows, bad, batch.num_rows)
+        self.queue.append(held)
         if batch.num_rows:
-            self._give(self.scanner.push(*self._register(batch)))
+            runs, begin, end, direction, held.again = self._register(batch)
+            self._give(self.scanner.push(runs, begin, end, direction))
         return self._ready()
 
     def rest(self) -> list[tuple]:
@@ -79,12 +83,15 @@ class SeriesHold:
         while self.queue and self.queue[0].missing == 0:
             h = self.queue.popleft()
             places = np.concatenate(h.parts) if h.parts else np.zeros(0, np.int8)
+            if h.again is not None and h.again.any():
+                places = places | np.where(h.again, FEATURE_AGAIN, 0).astype(np.int8)
             out.append((h.batch, h.rows, h.bad, places))
         return out
 
     def _register(self, batch: pa.RecordBatch):
-        """(feature run numbers, begin [m], end [m], direction code) of a chunk's rows;
-        NaN where a value is missing or bad, and on rows that are not road curves."""
+        """(feature run numbers, begin [m], end [m], direction code, feature again) of a
+        chunk's rows; NaN where a value is missing or bad, and on rows that are not road
+        curves."""
         n = batch.num_rows
         kind = pc.utf8_lower(pc.utf8_trim_whitespace(batch.column(self.known["kind"])))
         road = pc.equal(kind, "road").to_numpy(zero_copy_only=False).astype(bool)
@@ -95,14 +102,17 @@ class SeriesHold:
             text = pc.utf8_lower(pc.utf8_trim_whitespace(batch.column(self.known["direction"])))
             codes = pc.index_in(text, value_set=pa.array(DIRECTIONS, pa.string()))
             direction = codes.to_numpy(zero_copy_only=False).astype(float)
-        return self._feature_runs(batch), begin, end, direction
+        runs, again = self._feature_runs(batch)
+        return runs, begin, end, direction, again
 
-    def _feature_runs(self, batch: pa.RecordBatch) -> np.ndarray:
+    def _feature_runs(self, batch: pa.RecordBatch) -> tuple[np.ndarray, np.ndarray]:
         """Run numbers of the feature column: neighbours of one feature share a number,
-        across chunks too (no column: every row one feature)."""
+        across chunks too (no column: every row one feature); and the rows where a feature
+        read before comes again after others."""
         n = batch.num_rows
+        again = np.zeros(n, bool)
         if "feature" not in self.known:
-            return np.zeros(n, np.int64)
+            return np.zeros(n, np.int64), again
         text = pc.utf8_trim_whitespace(batch.column(self.known["feature"]))
         change = np.ones(n, bool)
         change[0] = self._last is None or text[0].as_py() != self._last
@@ -110,8 +120,12 @@ class SeriesHold:
             same = pc.equal(text.slice(1), text.slice(0, n - 1))
             change[1:] = ~same.to_numpy(zero_copy_only=False).astype(bool)
         runs = self._run + np.cumsum(change)
+        for i in np.nonzero(change)[0]:  # one look-up per run of a feature
+            name = text[int(i)].as_py()
+            again[i] = name in self._seen
+            self._seen.add(name)
         self._run, self._last = int(runs[-1]), text[n - 1].as_py()
-        return runs
+        return runs, again
 
     def _station(self, key: str, batch: pa.RecordBatch) -> np.ndarray:
         """A station column [m] (2+710.5 read cell by cell); NaN where blank, bad or

@@ -53,6 +53,7 @@ SIGNS_SERIES = 1 << 15  # signs chosen with the curve's neighbours (replaces the
 SERIES_NOT_PLACED = 1 << 16  # no stations or direction: not placed in a series
 SERIES_OUT_OF_ORDER = 1 << 17  # begins before the previous curve of its feature ends
 SERIES_ENDS_BEFORE_BEGIN = 1 << 18  # end station before begin station
+SERIES_FEATURE_AGAIN = 1 << 19  # its feature came earlier in the file, others between
 ADVISORY_FLAGS = {
     "below_table": ADVISORY_BELOW_TABLE,
     "small_deflection": SMALL_DEFLECTION,

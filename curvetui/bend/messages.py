@@ -178,6 +178,19 @@ ADVISORY_RULES = (
     ),
     Rule(
         "bend",
+        ev_mod.SERIES_FEATURE_AGAIN,
+        "warning",
+        "series_feature_again",
+        _const(
+            "its feature came earlier in the file, other features between: the register is "
+            "not grouped by feature, so curves on either side of the gap are not placed "
+            "together (sort the curves by feature and station)"
+        ),
+        True,
+        "signs",
+    ),
+    Rule(
+        "bend",
         ev_mod.SERIES_ENDS_BEFORE_BEGIN,
         "warning",
         "series_ends_before_begin",

@@ -44,6 +44,8 @@ def series_signs(ev, places: np.ndarray) -> None:
         return
     signs = ev.parts.get("sign_table") or ev.ctx.signs or sign_table()
     p = np.asarray(places)[rows]
+    again = (p & cs.FEATURE_AGAIN) != 0
+    p = p & ~np.int8(cs.FEATURE_AGAIN)
     advisory = ev.ctx.units.speed_to_si(ev.values["advisory.speed"][rows])
     words = np.full(len(rows), None, dtype=object)
     for code, word in WORDS.items():
@@ -62,3 +64,4 @@ def series_signs(ev, places: np.ndarray) -> None:
     flags[rows[p == cs.NOT_PLACED]] |= ev_mod.SERIES_NOT_PLACED
     flags[rows[p == cs.OUT_OF_ORDER]] |= ev_mod.SERIES_OUT_OF_ORDER
     flags[rows[p == cs.ENDS_BEFORE_BEGIN]] |= ev_mod.SERIES_ENDS_BEFORE_BEGIN
+    flags[rows[again]] |= ev_mod.SERIES_FEATURE_AGAIN

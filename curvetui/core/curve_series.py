@@ -45,6 +45,9 @@ PLACE_NAMES = (
     "out of order",
     "ends before it begins",
 )
+# added to a place by a caller that follows features over the whole input: the curve's
+# feature came earlier, other features between (the register is not grouped by feature)
+FEATURE_AGAIN = 16
 LEFT, RIGHT = 0, 1  # the register's words "left", "right" (curvetui.bend.fields)
 WINDING_MIN = 3  # curves: "three or more changes of direction" (MUTCD 2009 2C.07, memory)
 LOOKAHEAD = 2  # rows after a curve that can change its place

@@ -120,3 +120,19 @@ def test_rail_rows_and_error_rows():
     got = [(r["id"], r["status"], r["signs.series"]) for r in rows]
     assert got[0][0::2] == ("R-1", "single") and got[1][2] == ""
     assert got[2][2] == "Reverse Turn" and got[3][1:] == ("error", "")
+
+
+def test_a_feature_coming_back_is_reported():
+    lines = [
+        f"A-1,road,A,0,300,left,{TURN}",
+        f"B-1,road,B,0,300,left,{TURN}",
+        f"A-2,road,A,400,700,right,{TURN}",  # A again: not grouped by feature
+        f"A-3,road,A,800,900,left,{TURN}",
+    ]
+    for block_size in (120, 1 << 20):
+        rows = _rows(HEAD + "\n" + "\n".join(lines) + "\n", block_size=block_size)
+        got = {r["id"]: r["signs.series"] for r in rows}
+        # are not joined across B; still make a pair
+        assert got == {"A-1": "single", "B-1": "single", "A-2": "Reverse Turn", "A-3": "in series"}
+        warned = [r["id"] for r in rows if "not grouped by feature" in r["messages"]]
+        assert warned == ["A-2"]

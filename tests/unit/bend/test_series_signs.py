@@ -62,3 +62,10 @@ def test_error_rows_are_left_alone():
     assert ev.status[0] == ev_mod.ERROR
     series_signs(ev, np.array([cs.REVERSE], np.int8))
     assert ev.texts["signs.series"][0] is None and ev.bend_flags[0] == 0
+
+
+def test_feature_again_is_a_warning_beside_the_place():
+    ev = _evaluate([300], [4], [55])
+    series_signs(ev, np.array([cs.REVERSE | cs.FEATURE_AGAIN], np.int8))
+    assert ev.texts["signs.series"][0] == "Reverse Turn"
+    assert ev.bend_flags[0] & ev_mod.SERIES_FEATURE_AGAIN
