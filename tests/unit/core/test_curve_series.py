@@ -154,7 +154,7 @@ _FOUND = [(0, 0.0, 100.0, LEFT, 0), (0, 50.0, 100.0, RIGHT, 1), (0, 50.0, 100.0,
 _FOUND += [(0, 50.0, 100.0, LEFT, 0), (0, 300.0, 100.0, RIGHT, 0), (0, 300.0, 20.0, LEFT, 0)]
 
 
-@settings(max_examples=200, derandomize=True, deadline=None)
+@settings(max_examples=100, derandomize=True, deadline=None)
 @given(rows=st.lists(ROW, max_size=14), cuts=st.lists(st.integers(0, 14), max_size=5))
 @example(rows=_FOUND, cuts=[1, 2, 3, 4, 5])
 def test_chunks_anywhere_give_the_one_call_answer(rows, cuts):
