@@ -14,9 +14,8 @@ import numpy as np
 from curvetui.core import curve_series as cs
 from curvetui.core.signs import SignTable, is_turn
 
-WORDS = {
+WORDS = {  # the project's words; the signs' names come from the sign table
     cs.SINGLE: "single",
-    cs.WINDING: None,  # the table's name
     cs.IN_SERIES: "in series",
     cs.SAME_DIRECTION: "same direction",
 }
