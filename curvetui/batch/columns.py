@@ -7,20 +7,22 @@ names. ``row``, ``status`` and the failure lines are always written: a failed ch
 never left out.
 
 Input columns are the bend's fields (``curvetui.bend.fields``, aliases included) plus
-``id`` and ``kind``. Result columns are the record's outputs (``curvetui.bend.outputs``)
-that do not repeat an input, named as the JSON keys (``transition.runoff``,
-``geometry.tangent``); a result column whose name an input column already uses is written
-with the prefix ``check.``.
+``id`` and ``kind``, and a curve register's columns (``REGISTER_FIELDS``: feature, begin
+and end station, direction) that place each curve among its neighbours. Result columns
+are the record's outputs (``curvetui.bend.outputs``) that do not repeat an input, named as
+the JSON keys (``transition.runoff``, ``geometry.tangent``); a result column whose name an
+input column already uses is written with the prefix ``check.``.
 """
 
 from __future__ import annotations
 
-from curvetui.bend.fields import column_names
+from curvetui.bend.fields import REGISTER_FIELDS, column_names
 from curvetui.bend.outputs import OUTPUTS, RUNOFF_STATIONS, SPIRAL_OUT, STATIONS
 from curvetui.bend.outputs import TEXT as TEXT_OUTPUT
 
 FIELD_OF_COLUMN = column_names()  # column name (lower case) -> field key
-INPUTS = ("id", "kind", *FIELD_OF_COLUMN)
+REGISTER_COLUMNS = tuple(f.key for f in REGISTER_FIELDS)
+INPUTS = ("id", "kind", *FIELD_OF_COLUMN, *REGISTER_COLUMNS)
 REQUIRED = ("kind", "speed", "radius")
 
 TEXT, FLOAT, INT = "text", "float", "int"
@@ -65,6 +67,7 @@ DEFAULT_ROAD = (
     "signs.sign",
     "signs.plaque",
     "signs.chevrons",
+    "signs.series",
 )
 DEFAULT_RAIL = (
     "cant_deficiency",
@@ -82,14 +85,16 @@ DEFAULT_GEOMETRY = (
     "geometry.total_length",
 )
 DEFAULT_END = (*ALWAYS, FINDINGS)
-# in the default only, what a result needs beyond _NEEDS: signs only with a posted speed
-_DEFAULT_NEEDS = (("signs.", "posted_speed"),)
+# in the default only, what a result needs beyond _NEEDS: a bend's signs only with a posted
+# speed (a register's series sign needs the register's columns, as in _NEEDS)
+_DEFAULT_NEEDS = tuple((f"signs.{k}", "posted_speed") for k in ("sign", "plaque", "chevrons"))
 
 # result columns written only when the file has the input they need
 _NEEDS = (
     ("geometry.", "deflection"),
     ("sight.", "obstruction_offset"),
     ("crash.", "deflection"),
+    ("signs.series", "begin_station"),  # a register: curves in series (batch.series)
     *((f"geometry.{k}", "pi_station") for k in STATIONS),
     *((f"transition.{k}", "deflection") for k in RUNOFF_STATIONS),
     *((f"transition.{k}", "pi_station") for k in RUNOFF_STATIONS),
@@ -101,7 +106,7 @@ def results_for(input_names: list[str]) -> tuple[tuple[str, str], ...]:
     """The result columns (name, type) a file with these headers gets: geometry only with a
     deflection column, stations only with a PI station, the outgoing spiral's keys only with
     a spiral_out column, sight only with an obstruction offset."""
-    given = {FIELD_OF_COLUMN.get(n.strip().lower()) for n in input_names}
+    given = {FIELD_OF_COLUMN.get(n.strip().lower(), n.strip().lower()) for n in input_names}
     return tuple(
         (name, kind)
         for name, kind in RESULTS
@@ -161,6 +166,11 @@ def parse_columns(text: str | None) -> tuple[str, ...] | str:
     return tuple(dict.fromkeys(names))
 
 
+def _given(input_names: list[str]) -> set[str]:
+    """The field keys (and register columns) a file's headers give."""
+    return {FIELD_OF_COLUMN.get(n.strip().lower(), n.strip().lower()) for n in input_names}
+
+
 def _needs_met(name: str, given: set, needs) -> bool:
     return not any(name.startswith(prefix) and need not in given for prefix, need in needs)
 
@@ -172,7 +182,7 @@ def default_results(input_names: list[str], kinds: frozenset[str]) -> tuple[str,
     then row, status and findings."""
     from curvetui.bend.outputs import BY_KEY
 
-    given = {FIELD_OF_COLUMN.get(n.strip().lower()) for n in input_names}
+    given = _given(input_names)
     allowed = set(result_names(input_names))
     wanted = set()
     if "road" in kinds:
@@ -215,7 +225,7 @@ def chosen_results(
     )
     missing = [n for n in choice if n not in allowed]
     if missing:
-        given = {FIELD_OF_COLUMN.get(n.strip().lower()) for n in input_names}
+        given = _given(input_names)
         said = "; ".join(
             f"{n} needs a "
             + " and a ".join(

@@ -73,6 +73,13 @@ def test_default_needs_its_inputs():
     assert not [n for n in names if n.startswith(("geometry.", "crash.", "signs."))]
     names, _, _ = run(HEADER + ROAD)
     assert {"signs.sign", "signs.plaque", "signs.chevrons"} <= set(names)
+    assert "signs.series" not in names  # no register columns
+    register = "id,kind,speed,radius,feature,begin_station,end_station,direction\n"
+    names, rows, _ = run(
+        register + "Q-1,road,60,150,Q,0,100,left\nQ-2,road,60,150,Q,150,250,right\n"
+    )
+    assert "signs.series" in names and "signs.sign" not in names  # no posted speed
+    assert rows[0]["signs.series"]  # placed: the series sign on the first curve
 
 
 def test_default_values_are_the_full_sets_values():
