@@ -15,7 +15,7 @@ invented district and a survey note, some notes with a comma). They exercise the
 are not an engineering check of anything.
 
 Measured in one run, side by side:
-- batch: ``python -m curvetui batch IN -o OUT`` in a subprocess, wall time including
+- batch: ``python -m curvetui batch IN -o OUT --columns all`` in a subprocess, wall time including
   start-up (the start-up alone is shown too, on a one-bend file);
 - (a) loop: csv.DictReader, curvetui.bend.service.evaluate_bend per row (InputError = error row),
   the record flattened to the batch's output columns, csv.DictWriter; timed in this process
@@ -171,7 +171,10 @@ def generate(path: Path, rows: int, seed: int, piece: int = 50_000) -> None:
 
 def run_batch_command(src: Path, out: Path, sample_memory: bool = False):
     """(wall seconds, the memory sampler or None, stderr text)."""
+    # every result column, as the per-row loop writes them (issue 16's default is narrower:
+    # benchmarks/batch_million.py measures it)
     cmd = [sys.executable, "-m", "curvetui", "batch", str(src.resolve()), "-o", str(out.resolve())]
+    cmd += ["--columns", "all"]
     started = time.perf_counter()
     proc = subprocess.Popen(cmd, cwd=ROOT, stdout=subprocess.PIPE, stderr=subprocess.PIPE)
     sampler = TreeMemory(proc.pid) if sample_memory else None

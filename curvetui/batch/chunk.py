@@ -38,10 +38,13 @@ class BatchContext:
     limits: RailLimits
     headers: Mapping[str, str]  # known column (lower case) -> its header in the file
     decimal_comma: bool = False
+    results: tuple[str, ...] | None = None  # the result columns chosen; None: all
 
     @cached_property
     def written(self) -> frozenset[str]:
-        """The result columns this file gets (see columns.results_for)."""
+        """The result columns this file gets (see columns.results_for, chosen_results)."""
+        if self.results is not None:
+            return frozenset(self.results)
         return frozenset(cols.result_names(list(self.headers)))
 
     def column(self, key: str) -> str:
@@ -51,6 +54,8 @@ class BatchContext:
                 return self.headers[name]
         return self.headers.get(key, key)
 
+
+_BUILT_BELOW = frozenset({"row", "status", "messages"})
 
 MESSAGE_ITEM = pa.struct([("severity", pa.string()), ("line", pa.string())])
 
@@ -199,6 +204,8 @@ def evaluate_chunk(
     result: dict[str, pa.Array] = {}
     known = ev.status != ERROR
     for name in ("units", "table", "limits"):
+        if name not in ctx.written:
+            continue
         text = {"units": ctx.units.name, "table": ctx.table.name, "limits": ctx.limits.name}[name]
         applies = known & (
             ev.parsed.is_rail
@@ -209,22 +216,30 @@ def evaluate_chunk(
         )
         result[name] = pc.if_else(pa.array(applies), text, pa.scalar(None, pa.string()))
     for name, _kind in cols.RESULTS:
-        if name not in ctx.written:
+        if name not in ctx.written or name in result or name in _BUILT_BELOW:
             continue
         if name in ev.texts:
             result[name] = pa.array(ev.texts[name], pa.string())
         elif name in ev.values:
             values = _rounded(name, ev.values[name])
             result[name] = pa.array(values, mask=np.isnan(values))
-        elif _kind == cols.FLOAT:  # no row of this chunk has it
-            result[name] = pa.nulls(n, pa.float64())
+        else:  # no row of this chunk has it
+            result[name] = pa.nulls(n, pa.float64() if _kind == cols.FLOAT else pa.string())
 
     def column_name(key: str) -> str:
         return f"column {ctx.column(key)}"
 
+    # without the messages column, the notes (but those qualifying a value) are not built:
+    # the findings and the summary need only the FAIL and WARNING lines
+    every_line = "messages" in ctx.written or items
     messages = _Messages(n)
+    findings = _Messages(n) if every_line and cols.FINDINGS in ctx.written else None
     pieces: list[tuple[np.ndarray, str, list[str] | str]] = []
-    for part in message_parts(ev, column_name):
+
+    def is_finding(rule) -> bool:
+        return rule.severity != "note" or rule.code in cols.FINDING_NOTES
+
+    for part in message_parts(ev, column_name, None if every_line else is_finding):
         prefix = f"{part.rule.part}: " if part.rule.part else ""
         word = {"fail": "FAIL", "warning": "WARNING", "note": "NOTE"}[part.rule.severity]
         if isinstance(part.texts, str):
@@ -232,8 +247,11 @@ def evaluate_chunk(
         else:
             lines = [f"{prefix}{word} {t}" for t in part.texts]
         messages.add(part.rows, lines)
+        if findings is not None and is_finding(part.rule):
+            findings.add(part.rows, lines)
         pieces.append((part.rows, part.rule.severity, lines))
     joined = messages.array()
+    found = joined if findings is None else findings.array()
     if ev.issues:
         by_row: dict[int, list[str]] = {}
         for issue in ev.issues:
@@ -246,6 +264,7 @@ def evaluate_chunk(
         mask[rows] = True
         texts = pa.array(["; ".join(by_row[int(i)]) for i in rows], pa.string())
         joined = pc.replace_with_mask(joined, pa.array(mask), texts)
+        found = joined if findings is None else pc.replace_with_mask(found, pa.array(mask), texts)
         # an error row lists its input problems only
         pieces = [
             (r[~mask[r]], s, t if isinstance(t, str) else list(np.asarray(t, object)[~mask[r]]))
@@ -255,7 +274,8 @@ def evaluate_chunk(
             pieces.append((np.full(len(by_row[int(i)]), i), "error", by_row[int(i)]))
     result["row"] = pa.array(np.asarray(row_numbers, dtype=np.int64))
     result["status"] = pc.take(pa.array(STATUS_NAMES), pa.array(ev.status.astype(np.int32)))
-    result["messages"] = joined
+    result["messages"] = joined  # every line, or (not written) the findings' lines
+    result[cols.FINDINGS] = found
     return ChunkResult(
         columns=result,
         status=ev.status,

@@ -53,6 +53,12 @@ def read_header(head: bytes) -> Header:
         fields = next(csv.reader([text], delimiter=candidate))
         if len(fields) > len(best):
             best, delimiter = fields, candidate
+    return header_of(best, delimiter)
+
+
+def header_of(best: list[str], delimiter: str = ",") -> Header:
+    """The header of these column names (a CSV header row, or a Parquet file's schema);
+    BatchFileError for a column named twice or a required one missing."""
     known: dict[str, int] = {}
     for pos, name in enumerate(best):
         key = name.strip().lower()

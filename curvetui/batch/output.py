@@ -2,16 +2,15 @@
 
 from __future__ import annotations
 
-import io
 from dataclasses import dataclass
 
 import numpy as np
 import pyarrow as pa
 import pyarrow.compute as pc
-import pyarrow.csv as pcsv
 
 from curvetui.batch import columns as cols
 from curvetui.batch.chunk import MESSAGE_ITEM, BatchContext, evaluate_chunk
+from curvetui.batch.csv_text import csv_lines
 from curvetui.batch.formulas import neutralise
 from curvetui.batch.header import Header
 from curvetui.batch.summary import (
@@ -27,14 +26,17 @@ from curvetui.batch.summary import (
 MESSAGE_ITEMS = "__messages__"  # the extra column ``on_table`` readers get (never written)
 
 
-def output_schema(header: Header) -> pa.Schema:
-    """The written columns: every input column as text, then the result columns."""
+def output_schema(header: Header, results: tuple[str, ...] | None = None) -> pa.Schema:
+    """The written columns: every input column as text, then the result columns
+    (``results``, see columns.chosen_results; None: all)."""
     types = {cols.FLOAT: pa.float64(), cols.INT: pa.int64(), cols.TEXT: pa.string()}
-    out_names = cols.output_names(list(header.names))
+    if results is None:
+        results = cols.result_names(list(header.names))
+    out_names = cols.chosen_output_names(list(header.names), results)
     fields = [pa.field(name, pa.string()) for name in header.names]
     fields += [
-        pa.field(name, types[kind])
-        for name, (_, kind) in zip(out_names, cols.results_for(list(header.names)), strict=True)
+        pa.field(name, types[cols.TYPE_OF[key]])
+        for name, key in zip(out_names, results, strict=True)
     ]
     return pa.schema(fields)
 
@@ -64,7 +66,7 @@ def error_rows_table(
             arrays.append(pa.array(rows, pa.int64()))
         elif base == "status" and fld.type == pa.string():
             arrays.append(pa.array(["error"] * n, pa.string()))
-        elif base == "messages" and fld.type == pa.string():
+        elif base in ("messages", cols.FINDINGS) and fld.type == pa.string():
             arrays.append(pa.array(messages, pa.string()))
         else:
             arrays.append(pa.nulls(n, fld.type))
@@ -78,8 +80,16 @@ class Job:
     header: Header
     schema: pa.Schema
     ctx: BatchContext
-    want_bytes: bool
+    want_bytes: bool  # CSV bytes; else a table (Parquet, or the app)
     keep_formulas: bool = False  # write cells that would run as formulas verbatim
+    items: bool = False  # each row's messages as a list too (the app)
+
+    @property
+    def results(self) -> tuple[str, ...]:
+        """The result columns written, in order."""
+        if self.ctx.results is not None:
+            return self.ctx.results
+        return cols.result_names(list(self.header.names))
 
 
 @dataclass
@@ -103,7 +113,7 @@ def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad, places
     tables = _checked_tables(job, batch, rows, part, places)
     if bad:
         bad_table = bad_rows_table(bad, job.header, job.schema)
-        if not job.want_bytes:
+        if job.items:
             bad_table = _with_items(job, bad_table)
         tables.append(bad_table)
         tally_bad_rows(part, bad, job.header)
@@ -113,17 +123,12 @@ def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad, places
         tbl = tables[0]
     else:
         tbl = pa.concat_tables(tables)
-        row_at = width + cols.result_names(list(job.header.names)).index("row")
+        row_at = width + job.results.index("row")
         tbl = tbl.take(pc.sort_indices(tbl.column(row_at)))
     if job.want_bytes:
         if not job.keep_formulas:
             tbl = neutralise(tbl)
-        options = pcsv.WriteOptions(
-            include_header=False, delimiter=job.header.delimiter, quoting_style="needed"
-        )
-        buf = io.BytesIO()
-        pcsv.write_csv(tbl, buf, options)
-        part.data = buf.getvalue()
+        part.data = csv_lines(tbl, job.header.delimiter)
     else:
         part.table = tbl
     return part
@@ -154,11 +159,11 @@ def _checked_table(
     width = len(header.names)
     cells = {key: batch.column(pos) for key, pos in header.known.items()}
     more = {} if places is None else {"series": places}  # a register's places, if any
-    result = evaluate_chunk(cells, rows, job.ctx, items=not job.want_bytes, **more)
+    result = evaluate_chunk(cells, rows, job.ctx, items=job.items, **more)
     arrays = [batch.column(i) for i in range(width)]
-    arrays += [result.columns[name] for name in cols.result_names(list(header.names))]
+    arrays += [result.columns[name] for name in job.results]
     tbl = pa.Table.from_arrays(arrays, schema=schema)
-    if not job.want_bytes:  # the reader gets each row's messages as a list too
+    if job.items:  # the reader gets each row's messages as a list too
         tbl = tbl.append_column(MESSAGE_ITEMS, result.items)
     own = Tally()  # counted apart, so a chunk that raises half-way counts nothing twice
     tally_rows(own, result, rows, batch, header.known.get("id"))
@@ -175,7 +180,7 @@ def _unchecked_row(job: Job, batch: pa.RecordBatch, number: int, exc: Exception,
         f"{type(exc).__name__}); please report it with the row"
     )
     tbl = error_rows_table([cells], [number], [text], width, job.schema)
-    if not job.want_bytes:
+    if job.items:
         tbl = _with_items(job, tbl)
     id_pos = job.header.known.get("id")
     tally_error_row(part, number, "" if id_pos is None else str(cells[id_pos]).strip(), text)
@@ -184,7 +189,8 @@ def _unchecked_row(job: Job, batch: pa.RecordBatch, number: int, exc: Exception,
 
 def _with_items(job: Job, tbl: pa.Table) -> pa.Table:
     """An error table with the messages column the app reads, one error item per row."""
-    at = len(job.header.names) + cols.result_names(list(job.header.names)).index("messages")
+    name = "messages" if "messages" in job.results else cols.FINDINGS
+    at = len(job.header.names) + job.results.index(name)
     lines = tbl.column(at).to_pylist()
     return tbl.append_column(
         MESSAGE_ITEMS,

@@ -28,12 +28,17 @@ import pyarrow as pa
 import pyarrow.compute as pc
 import pyarrow.csv as pcsv
 
+from curvetui import CAUTION
+from curvetui.batch import columns as cols
 from curvetui.batch.chunk import BatchContext
+from curvetui.batch.csv_text import csv_header, csv_lines
 from curvetui.batch.formulas import neutral_text, neutralise
 from curvetui.batch.header import HEAD_BYTES, BatchFileError, read_header
 from curvetui.batch.output import Job, Part, output_schema, process_chunk
+from curvetui.batch.parquet_io import ParquetRows, is_parquet, parquet_header, parquet_writer
 from curvetui.batch.series import SeriesHold
 from curvetui.batch.summary import NOT_UTF8_ROW, Summary, finish, merge
+from curvetui.batch.survey import csv_kinds, parquet_kinds
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem
@@ -158,26 +163,50 @@ def run_batch(
     block_size: int = BLOCK_SIZE,
     workers: int | None = None,
     keep_formulas: bool = False,
+    columns: tuple[str, ...] | str = cols.ALL,
+    parquet_out: bool = False,
 ) -> Summary:
-    """Check every row of ``source`` (a path or a binary stream) and write the rows with
-    their results to ``sink`` as CSV (the input's separator); ``on_table`` gets each output
-    chunk as a pyarrow table too. Raises BatchFileError when the file cannot be used.
-    Text cells that a spreadsheet would run as formulas are written with a leading
-    apostrophe unless ``keep_formulas`` (see curvetui.batch.formulas); ``on_table`` gets
-    them as read.
+    """Check every row of ``source`` (a path or a binary stream; a path ending .parquet is
+    read as Parquet) and write the rows with their results to ``sink`` as CSV (the input's
+    separator), or as Parquet with ``parquet_out``; ``on_table`` gets each output chunk as
+    a pyarrow table too. ``columns``: the result columns (columns.parse_columns: "all",
+    "default" or names); the default's kinds are surveyed first (survey.py), a stream that
+    cannot seek is first copied to a temporary file for it. Raises BatchFileError when the
+    file cannot be used. Text cells that a spreadsheet would run as formulas are written
+    with a leading apostrophe in CSV unless ``keep_formulas`` (see
+    curvetui.batch.formulas); ``on_table`` and Parquet get them as read.
 
     Chunks are checked on ``workers`` threads (default: one per core), each taking whole
     chunks; their output is written in the input's order."""
     if workers is None:
         workers = os.cpu_count() or 1
+    out = dict(on_table=on_table, block_size=block_size, workers=workers)
+    out.update(keep_formulas=keep_formulas, parquet_out=parquet_out)
+    if isinstance(source, str | Path) and is_parquet(source):
+        header = parquet_header(source)
+        results = _results(columns, header, lambda: parquet_kinds(source, header))
+        reader = ParquetRows(source, header, [f"c{i}" for i in range(len(header.names))])
+        out.update(rows=reader, results=results)
+        return _run(header, reader, reader.total, sink, units, table, limits, progress, **out)
+    spool = None
     if isinstance(source, str | Path):
         raw: BinaryIO = open(source, "rb")  # noqa: SIM115 - closed below
         total: int | None = os.fstat(raw.fileno()).st_size
     else:
         raw, total = source, None
+        if columns == cols.DEFAULT and not _seekable(raw):
+            raw = spool = _spooled(raw)  # standard input: surveyed from a copy
     try:
+        start = None if isinstance(source, str | Path) else raw.tell()
         head = raw.read(HEAD_BYTES) or b""
         header = read_header(head)
+        if start is None:
+            results = _results(columns, header, lambda: csv_kinds(source, header))
+        else:
+            raw.seek(start)
+            results = _results(columns, header, lambda: csv_kinds(raw, header))
+            raw.seek(start + len(head))
+        out["results"] = results
         return _run(
             header,
             _Counting(raw, head),
@@ -187,14 +216,40 @@ def run_batch(
             table,
             limits,
             progress,
-            on_table,
-            block_size,
-            workers,
-            keep_formulas,
+            **out,
         )
     finally:
         if isinstance(source, str | Path):
             raw.close()
+        if spool is not None:
+            spool.close()
+
+
+def _seekable(raw) -> bool:
+    try:
+        return bool(raw.seekable())
+    except (AttributeError, OSError, ValueError):
+        return False
+
+
+def _spooled(raw: BinaryIO) -> BinaryIO:
+    """A copy of a stream that cannot seek (a pipe), in a temporary file removed on close."""
+    import shutil
+    import tempfile
+
+    copy = tempfile.TemporaryFile(prefix="curvetui-batch-")  # noqa: SIM115 - closed by caller
+    shutil.copyfileobj(raw, copy, 1 << 20)
+    copy.seek(0)
+    return copy
+
+
+def _results(choice, header, kinds_present) -> tuple[str, ...]:
+    """The result columns chosen for this file (the kinds surveyed only for the default)."""
+    kinds = kinds_present() if choice == cols.DEFAULT else None
+    try:
+        return cols.chosen_results(choice, list(header.names), kinds)
+    except cols.ColumnsError as exc:
+        raise BatchFileError(str(exc)) from None
 
 
 def _run(
@@ -206,38 +261,51 @@ def _run(
     table,
     limits,
     progress,
-    on_table,
-    block_size,
-    workers,
+    on_table=None,
+    block_size=BLOCK_SIZE,
+    workers=1,
     keep_formulas=False,
+    results=None,
+    rows=None,
+    parquet_out=False,
 ):
     width = len(header.names)
     names = [f"c{i}" for i in range(width)]
     numbering = _Numbering()
-    schema = output_schema(header)
+    schema = output_schema(header, results)
     ctx = BatchContext(
         units=units,
         table=table,
         limits=limits,
         headers={key: header.names[pos].strip() for key, pos in header.known.items()},
         decimal_comma=header.decimal_comma,
+        results=results,
     )
-    try:
-        with _undecodable() as undecodable:
-            reader = _open(stream, names, block_size, header, numbering)
-    except pa.ArrowInvalid as exc:
-        raise BatchFileError(_NOT_UTF8 if undecodable else _arrow_words(exc)) from None
-    except StopIteration:  # pragma: no cover - header only, handled below
-        reader = None
+    if rows is not None:
+        reader = rows  # a Parquet file's chunks
+    else:
+        try:
+            with _undecodable() as undecodable:
+                reader = _open(stream, names, block_size, header, numbering)
+        except pa.ArrowInvalid as exc:
+            raise BatchFileError(_NOT_UTF8 if undecodable else _arrow_words(exc)) from None
+        except StopIteration:  # pragma: no cover - header only, handled below
+            reader = None
 
     summary = Summary(delimiter=header.delimiter, columns=tuple(schema.names))
-    job = Job(header, schema, ctx, sink is not None and on_table is None, keep_formulas)
+    csv_out = sink is not None and on_table is None and not parquet_out
+    job = Job(header, schema, ctx, csv_out, keep_formulas, items=on_table is not None)
+    summary.results = job.results
+    summary.units = units.name
     written = (lambda t: t) if keep_formulas else neutralise
-    options = pcsv.WriteOptions(delimiter=header.delimiter, quoting_style="needed")
-    if sink is not None:
+    pq_out = None
+    if sink is not None and parquet_out:
+        about = {"units": units.name, "table": table.name, "limits": limits.name}
+        pq_out = parquet_writer(sink, schema, {**about, "caution": CAUTION})
+    elif sink is not None:
         names = schema.names if keep_formulas else [neutral_text(n) for n in schema.names]
         with _reader_may_leave(summary):
-            pcsv.write_csv(schema.empty_table().rename_columns(names), sink, options)  # header
+            sink.write(csv_header(names, header.delimiter))
     worst: list[tuple[float, int, str, str, str]] = []
     pool = None
     pending: collections.deque = collections.deque()
@@ -247,7 +315,10 @@ def _run(
             if part.data is not None and not summary.output_closed:
                 sink.write(part.data)
             if part.table is not None and sink is not None and not summary.output_closed:
-                pcsv.write_csv(written(part.table), sink, _no_header(options))
+                if pq_out is not None:
+                    pq_out.write_table(part.table)
+                else:
+                    sink.write(csv_lines(written(part.table), header.delimiter))
         if part.table is not None and on_table is not None:
             on_table(part.table)
         merge(summary, part, worst)
@@ -257,7 +328,7 @@ def _run(
     series = SeriesHold.for_file(header, ctx)
 
     def submit(chunk, pool):
-        if not job.want_bytes or workers < 2:
+        if job.items or workers < 2:
             take(process_chunk(job, *chunk))  # in order, here (the app, one core)
             return pool
         # chunks are checked on ``workers`` threads (the engine's numpy and pyarrow work
@@ -308,6 +379,8 @@ def _run(
             f.cancel()
         if pool is not None:
             pool.shutdown(wait=True, cancel_futures=True)
+    if pq_out is not None:
+        pq_out.close()
     finish(summary, worst)
     if progress is not None:
         progress(stream.count, total, summary.rows)
@@ -352,12 +425,6 @@ def _closed_pipe(exc: OSError) -> bool:
         isinstance(exc, BrokenPipeError)
         or exc.errno == errno.EPIPE
         or ("broken pipe" in str(exc).lower())
-    )
-
-
-def _no_header(options: pcsv.WriteOptions) -> pcsv.WriteOptions:
-    return pcsv.WriteOptions(
-        include_header=False, delimiter=options.delimiter, quoting_style="needed"
     )
 
 

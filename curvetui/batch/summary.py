@@ -92,6 +92,8 @@ class Summary:
     by_rule: dict = field(default_factory=dict, repr=False)  # rule -> (count, example)
     delimiter: str = ","
     columns: tuple[str, ...] = ()
+    results: tuple[str, ...] = ()  # the result columns written (columns.chosen_results)
+    units: str = ""  # the unit system's name (the summary names it, not every row)
     output_closed: bool = False  # the output pipe closed early; the rows were still checked
     written_rows: int = 0  # rows checked when it closed (their output may be partial)
 

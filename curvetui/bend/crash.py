@@ -43,8 +43,10 @@ def road_crash_factors(ev, rows: np.ndarray, check, flag_outside: int) -> None:
     values["crash.radius_ft"][at] = c.radius_ft
     values["crash.spirals"][at] = c.spirals
     flags = np.asarray(c.flags)
-    texts = np.array([cf.flag_text(int(f)) or IN_RANGE for f in flags], dtype=object)
-    ev.texts["crash.curvature_validity"][at] = texts
+    # the words of each distinct flag value once (a few), not of every row (a million)
+    distinct, which = np.unique(flags, return_inverse=True)
+    words = np.array([cf.flag_text(int(f)) or IN_RANGE for f in distinct], dtype=object)
+    ev.texts["crash.curvature_validity"][at] = words[which.reshape(-1)]
     ev.bend_flags[at[flags != 0]] |= flag_outside
 
     built = present["superelevation"][at]

@@ -456,10 +456,15 @@ class PartTexts:
     texts: list[str] | str
 
 
-def message_parts(ev: Evaluation, field_name: Namer) -> Iterator[PartTexts]:
-    """Each rule's rows and texts, in the order messages are listed (errors excluded)."""
+def message_parts(
+    ev: Evaluation, field_name: Namer, wanted: Callable[[Rule], bool] | None = None
+) -> Iterator[PartTexts]:
+    """Each rule's rows and texts, in the order messages are listed (errors excluded);
+    with ``wanted``, only the rules it accepts (the others' texts are never built)."""
     units = ev.ctx.units
     for rule in RULES:
+        if wanted is not None and not wanted(rule):
+            continue
         src = _source(ev, rule.source)
         if src is None:
             continue
@@ -485,14 +490,16 @@ def message_parts(ev: Evaluation, field_name: Namer) -> Iterator[PartTexts]:
             yield PartTexts(
                 rule, rows[where], [rule.build(view, j, ref, units) for j in range(len(where))]
             )
+    input_rule = Rule("input", 0, "note", "input_ignored", _const(""), True, "")
+    if wanted is not None and not wanted(input_rule):
+        return
     for key, mask in ev.parsed.ignored.items():
         rows = np.nonzero(mask & (ev.status != ev_mod.ERROR))[0]
         for kind, is_kind in (("road", ev.parsed.is_road), ("rail", ev.parsed.is_rail)):
             at = rows[is_kind[rows]]
             if len(at):
-                rule = Rule("input", 0, "note", "input_ignored", _const(""), True, "")
                 yield PartTexts(
-                    rule, at, f"{field_name(key)} does not apply to a {kind} bend: ignored"
+                    input_rule, at, f"{field_name(key)} does not apply to a {kind} bend: ignored"
                 )
 
 

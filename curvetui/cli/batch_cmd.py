@@ -27,19 +27,41 @@ def add_parser(sub) -> None:
     p = sub.add_parser(
         "batch",
         help="check every bend of a CSV file",
-        description="Check every road bend and rail curve of a CSV file. Columns (any case, "
-        "any order): " + ", ".join(cols.INPUTS) + "; other columns are carried through. "
-        "Writes every input column, the results, row, status and messages; a text cell that "
-        "a spreadsheet would run as a formula (not a number, starting with =, +, -, @, tab or "
-        "CR) is written with a leading apostrophe unless --keep-formulas. Exit code 0 when "
-        "every bend passes, 1 when any fails or has an error, 2 when the file cannot be used.",
+        description="Check every road bend and rail curve of a CSV or Parquet (.parquet) "
+        "file. Columns (any case, any order): " + ", ".join(cols.INPUTS) + "; other columns "
+        "are carried through. Writes every input column, then the result columns chosen by "
+        "--columns, row, status and the failure and warning lines; a text cell that a "
+        "spreadsheet would run as a formula (not a number, starting with =, +, -, @, tab or "
+        "CR) is written to CSV with a leading apostrophe unless --keep-formulas. Units, road "
+        "table and rail limits are named in the summary (and in a Parquet file's metadata). "
+        "Exit code 0 when every bend passes, 1 when any fails or has an error, 2 when the "
+        "file cannot be used.",
     )
-    p.add_argument("input", help="CSV file to check, or - for standard input")
+    p.add_argument(
+        "input",
+        help="CSV or .parquet file to check, or - for standard input (CSV). With the default "
+        "columns, standard input is first copied to a temporary file so that its kinds of "
+        "bend are known before the header is written (the same columns as for the file); "
+        "--columns all or a list streams it without the copy",
+    )
     p.add_argument(
         "-o",
         "--output",
-        help="where to write the results, or - for standard output "
+        help="where to write the results, or - for standard output; a name ending .parquet "
+        "writes Parquet (numbers as numbers) "
         "(default: INPUT.checked.csv beside the input; standard output for standard input)",
+    )
+    p.add_argument(
+        "--columns",
+        default=cols.DEFAULT,
+        metavar="all|default|LIST",
+        help="result columns: default (the headline results of the kinds present: road "
+        "results only with road rows, rail only with rail rows, geometry only with a "
+        "deflection column, signs only with a posted_speed column; then row, status and "
+        "findings: the FAIL, WARNING and ERROR lines), all (every result, with units, table, "
+        "limits and messages with the notes on every row), or a comma-separated list of "
+        "result names (a group as geometry.*); row and status are always written, and "
+        "findings unless messages is listed",
     )
     add_units_option(p)
     p.add_argument("--table", help="road design table by name or .toml path")
@@ -63,7 +85,8 @@ def _output_path(args) -> str:
     path = Path(args.input)
     if not path.name:
         raise InputError(f"{args.input!r}: not a file name; name a CSV file to check")
-    return str(path.with_name(path.stem + ".checked.csv"))
+    ending = ".parquet" if path.suffix.lower() == ".parquet" else ".csv"
+    return str(path.with_name(path.stem + ".checked" + ending))
 
 
 def run(args: argparse.Namespace) -> int:
@@ -71,6 +94,7 @@ def run(args: argparse.Namespace) -> int:
     from rich.progress import BarColumn, Progress, TextColumn, TimeElapsedColumn
 
     from curvetui.batch.header import BatchFileError
+    from curvetui.batch.parquet_io import is_parquet
     from curvetui.batch.stream import run_batch
     from curvetui.core.units import unit_system
     from curvetui.storage.files import atomic_binary
@@ -84,6 +108,14 @@ def run(args: argparse.Namespace) -> int:
     sign_table()  # a bad CURVETUI_SIGNS is a usage error here, not an error on every row
     err = Console(stderr=True, highlight=False)
     out_path = _output_path(args)
+    try:
+        choice = cols.parse_columns(args.columns)
+    except cols.ColumnsError as exc:
+        err.print(clean(f"curvetui: error: {exc}"), markup=False)
+        return 2
+    parquet_out = is_parquet(out_path)
+    if parquet_out and out_path == "-":  # pragma: no cover - "-" never ends .parquet
+        return 2
     if args.input != "-" and out_path != "-":
         if os.path.exists(out_path) and os.path.samefile(args.input, out_path):
             err.print(
@@ -103,6 +135,7 @@ def run(args: argparse.Namespace) -> int:
     )
     task = progress.add_task("batch", total=None, rows=0)
     keep = args.keep_formulas
+    how = dict(keep_formulas=keep, columns=choice, parquet_out=parquet_out)
 
     def tick(done: int, total: int | None, rows: int) -> None:
         progress.update(task, completed=done, total=total, rows=rows)
@@ -110,18 +143,14 @@ def run(args: argparse.Namespace) -> int:
     try:
         with progress:
             if out_path == "-":
-                summary = run_batch(
-                    source, sys.stdout.buffer, units, table, limits, tick, keep_formulas=keep
-                )
+                summary = run_batch(source, sys.stdout.buffer, units, table, limits, tick, **how)
                 if summary.output_closed:
                     _quiet_stdout()  # nothing more can reach the reader; no error at exit
                 else:
                     sys.stdout.buffer.flush()
             else:
                 with atomic_binary(out_path) as sink:
-                    summary = run_batch(
-                        source, sink, units, table, limits, tick, keep_formulas=keep
-                    )
+                    summary = run_batch(source, sink, units, table, limits, tick, **how)
     except BatchFileError as exc:
         name = "standard input" if args.input == "-" else args.input
         err.print(clean(f"curvetui: error: {name}: {exc}"), markup=False)
@@ -145,6 +174,7 @@ def _quiet_stdout() -> None:
 
 
 REASONS_SHOWN = 20  # rules listed; the rest counted in the title
+RESULTS_LISTED = 30  # result column names listed in the summary; the rest counted
 
 
 def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> None:
@@ -185,8 +215,13 @@ def print_summary(err: Console, s: Summary, out_path: str, table, limits) -> Non
         for w in s.first_errors:
             errors.add_row(str(w.row), markup(w.id, True), markup(w.message))
         err.print(errors)
+    err.print(clean(f"units: {s.units}"), markup=False)
     err.print(clean(f"road table: {table.name} ({table.source})"), markup=False)
     err.print(clean(f"rail limits: {limits.name} ({limits.source})"), markup=False)
+    said = ", ".join(s.results[:RESULTS_LISTED])
+    if len(s.results) > RESULTS_LISTED:
+        said += f" and {len(s.results) - RESULTS_LISTED} more"
+    err.print(clean(f"result columns ({len(s.results)}): {said}"), markup=False)
     if out_path != "-":
         err.print(clean(f"results written to {out_path}"), markup=False)
     err.print(f"[bold yellow]{CAUTION}[/]")

@@ -74,18 +74,25 @@ def test_standard_input_to_standard_output():
     assert b"Batch check" in done.stderr and b"Batch check" not in done.stdout
 
 
-def test_us_units_and_named_tables(tmp_path):
+def test_us_units_and_named_tables(tmp_path, capsys):
+    """Per row with --columns all; by default only in the summary (issue 16, item 4)."""
     src = tmp_path / "inventory.csv"
     # 25 mph: within class 2's 30 mph for passenger trains (49 CFR 213.9, read)
     src.write_text("kind,speed,radius,cant\nroad,60,1200,\nrail,25,2864.789,3\n")
     dest = tmp_path / "out.csv"
-    code = main(
-        ["batch", str(src), "-o", str(dest), "--units", "us", "--limits", "49cfr213-class1-2"]
-    )
+    named = ["--units", "us", "--limits", "49cfr213-class1-2"]
+    code = main(["batch", str(src), "-o", str(dest), *named, "--columns", "all"])
     out = rows_of(dest.read_text())
     assert code in (0, 1)
     assert out[0]["units"] == "us" and out[0]["table"] == "aashto-2018-us"
     assert out[1]["limits"] == "49cfr213-class1-2"
+    capsys.readouterr()
+    assert main(["batch", str(src), "-o", str(dest), *named]) == code
+    out = rows_of(dest.read_text())
+    assert not {"units", "table", "limits"} & set(out[0])
+    err = " ".join(capsys.readouterr().err.split())
+    assert "units: us" in err and "road table: aashto-2018-us" in err
+    assert "rail limits: 49cfr213-class1-2" in err
 
 
 def test_a_row_that_is_not_utf8_is_an_error_row_and_the_rest_run(tmp_path, capsys):
@@ -96,7 +103,7 @@ def test_a_row_that_is_not_utf8_is_an_error_row_and_the_rest_run(tmp_path, capsy
     assert main(["batch", str(src), "-o", str(dest)]) == 1
     rows = list(csv.DictReader(dest.open(encoding="utf-8")))
     assert [(r["id"], r["status"]) for r in rows] == [("QV-1", "error"), ("QV-2", "pass")]
-    assert rows[0]["note"] == "caf?" and "row 2: not UTF-8" in rows[0]["messages"]
+    assert rows[0]["note"] == "caf?" and "row 2: not UTF-8" in rows[0]["findings"]
     assert "not UTF-8" in capsys.readouterr().err  # the summary goes to stderr
 
 
@@ -134,3 +141,21 @@ def test_exit_code_counts_every_row_when_the_reader_closes_the_pipe_early(tmp_pa
     assert proc.wait(timeout=120) == 1
     assert "closed it early" in err and f"every one of the {len(rows) * 700:,} rows" in err
     assert "Traceback" not in err and "Exception ignored" not in err
+
+
+def test_columns_unknown_name_is_a_usage_error(tmp_path, capsys):
+    src = tmp_path / "inventory.csv"
+    src.write_text(GOOD)
+    dest = tmp_path / "out.csv"
+    assert main(["batch", str(src), "-o", str(dest), "--columns", "min_radius,radius_min"]) == 2
+    err = " ".join(capsys.readouterr().err.split())
+    assert "unknown result name 'radius_min'" in err and "advisory.speed" in err
+    assert not dest.exists()
+
+
+def test_a_file_named_parquet_that_is_not_parquet_exits_2(tmp_path, capsys):
+    src = tmp_path / "inventory.parquet"
+    src.write_text(GOOD)
+    assert main(["batch", str(src)]) == 2
+    assert "cannot read the file as Parquet" in " ".join(capsys.readouterr().err.split())
+    assert not (tmp_path / "inventory.checked.parquet").exists()
