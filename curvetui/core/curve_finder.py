@@ -35,25 +35,19 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
+from curvetui.core.bend_fit import FittedBend, fit_region, heading_noise
 from curvetui.core.centreline import (
     NOISE_FLOOR,
     Centreline,
     CentrelineError,
     prepare_centreline,
-    smooth_like,
 )
-from curvetui.core.curve_fit import (
-    CurvatureModel,
-    circle_geometric,
-    fit_curvature,
-    heading_of_knots,
-)
+from curvetui.core.curve_fit import circle_geometric, heading_of_knots
 from curvetui.core.curve_regions import Region, find_regions
+from curvetui.core.heading_segments import bends_in
 
 ARC_TRIM = 0.1  # share of an arc left out at each end of its circle fit (no source)
-MAX_COMPARED = 200  # headings compared in a fit at most (evenly spread; they are correlated)
 MIN_ARC_VERTICES = 6  # vertices an arc needs for a circle fit on a noisy line (no source)
-BIC_MARGIN = 10.0  # a richer model must lower the criterion by this much (no source)
 # 600 ft: MUTCD 2009, 2C.07 (read, secondary: REFERENCES.md, "Curve-direction signs for two
 # changes of direction separated by less than 600 ft of tangent"); TxDOT's broken-back
 # tangent of 15 V (ft, mph) gives the same at 40 mph (read).
@@ -118,15 +112,6 @@ class FinderResult:
     notes: tuple[str, ...] = ()
 
 
-@dataclass(frozen=True)
-class _Bend:
-    """A fitted bend before its radius and relations: knots along the smoothed line."""
-
-    knots: tuple[float, ...]
-    plateaus: tuple[float, ...]
-    turn: float
-
-
 def find_curves(x: ArrayLike, y: ArrayLike, settings: FinderSettings = FinderSettings()):
     """The curves along the line through vertices (x, y) [m] (module doc); a line that
     cannot be searched gives no curves and a note saying why, never an exception."""
@@ -146,12 +131,12 @@ def find_curves(x: ArrayLike, y: ArrayLike, settings: FinderSettings = FinderSet
         notes.append("two points: a straight line, no curve")
         return FinderResult((), 0, line.length, tuple(notes))
     detection = find_regions(line, settings.max_radius)
-    bends: list[_Bend] = []
-    regions = detection.regions
+    regions = _split_regions(line, detection.regions, detection.width, settings.max_radius)
+    bends: list[FittedBend] = []
+    noise = heading_noise(line)
     for i, region in enumerate(regions):
-        before = regions[i - 1] if i > 0 else None
-        after = regions[i + 1] if i + 1 < len(regions) else None
-        bends.extend(_fit_region(line, region, before, after, detection.width))
+        lo, hi = _window(line, region, regions, i, detection.width)
+        bends.extend(fit_region(line, region, lo, hi, settings.max_radius, noise))
     curves: list[FoundCurve] = []
     dropped = 0
     previous_end: float | None = None
@@ -177,6 +162,45 @@ def find_curves(x: ArrayLike, y: ArrayLike, settings: FinderSettings = FinderSet
     return FinderResult(tuple(curves), dropped, line.length, tuple(notes))
 
 
+def _split_regions(
+    line: Centreline, regions: tuple[Region, ...], width: float, max_radius: float
+) -> list[Region]:
+    """Each region's stretch (up to its neighbours) cut into bends where its heading
+    diagram has a tangent or a change of sense (core/heading_segments.py); a region with
+    no bend left in it was noise."""
+    noise = heading_noise(line)
+    span = 2 * line.half + 1 + 2 * line.smoothing / line.step
+    out: list[Region] = []
+    n = line.arc.size
+    for i, region in enumerate(regions):
+        lo, hi = _window(line, region, regions, i, width)
+        if hi - lo < 6:
+            out.append(region)
+            continue
+        for a, b, sense, pieces in bends_in(
+            line.arc[lo : hi + 1], line.heading[lo : hi + 1], noise, span, max_radius
+        ):
+            first, last = lo + a, lo + b
+            if out and first <= out[-1].last:  # windows overlap: keep the earlier claim
+                first = out[-1].last + 1
+            moved = tuple((lo + p, lo + q, k) for p, q, k in pieces if lo + q > first)
+            if last - first >= 1 and last < n and moved:
+                out.append(Region(first, last, sense, moved))
+    return out
+
+
+def _window(line: Centreline, region: Region, regions, i: int, width: float) -> tuple[int, int]:
+    """The stretch around a region searched for its bends: a margin of tangent each side,
+    up to the neighbouring regions."""
+    step = line.step
+    margin = int(math.ceil(max(40.0, 2 * width, 0.5 * (region.last - region.first) * step) / step))
+    before = regions[i - 1] if i > 0 else None
+    after = regions[i + 1] if i + 1 < len(regions) else None
+    lo = max(region.first - margin, before.last + 1 if before else 0)
+    hi = min(region.last + margin, after.first - 1 if after else line.arc.size - 1)
+    return lo, hi
+
+
 def _safe_length(x: ArrayLike, y: ArrayLike) -> float:
     try:
         xa = np.asarray(x, dtype=float).ravel()
@@ -193,186 +217,10 @@ def _with(curve: FoundCurve, relation: str, tangent: float | None) -> FoundCurve
     return replace(curve, relation=relation, tangent_before=tangent)
 
 
-# --- fitting one region -------------------------------------------------------------------
-
-
-def _fit_region(
-    line: Centreline, region: Region, before: Region | None, after: Region | None, width: float
-) -> list[_Bend]:
-    """The bend (or two) best fitting the headings over the region and the tangents beside
-    it (up to the neighbouring regions)."""
-    n = line.arc.size
-    step = line.step
-    margin = int(math.ceil(max(40.0, 2 * width, 0.5 * (region.last - region.first) * step) / step))
-    lo = max(region.first - margin, before.last + 1 if before else 0)
-    hi = min(region.last + margin, after.first - 1 if after else n - 1)
-    pad = int(math.ceil(4 * line.smoothing / step)) + line.half + 1
-    elo, ehi = max(0, lo - pad), min(n - 1, hi + pad)
-    # every k-th point only (headings are correlated over the chord): k = stride
-    stride = max(1, (hi - lo + 1) // MAX_COMPARED)
-    elo = lo - ((lo - elo) // stride) * stride
-    s = line.arc[elo : ehi + 1 : stride]
-    heading = line.heading[elo : ehi + 1 : stride]
-    inside = (s >= line.arc[lo]) & (s <= line.arc[hi])
-
-    def smoother(values: NDArray) -> NDArray:
-        return smooth_like(line, values, stride)
-
-    first, last = line.arc[region.first], line.arc[region.last]
-    turn = float(line.heading[region.last] - line.heading[region.first])
-    if abs(turn) < 1e-9:
-        return []
-    span = max(last - first, step)
-    bounds = (line.arc[lo] - span, line.arc[hi])
-    sub = slice(region.first, region.last + 1)
-    weight = np.abs(line.curvature[sub])
-    centre = float(np.sum(line.arc[sub] * weight) / max(np.sum(weight), 1e-300))
-    theta0 = float(line.heading[lo])
-    candidates: list[tuple[float, list[_Bend]]] = []
-    n_eff = max(2.0, (hi - lo + 1) / (2 * line.half + 1 + 2 * line.smoothing / step))
-
-    def criterion(model: CurvatureModel, k: int) -> float:
-        mean_sq = max(2 * model.cost / max(model.points, 1), 1e-30)
-        return n_eff * math.log(mean_sq) + k * math.log(n_eff)
-
-    singles = []
-    for middle, le in ((centre, span * 0.6), ((first + last) / 2, span)):
-        for share in (0.0, 0.3):
-            lc = le * (1 - share)
-            ls = max(le * share, 0.5)
-            kappa = turn / (lc + ls)
-            start = np.array([theta0, middle - lc / 2 - ls, ls, lc, ls, kappa])
-            singles.append(fit_curvature(s, heading, start, smoother, inside, (True,), bounds))
-    single = min(singles, key=lambda m: m.cost)
-    candidates.append((criterion(single, 6), [_bend(single)]))
-
-    for start in _compound_starts(line, single, region):
-        model = fit_curvature(s, heading, start, smoother, inside, (True, True), bounds)
-        if _ratio(model.plateaus) >= 1.0:
-            candidates.append((criterion(model, 9), [_bend(model)]))
-
-    min_tangent = 2 * (line.half * step + line.smoothing)
-    split = _split_start(line, region, single, turn)
-    if split is not None:
-        model = fit_curvature(s, heading, split, smoother, inside, (True, False, True), bounds)
-        kn = model.knots
-        outer = (model.plateaus[0], model.plateaus[2])
-        if kn[4] - kn[3] >= min_tangent and all(abs(k) > 0 for k in outer):
-            parts = [
-                _Bend(kn[:4], (model.plateaus[0],), _turn(kn[:4], model.plateaus[0])),
-                _Bend(kn[4:], (model.plateaus[2],), _turn(kn[4:], model.plateaus[2])),
-            ]
-            candidates.append((criterion(model, 10), parts))
-
-    best_value, best = candidates[0]
-    for value, bends in candidates[1:]:
-        if value < best_value - BIC_MARGIN:
-            best_value, best = value, bends
-    return [_within(b, float(line.arc[0]), float(line.arc[-1])) for b in best]
-
-
-def _within(bend: _Bend, first: float, last: float) -> _Bend:
-    """The bend cut to the line (a line that starts or ends inside a curve): knots clipped
-    and the turn the part on the line makes."""
-    knots = np.asarray(bend.knots)
-    values = np.concatenate(([0.0], np.repeat(bend.plateaus, 2), [0.0]))
-    a, b = max(knots[0], first), min(knots[-1], last)
-    ends = heading_of_knots(np.array([a, b]), knots, values, 0.0)
-    clipped = tuple(float(k) for k in np.clip(knots, first, last))
-    return _Bend(clipped, bend.plateaus, float(ends[1] - ends[0]))
-
-
-def _ratio(plateaus: tuple[float, ...]) -> float:
-    a, b = abs(plateaus[0]), abs(plateaus[-1])
-    return max(a, b) / min(a, b) if min(a, b) > 0 else math.inf
-
-
-def _turn(knots: tuple[float, ...], kappa: float) -> float:
-    """Heading change of one bend TS, SC, CS, ST with plateau ``kappa``."""
-    ts, sc, cs, st = knots
-    return kappa * ((sc - ts) / 2 + (cs - sc) + (st - cs) / 2)
-
-
-def _bend(model: CurvatureModel) -> _Bend:
-    return _Bend(model.knots, model.plateaus, model.turn)
-
-
-def _compound_starts(line: Centreline, single: CurvatureModel, region: Region) -> list[NDArray]:
-    """Start values for a compound curve: the arc of the single fit halved, and the arcs
-    either side of the break that best splits the headings over the region into two
-    straight pieces (least squares, every break tried through cumulative sums)."""
-    ts, sc, cs, st = single.knots
-    kap = single.plateaus[0]
-    lc = max(cs - sc, 2 * line.step)
-    starts = [
-        np.array([single.theta0, ts, sc - ts + 0.5, lc / 2, 0.5, lc / 2, st - cs + 0.5,
-                  kap * f, kap * (2 - f)])
-        for f in (1.3, 0.7)
-    ]  # fmt: skip
-    if region.last - region.first >= 8:
-        s = line.arc[region.first : region.last + 1]
-        h = line.heading[region.first : region.last + 1]
-        b, k1, k2 = _two_lines(s, h)
-        if k1 * kap > 0 and k2 * kap > 0:
-            theta0 = float(line.heading[region.first])
-            starts.append(
-                np.array([theta0, s[0], 0.5, s[b] - s[0], 0.5, s[-1] - s[b], 0.5, k1, k2])
-            )
-    return starts
-
-
-def _two_lines(s: NDArray, h: NDArray) -> tuple[int, float, float]:
-    """The break index b (2 < b < n - 2) whose straight-line fits to (s, h) on [0, b] and
-    [b, n) leave the least squared misfit, and the two slopes."""
-    n = s.size
-    c = [np.cumsum(v) for v in (np.ones(n), s, h, s * s, s * h, h * h)]
-
-    def sse(tot):
-        m, sx, sy, sxx, sxy, syy = tot
-        vx = sxx - sx * sx / m
-        cov = sxy - sx * sy / m
-        slope = cov / np.where(vx > 0, vx, 1.0)
-        return syy - sy * sy / m - slope * cov, slope
-
-    b = np.arange(3, n - 3)
-    left = [v[b - 1] for v in c]
-    right = [v[-1] - v[b - 1] for v in c]
-    e1, k1 = sse(left)
-    e2, k2 = sse(right)
-    j = int(np.argmin(e1 + e2))
-    return int(b[j]), float(k1[j]), float(k2[j])
-
-
-def _split_start(line: Centreline, region: Region, single: CurvatureModel, turn: float):
-    """Start values for two bends the same way with a tangent between, split where the
-    curvature is least in the middle half of the region; None for a short region."""
-    count = region.last - region.first + 1
-    if count * line.step < 40.0:
-        return None
-    a = region.first + count // 4
-    b = region.last - count // 4
-    j = a + int(np.argmin(np.abs(line.curvature[a : b + 1])))
-    ts, st = single.knots[0], single.knots[-1]
-    mid = float(line.arc[j])
-    if not ts + 5 < mid < st - 5:
-        return None
-    t1 = float(line.heading[j] - line.heading[region.first])
-    t2 = turn - t1
-    if t1 * turn <= 0 or t2 * turn <= 0:
-        return None
-    l1, l2 = mid - ts, st - mid
-    gap = min(10.0, 0.2 * min(l1, l2))
-    k1 = t1 / max(l1 - gap / 2, 1.0)
-    k2 = t2 / max(l2 - gap / 2, 1.0)
-    r1 = max(l1 - gap / 2 - 1.0, 1.0)
-    r2 = max(l2 - gap / 2 - 1.0, 1.0)
-    return np.array([single.theta0, ts, 0.5, r1, 0.5, gap, 0.5, r2, 0.5, k1, k2])
-
-
 # --- one bend to a found curve ------------------------------------------------------------
 
 
-def _curve_of(line: Centreline, bend: _Bend, settings: FinderSettings) -> FoundCurve:
+def _curve_of(line: Centreline, bend: FittedBend, settings: FinderSettings) -> FoundCurve:
     kn = np.asarray(bend.knots)
     radii = []
     for j, kappa in enumerate(bend.plateaus):
@@ -427,7 +275,7 @@ def _arc_radius(line: Centreline, a: float, b: float, kappa: float) -> float:
     return circle.radius if math.isfinite(circle.radius) else fallback
 
 
-def _shape_rms(line: Centreline, bend: _Bend, a: float, b: float) -> float:
+def _shape_rms(line: Centreline, bend: FittedBend, a: float, b: float) -> float:
     """RMS distance [m] of the resampled points from ``a`` to ``b`` from the fitted bend
     laid on them (rotation and shift by least squares, points matched by length)."""
     pick = (line.arc >= a) & (line.arc <= b)

@@ -30,6 +30,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 TINY = 1e-12
+OVERRUN_WEIGHT = 0.1  # [rad/m]
 MAX_EVALUATIONS = 200  # per fit; a fit that needs more is a poor start (no source)
 
 
@@ -162,6 +163,7 @@ def fit_curvature(
     inside: NDArray,
     pattern: tuple[bool, ...],
     bounds_station: tuple[float, float],
+    last_knot: float = math.inf,
 ) -> CurvatureModel:
     """Least-squares fit of a bend with plateaus of curvature ``pattern`` (see ``_unpack``)
     to ``heading`` at ``s``.
@@ -170,14 +172,16 @@ def fit_curvature(
     curvatures]; ``smoother`` maps model headings at every ``s`` to what the measurement
     made of them; only the points where ``inside`` is true are compared. The first knot is
     kept within ``bounds_station``; lengths are non-negative; a plateau's curvature keeps
-    its sign.
+    its sign; a last knot beyond ``last_knot`` is penalised (OVERRUN_WEIGHT [rad/m]), so
+    that the bend stays on the stretch fitted instead of running over unseen ground.
     """
     from scipy.optimize import least_squares
 
     def residuals(p: NDArray) -> NDArray:
         theta0, knots, values = _unpack(p, pattern)
         model = smoother(heading_of_knots(s, knots, values, theta0))
-        return (model - heading)[inside]
+        past = max(0.0, knots[-1] - last_knot) * OVERRUN_WEIGHT
+        return np.append((model - heading)[inside], past)
 
     n_len = 2 * len(pattern) + 1
     n_free = sum(pattern)
@@ -198,7 +202,7 @@ def fit_curvature(
         residuals, x0, bounds=(lo, hi), x_scale=scale, method="trf", max_nfev=MAX_EVALUATIONS
     )
     theta0, knots, values = _unpack(sol.x, pattern)
-    res = sol.fun
+    res = sol.fun[:-1]
     rms = float(np.sqrt(np.mean(res * res))) if res.size else 0.0
     plateaus = tuple(float(k) for k in values[1:-1:2])
     return CurvatureModel(

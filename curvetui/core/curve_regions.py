@@ -40,6 +40,8 @@ class Region:
     first: int
     last: int
     sign: int
+    # straight pieces of its heading diagram (first, last, slope [1/m]), where known
+    pieces: tuple[tuple[int, int, float], ...] = ()
 
 
 @dataclass(frozen=True)
