@@ -30,6 +30,9 @@ import numpy as np
 from numpy.typing import NDArray
 
 TINY = 1e-12
+# points whose spread across their main direction is below this share of the spread along
+# it are in line (a circle through them would be larger than rounding can tell)
+COLLINEAR = 1e-9
 OVERRUN_WEIGHT = 0.1  # [rad/m]
 MAX_EVALUATIONS = 200  # per fit; a fit that needs more is a poor start (no source)
 
@@ -50,6 +53,9 @@ def circle_algebraic(x: NDArray, y: NDArray) -> Circle:
     Returns a circle of infinite radius when the points are collinear."""
     mx, my = float(np.mean(x)), float(np.mean(y))
     u, v = x - mx, y - my
+    spread = np.linalg.svd(np.column_stack((u, v)), compute_uv=False)
+    if spread.size < 2 or spread[1] <= COLLINEAR * spread[0]:
+        return Circle(mx, my, math.inf, math.nan)
     a = np.column_stack((u, v, np.ones_like(u)))
     b = -(u * u + v * v)
     (d, e, f), *_ = np.linalg.lstsq(a, b, rcond=None)
