@@ -7,8 +7,9 @@ are the arcs, what lies between them the ramps; two more starts for one arc come
 the stretch's turn and extent. Of the fits, the lowest Bayesian information criterion
 wins (a richer model must lower it by BIC_MARGIN); the number of independent headings is
 the points compared over the width one noise value spans (the smoothing). A plateau
-flatter than 1 / max_radius between two others is a tangent: the bend is parted there
-into two bends (broken-back, the stretch's ends having been blurred together).
+flatter than 1 / max_radius, or than FLAT_SHARE of its flatter neighbour, between two
+others is a tangent: the bend is parted there into two bends (broken-back, the
+stretch's ends having been blurred together).
 """
 
 from __future__ import annotations
@@ -23,12 +24,16 @@ from curvetui.core.centreline import Centreline, smooth_like
 from curvetui.core.curve_fit import CurvatureModel, fit_curvature, heading_of_knots
 from curvetui.core.curve_regions import Region
 
-MAX_PLATEAUS = 3
+MAX_PLATEAUS = 4
+# an inner plateau flatter than this share of its flatter neighbour (or 1 / max_radius) is
+# a tangent (no source: compound curves keep a radius ratio far below 10; TxDOT's design
+# limit is 1.5)
+FLAT_SHARE = 0.1
 MAX_COMPARED = 200  # headings compared in a fit at most (evenly spread; they are correlated)
-BIC_MARGIN = 10.0  # a richer model must lower the criterion by this much (no source)
+BIC_MARGIN = 6.0  # a richer model must lower the criterion by this much (no source)
 # a single bend fitting the headings to within this many noise sd (or GOOD_FIT_FLOOR
 # [rad]) is not tried with more plateaus (saves time; no source)
-GOOD_FIT_SIGMAS = 3.0
+GOOD_FIT_SIGMAS = 1.2
 GOOD_FIT_FLOOR = 5e-4
 # an end plateau under this share of the sharpest, turning less than STRAY_TURN [rad], is
 # the tangent beyond the bend and is left off (no source)
@@ -106,7 +111,7 @@ def fit_region(
     centre = float(
         np.sum(line.arc[region.first : region.last + 1] * weight) / max(np.sum(weight), 1e-300)
     )
-    starts = [_piece_start(line, region, theta0, 1)]
+    starts = [_piece_start(line, region, theta0, 1, region.pieces)]
     for middle, le, share in ((centre, span * 0.6, 0.3), ((first + last) / 2, span, 0.0)):
         lc = le * (1 - share)
         ls = max(le * share, 0.5)
@@ -114,24 +119,98 @@ def fit_region(
     single = min((fit(x0, 1) for x0 in starts if x0 is not None), key=lambda m: m.cost)
     best, best_value = single, criterion(single)
     if single.rms > max(GOOD_FIT_SIGMAS * noise, GOOD_FIT_FLOOR):
-        for k in range(2, min(MAX_PLATEAUS, len(region.pieces)) + 1):
-            start = _piece_start(line, region, theta0, k)
-            if start is None:
-                continue
-            model = fit(start, k)
-            value = criterion(model)
-            if value < best_value - BIC_MARGIN:
-                best, best_value = model, value
+        for k in range(2, MAX_PLATEAUS + 1):
+            for pieces in _candidate_pieces(line, region, k):
+                start = _piece_start(line, region, theta0, k, pieces)
+                if start is None:
+                    continue
+                model = fit(start, k)
+                value = criterion(model)
+                if value < best_value - BIC_MARGIN:
+                    best, best_value = model, value
     bends = _parted(best, 1.0 / max_radius)
     return [within(b, float(line.arc[0]), float(line.arc[-1])) for b in bends]
 
 
-def _piece_start(line: Centreline, region: Region, theta0: float, k: int) -> NDArray | None:
-    """Start values with the ``k`` longest curving pieces as the arcs (module doc)."""
-    pieces = sorted(region.pieces, key=lambda p: p[1] - p[0], reverse=True)[:k]
+def _candidate_pieces(line: Centreline, region: Region, k: int):
+    """Piece sets to start a fit of ``k`` plateaus from: the heading diagram's own; the
+    guessed ones for 2 and 3; and with one piece fewer than ``k``, the pieces with a
+    short flat one put in at each junction in turn (a tangent between two bends that the
+    pieces ran over)."""
+    yield region.pieces
+    if k < 4:
+        yield _guessed_pieces(line, region, k)
+    pieces = region.pieces
+    if len(pieces) == k - 1:
+        for j in range(len(pieces) - 1):
+            a, b, k1 = pieces[j]
+            c, d, k2 = pieces[j + 1]
+            gap = max(1, int(round(min(10.0, 0.2 * (d - c) * line.step) / line.step)))
+            if b - gap <= a or c + gap >= d:
+                continue
+            flat = (b - gap, c + gap, 0.01 * min(k1, k2, key=abs))
+            yield (*pieces[:j], (a, b - gap, k1), flat, (c + gap, d, k2), *pieces[j + 2 :])
+
+
+def _guessed_pieces(line: Centreline, region: Region, k: int) -> tuple:
+    """Arcs guessed where the heading diagram's pieces were too few: for two, the break
+    that best splits the region's headings into two straight lines; for three, a short
+    flat middle where the curvature is least in the middle half (two bends whose
+    tangent between was blurred away)."""
+    a, b = region.first, region.last
+    if b - a < 12:
+        return ()
+    s, h = line.arc[a : b + 1], line.heading[a : b + 1]
+    if k == 2:
+        j, k1, k2 = _two_lines(s, h)
+        return ((a, a + j, k1), (a + j, b, k2))
+    count = b - a + 1
+    lo, hi = a + count // 4, b - count // 4
+    j = lo + int(np.argmin(np.abs(line.curvature[lo : hi + 1])))
+    gap = max(1, int(round(min(10.0, 0.1 * count * line.step) / line.step)))
+    t1 = float(line.heading[j] - line.heading[a])
+    t2 = float(line.heading[b] - line.heading[j])
+    if t1 * t2 <= 0 or j - gap <= a or j + gap >= b:
+        return ()
+    k1 = t1 / max(line.arc[j] - line.arc[a], 1.0)
+    k2 = t2 / max(line.arc[b] - line.arc[j], 1.0)
+    return ((a, j - gap, k1), (j - gap, j + gap, 0.01 * k1), (j + gap, b, k2))
+
+
+def _two_lines(s: NDArray, h: NDArray) -> tuple[int, float, float]:
+    """The break index b (2 < b < n - 3) whose straight-line fits to (s, h) on [0, b) and
+    [b, n) leave the least squared misfit, and the two slopes (cumulative sums)."""
+    n = s.size
+    c = [np.cumsum(v) for v in (np.ones(n), s, h, s * s, s * h, h * h)]
+
+    def sse(tot):
+        m, sx, sy, sxx, sxy, syy = tot
+        vx = sxx - sx * sx / m
+        cov = sxy - sx * sy / m
+        slope = cov / np.where(vx > 0, vx, 1.0)
+        return syy - sy * sy / m - slope * cov, slope
+
+    b = np.arange(3, n - 3)
+    left = [v[b - 1] for v in c]
+    right = [v[-1] - v[b - 1] for v in c]
+    e1, k1 = sse(left)
+    e2, k2 = sse(right)
+    j = int(np.argmin(e1 + e2))
+    return int(b[j]), float(k1[j]), float(k2[j])
+
+
+def _piece_start(
+    line: Centreline, region: Region, theta0: float, k: int, pieces: tuple
+) -> NDArray | None:
+    """Start values with the ``k`` longest ``pieces`` as the arcs (module doc); None when
+    there are fewer or their curvatures do not keep the region's sense (a flat middle
+    piece may)."""
+    pieces = sorted(pieces, key=lambda p: p[1] - p[0], reverse=True)[:k]
     if len(pieces) < k:
         return None
     pieces.sort()
+    if any(p[2] * region.sign <= 0 for p in pieces):
+        return None
     arc = line.arc
     ts, st = float(arc[region.first]), float(arc[region.last])
     lengths = [max(float(arc[pieces[0][0]]) - ts, 0.5)]
@@ -161,7 +240,8 @@ def _parted(model: CurvatureModel, flat: float) -> list[FittedBend]:
     out: list[FittedBend] = []
     start = 0  # the current bend's first plateau; its TS is knots[2 start]
     for j in range(1, len(plateaus) - 1):
-        if abs(plateaus[j]) < flat:  # plateau j is a tangent from knots[2j+1] to [2j+2]
+        beside = min(abs(plateaus[j - 1]), abs(plateaus[j + 1]))
+        if abs(plateaus[j]) < max(flat, FLAT_SHARE * beside):  # a tangent: knots 2j+1 to 2j+2
             out.append(_bend(knots[2 * start : 2 * j + 2], plateaus[start:j]))
             start = j + 1
     out.append(_bend(knots[2 * start :], plateaus[start:]))

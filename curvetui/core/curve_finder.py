@@ -15,7 +15,9 @@
 4. each arc's radius is the geometric circle fit (core/curve_fit.py) to the original
    vertices on it, trimmed by ``ARC_TRIM`` of its length at each end against errors in
    where the arc starts; with fewer than ``MIN_ARC_VERTICES`` vertices (3 on a line
-   without noise) the radius is 1 / kappa of the fitted plateau;
+   without noise), or an arc so short for the noise that the circle fit's radius would
+   scatter by more than ``CIRCLE_FIT_MAX_SD``, the radius is 1 / kappa of the fitted
+   plateau;
 5. bends turning less than ``settings.min_deflection`` are dropped and counted; the
    tangent to the previous bend and the relation to it (reverse, broken-back when that
    tangent is shorter than ``settings.short_tangent``) complete each curve.
@@ -48,6 +50,9 @@ from curvetui.core.heading_segments import bends_in
 
 ARC_TRIM = 0.1  # share of an arc left out at each end of its circle fit (no source)
 MIN_ARC_VERTICES = 6  # vertices an arc needs for a circle fit on a noisy line (no source)
+# a circle fit whose radius would scatter more than this (relative sd) on the line's noise
+# gives way to the curvature of the fitted bend, which the spirals and tangents steady
+CIRCLE_FIT_MAX_SD = 0.03
 # 600 ft: MUTCD 2009, 2C.07 (read, secondary: REFERENCES.md, "Curve-direction signs for two
 # changes of direction separated by less than 600 ft of tangent"); TxDOT's broken-back
 # tangent of 15 V (ft, mph) gives the same at 40 mph (read).
@@ -268,9 +273,18 @@ def _arc_radius(line: Centreline, a: float, b: float, kappa: float) -> float:
     trim = ARC_TRIM * (b - a)
     sa, sb = line.to_station([a + trim, b - trim])
     inside = (line.vertex_station >= sa) & (line.vertex_station <= sb)
+    count = int(inside.sum())
     need = 3 if line.noise <= NOISE_FLOOR else MIN_ARC_VERTICES
-    if inside.sum() < need:
+    if count < need:
         return fallback
+    if line.noise > NOISE_FLOOR and math.isfinite(fallback):
+        # sagitta a = 1/(2R) of a parabola fitted to n points spread evenly over a chord L
+        # has sd sigma sqrt(180 / n) / L^2, so the radius's relative sd is 2 R that
+        # (least-squares variance of the quadratic term; derived)
+        chord = max(float(sb - sa), 1e-9)
+        relative = 2 * fallback * line.noise * math.sqrt(180.0 / count) / chord**2
+        if relative > CIRCLE_FIT_MAX_SD:
+            return fallback
     circle = circle_geometric(line.vertex_x[inside], line.vertex_y[inside])
     return circle.radius if math.isfinite(circle.radius) else fallback
 
