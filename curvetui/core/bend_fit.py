@@ -25,6 +25,13 @@ from curvetui.core.curve_fit import CurvatureModel, fit_curvature, heading_of_kn
 from curvetui.core.curve_regions import Region
 
 MAX_PLATEAUS = 4
+# [m] an arc of a compound shorter than this (or the chord, or the smoothing width) is
+# not told apart from a ramp (no source)
+MIN_ARC = 5.0
+# [rad] heading misfits below this (0.06 degree) are not told apart: the chord's mean and
+# the Gaussian stand-in for the point smoothing (centreline.smooth_like) round a sudden
+# change of curvature off by about as much (no source)
+HEADING_RESOLUTION = 1e-3
 # an inner plateau flatter than this share of its flatter neighbour (or 1 / max_radius) is
 # a tangent (no source: compound curves keep a radius ratio far below 10; TxDOT's design
 # limit is 1.5)
@@ -104,7 +111,9 @@ def fit_region(
 
     def criterion(model: CurvatureModel) -> float:
         k = 2 + 3 * len(model.plateaus) + 1
-        mean_sq = max(2 * model.cost / max(model.points, 1), 1e-30)
+        # misfits under HEADING_RESOLUTION do not count (a line without noise would
+        # otherwise buy extra arcs for the smoothing's rounding at a change of curvature)
+        mean_sq = max(2 * model.cost / max(model.points, 1), HEADING_RESOLUTION**2)
         return n_eff * math.log(mean_sq) + k * math.log(n_eff)
 
     weight = np.abs(line.curvature[region.first : region.last + 1])
@@ -118,6 +127,7 @@ def fit_region(
         starts.append(np.array([theta0, middle - lc / 2 - ls, ls, lc, ls, turn / (lc + ls)]))
     single = min((fit(x0, 1) for x0 in starts if x0 is not None), key=lambda m: m.cost)
     best, best_value = single, criterion(single)
+    shortest_arc = max(MIN_ARC, 2 * line.half * step, line.smoothing)
     if single.rms > max(GOOD_FIT_SIGMAS * noise, GOOD_FIT_FLOOR):
         for k in range(2, MAX_PLATEAUS + 1):
             for pieces in _candidate_pieces(line, region, k):
@@ -125,11 +135,20 @@ def fit_region(
                 if start is None:
                     continue
                 model = fit(start, k)
+                if _has_short_arc(model, shortest_arc):
+                    continue
                 value = criterion(model)
                 if value < best_value - BIC_MARGIN:
                     best, best_value = model, value
     bends = _parted(best, 1.0 / max_radius)
     return [within(b, float(line.arc[0]), float(line.arc[-1])) for b in bends]
+
+
+def _has_short_arc(model: CurvatureModel, shortest: float) -> bool:
+    """True when an arc of a model of several is shorter than ``shortest`` [m]: too
+    short to tell from the smoothing's rounding of a ramp."""
+    k = model.knots
+    return any(k[2 * j + 2] - k[2 * j + 1] < shortest for j in range(len(model.plateaus)))
 
 
 def _candidate_pieces(line: Centreline, region: Region, k: int):
