@@ -2,9 +2,12 @@
 station (core/curve_fit.py): tangent, clothoid ramp, arc, ... , ramp, tangent.
 
 Starts: the curving pieces of the heading diagram (core/heading_segments.py) give the
-arcs: for K plateaus (1 to MAX_PLATEAUS, no more than the pieces) the K longest pieces
-are the arcs, what lies between them the ramps; two more starts for one arc come from
-the stretch's turn and extent. Of the fits, the lowest Bayesian information criterion
+arcs: for K plateaus (1 to MAX_PLATEAUS) the K longest pieces are the arcs, what lies
+between them the ramps; where the pieces are too few, guessed ones (``_candidate_pieces``:
+the best two-line split of the headings, a flat piece where the curvature is least, or
+a flat piece put in at a junction); two more starts for one arc come from the stretch's
+turn and extent. More than one arc is tried only when one arc misfits the headings by
+more than GOOD_FIT_SIGMAS noise sd. Of the fits, the lowest Bayesian information criterion
 wins (a richer model must lower it by BIC_MARGIN); the number of independent headings is
 the points compared over the width one noise value spans (the smoothing). A plateau
 flatter than 1 / max_radius, or than FLAT_SHARE of its flatter neighbour, between two

@@ -4,14 +4,14 @@
 
 1. the line is cleaned, resampled at ``settings.spacing`` and measured
    (core/centreline.py: headings, curvature, the vertex noise and the smoothing it needs);
-2. the runs where it curves one way are found (core/curve_regions.py);
-3. each run is fitted with a bend whose curvature is piecewise linear in station
-   (core/curve_fit.py): a simple or spiralled curve (tangent, clothoid ramp, arc, ramp,
-   tangent), a compound curve (two arcs of the same sense), or two bends the same way
-   with a tangent between (the run's ends blurred together), the model with the lowest
-   Bayesian information criterion winning (heading misfits are correlated over the
-   smoothing, so the number of independent points is the points compared over that
-   width);
+2. the runs where it curves clear of the noise are found (core/curve_regions.py), and
+   each run's stretch is cut where its heading diagram has a tangent or a change of
+   sense (core/heading_segments.py);
+3. each bend is fitted with curvature piecewise linear in station (core/bend_fit.py,
+   core/curve_fit.py): tangent, clothoid ramp, one to four arcs with ramps between,
+   ramp, tangent; the fit with the lowest Bayesian information criterion wins (one arc:
+   simple or spiralled; more: compound), and an inner arc that comes out flat parts the
+   bend in two (broken-back pairs whose tangent the smoothing blurred);
 4. each arc's radius is the geometric circle fit (core/curve_fit.py) to the original
    vertices on it, trimmed by ``ARC_TRIM`` of its length at each end against errors in
    where the arc starts; with fewer than ``MIN_ARC_VERTICES`` vertices (3 on a line
