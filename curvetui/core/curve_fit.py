@@ -34,7 +34,10 @@ TINY = 1e-12
 # it are in line (a circle through them would be larger than rounding can tell)
 COLLINEAR = 1e-9
 OVERRUN_WEIGHT = 0.1  # [rad/m]
-MAX_EVALUATIONS = 200  # per fit; a fit that needs more is a poor start (no source)
+MAX_EVALUATIONS = 100  # per fit; a fit that needs more is a poor start (no source)
+# relative change of the misfit and of the parameters that ends a fit: 1e-6 of a knot
+# station is well under a millimetre on a curve of a kilometre (no source)
+FIT_TOLERANCE = 1e-6
 
 
 @dataclass(frozen=True)
@@ -205,7 +208,14 @@ def fit_curvature(
     kscale = max(float(np.max(np.abs(start[2 + n_len :]))), 1e-6)
     scale = np.concatenate(([0.01, 1.0], np.ones(n_len), np.full(n_free, kscale)))
     sol = least_squares(
-        residuals, x0, bounds=(lo, hi), x_scale=scale, method="trf", max_nfev=MAX_EVALUATIONS
+        residuals,
+        x0,
+        bounds=(lo, hi),
+        x_scale=scale,
+        method="trf",
+        max_nfev=MAX_EVALUATIONS,
+        ftol=FIT_TOLERANCE,
+        xtol=FIT_TOLERANCE,
     )
     theta0, knots, values = _unpack(sol.x, pattern)
     res = sol.fun[:-1]
