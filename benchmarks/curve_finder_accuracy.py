@@ -163,6 +163,7 @@ def run(alignments: int, seed: int) -> None:
     )
     print(head)
     print("-" * len(head))
+    table = []
     for spacing in SPACINGS:
         for noise in NOISES:
             noise_rng = np.random.default_rng(seed + int(spacing * 100 + noise * 1000))
@@ -184,11 +185,28 @@ def run(alignments: int, seed: int) -> None:
             missed = int(np.sum(covered < 0.5 * lengths))
             ok = errs[np.isfinite(errs)] * 100
             share = 100 * covered.sum() / lengths.sum()
+            table.append((noise, share, float(np.median(ok))))
             print(
                 f"{spacing:7g} {noise:5g} {len(rows):6d} {share:7.1f} "
                 f"{np.median(ok):11.2f} {np.percentile(ok, 95):11.2f} {false:5d} {missed:6d} "
                 f"{dt:6.2f}"
             )
+    print(
+        "curves: true curves (a compound pair of bends counts once); s/line: seconds per "
+        "alignment (about 2 to 7 km)"
+    )
+    shares = [share for _, share, _ in table]
+    clean = [med for noise, _, med in table if noise == 0]
+    noisy = [med for noise, _, med in table if noise == max(NOISES)]
+    for goal, ok in (
+        (f"curve length found >= 95 % in every row (least {min(shares):.1f} %)", min(shares) >= 95),
+        (f"median radius error < 2 % without noise (worst {max(clean):.2f} %)", max(clean) < 2),
+        (
+            f"median radius error < 5 % with {max(NOISES):g} m noise (worst {max(noisy):.2f} %)",
+            max(noisy) < 5,
+        ),
+    ):
+        print(f"{'met' if ok else 'NOT MET':>7}: {goal}")
 
 
 def calibrate() -> None:
