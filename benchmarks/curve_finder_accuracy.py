@@ -214,6 +214,7 @@ def calibrate() -> None:
     from scipy.ndimage import gaussian_filter1d
 
     from curvetui.core.centreline import prepare_centreline
+    from curvetui.core.curve_regions import NOISE_KAPPA, NOISE_POWER
 
     rng = np.random.default_rng(1)
     print(f"{'noise':>5} {'vertex':>6} {'W m':>4} {'s_kappa':>9} {'model':>9}")
@@ -225,7 +226,7 @@ def calibrate() -> None:
             line = prepare_centreline(x, y, 1.0)
             for width in (10.0, 20.0, 40.0):
                 k = gaussian_filter1d(line.curvature, width / line.step)[300:-300]
-                model = 0.27 * line.noise / width**2.15
+                model = NOISE_KAPPA * line.noise / width**NOISE_POWER
                 print(f"{noise:5g} {spacing:6g} {width:4g} {k.std():9.2e} {model:9.2e}")
 
 
