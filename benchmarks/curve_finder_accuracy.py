@@ -16,7 +16,8 @@ For each spacing and noise: the share of the true curves' length covered by foun
 turning the same way; the radius error (found curve overlapping a true one most, its
 radius against the true sharpest radius; median and 95th percentile); false curves (found
 curves with less than half their length on a true curve); missed curves (true curves with
-less than half their length found). Found stations run along the noisy line; they are
+less than half their length found); shape: true curves whose most overlapping found curve
+has their shape (simple, spiralled, compound). Found stations run along the noisy line; they are
 taken back to true stations through the vertices (each vertex's station on both).
 Goals (issue 16): at least 95 % of curve length found; median radius error under 2 %
 without noise and under 5 % with 0.5 m noise.
@@ -111,10 +112,12 @@ def generate(rng: np.random.Generator, bends: int = 5):
     truth: list[TrueCurve] = []
     for i, bend in enumerate(lay.bends):
         g = bend.geometry
-        curve = TrueCurve(float(g.ts), float(g.st), radii[i], senses[i], "")
+        shape = "spiralled" if l_in[i] > 0 or l_out[i] > 0 else "simple"
+        curve = TrueCurve(float(g.ts), float(g.st), radii[i], senses[i], shape)
         if joins[i] == "compound":
             prev = truth.pop()
-            curve = TrueCurve(prev.begin, curve.end, min(prev.radius, curve.radius), senses[i], "")
+            r = min(prev.radius, curve.radius)
+            curve = TrueCurve(prev.begin, curve.end, r, senses[i], "compound")
         truth.append(curve)
     return chain_elements(chain), truth
 
@@ -124,23 +127,26 @@ def overlap(a0, a1, b0, b1) -> float:
 
 
 def score(truth, found, s_true, s_line):
-    """Per true curve: (length, covered, radius error or nan); count of false curves."""
+    """Per true curve: (length, covered, radius error or nan, shape found right); count of
+    false curves."""
     mapped = []
     for c in found:
         b, e = np.interp([c.begin, c.end], s_line, s_true)
         sense = 1 if c.direction == "right" else -1
-        mapped.append((float(b), float(e), sense, c.radius))
+        mapped.append((float(b), float(e), sense, c.radius, c.shape))
     rows = []
     for t in truth:
         length = t.end - t.begin
-        covered = sum(overlap(t.begin, t.end, b, e) for b, e, s, _ in mapped if s == t.sense)
+        covered = sum(overlap(t.begin, t.end, m[0], m[1]) for m in mapped if m[2] == t.sense)
         best = max(mapped, key=lambda m: overlap(t.begin, t.end, m[0], m[1]), default=None)
         err = math.nan
+        shape_ok = False
         if best is not None and overlap(t.begin, t.end, best[0], best[1]) > 0:
             err = abs(best[3] - t.radius) / t.radius
-        rows.append((length, min(covered, length), err))
+            shape_ok = best[4] == t.kind
+        rows.append((length, min(covered, length), err, shape_ok))
     false = 0
-    for b, e, s, _ in mapped:
+    for b, e, s, *_ in mapped:
         on = sum(overlap(t.begin, t.end, b, e) for t in truth if t.sense == s)
         if on < 0.5 * (e - b):
             false += 1
@@ -159,7 +165,7 @@ def run(alignments: int, seed: int) -> None:
     )
     head = (
         f"{'spacing':>7} {'noise':>5} {'curves':>6} {'found %':>7} {'R err med %':>11} "
-        f"{'R err p95 %':>11} {'false':>5} {'missed':>6} {'s/line':>6}"
+        f"{'R err p95 %':>11} {'false':>5} {'missed':>6} {'shape %':>7} {'s/line':>6}"
     )
     print(head)
     print("-" * len(head))
@@ -183,13 +189,14 @@ def run(alignments: int, seed: int) -> None:
             covered = np.array([r[1] for r in rows])
             errs = np.array([r[2] for r in rows])
             missed = int(np.sum(covered < 0.5 * lengths))
+            shapes = 100 * np.mean([r[3] for r in rows])
             ok = errs[np.isfinite(errs)] * 100
             share = 100 * covered.sum() / lengths.sum()
             table.append((noise, share, float(np.median(ok))))
             print(
                 f"{spacing:7g} {noise:5g} {len(rows):6d} {share:7.1f} "
                 f"{np.median(ok):11.2f} {np.percentile(ok, 95):11.2f} {false:5d} {missed:6d} "
-                f"{dt:6.2f}"
+                f"{shapes:7.1f} {dt:6.2f}"
             )
     print(
         "curves: true curves (a compound pair of bends counts once); s/line: seconds per "

@@ -37,7 +37,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from curvetui.core.bend_fit import FittedBend, fit_region, heading_noise
+from curvetui.core.bend_fit import HEADING_RESOLUTION, FittedBend, fit_region, heading_noise
 from curvetui.core.centreline import (
     NOISE_FLOOR,
     Centreline,
@@ -232,10 +232,9 @@ def _curve_of(line: Centreline, bend: FittedBend, settings: FinderSettings) -> F
         radii.append(_arc_radius(line, kn[2 * j + 1], kn[2 * j + 2], kappa))
     spiral_in = float(kn[1] - kn[0])
     spiral_out = float(kn[-1] - kn[-2])
-    shortest = _shortest_spiral(line, settings)
-    if spiral_in < shortest:
+    if spiral_in < _shortest_spiral(line, settings, radii[0]):
         spiral_in = 0.0
-    if spiral_out < shortest:
+    if spiral_out < _shortest_spiral(line, settings, radii[-1]):
         spiral_out = 0.0
     if len(radii) > 1:
         shape = "compound"
@@ -259,12 +258,17 @@ def _curve_of(line: Centreline, bend: FittedBend, settings: FinderSettings) -> F
     )
 
 
-def _shortest_spiral(line: Centreline, settings: FinderSettings) -> float:
-    """The shortest ramp reported as a spiral [m]: ``settings.min_spiral``, and no less
-    than one and a half vertex spacings (the corners of a polyline round a curve's start
-    off over about one spacing) or the smoothing width (noise blurs the ramp as much)."""
+def _shortest_spiral(line: Centreline, settings: FinderSettings, radius: float) -> float:
+    """The shortest ramp reported as a spiral [m] on an arc of ``radius`` [m]:
+    ``settings.min_spiral``, and no less than one and a half vertex spacings (the
+    corners of a polyline round a curve's start off over about one spacing), the
+    smoothing width (noise blurs the ramp as much), or the ramp whose heading departs
+    from a plain arc's by the headings' resolution: a ramp of length L moves the heading
+    by up to about L / (8 R) (derived: the clothoid's heading against the arc's, shifted
+    by L / 2), so L = 8 R HEADING_RESOLUTION."""
     spacing = float(np.median(np.diff(line.vertex_station)))
-    return max(settings.min_spiral, 1.5 * spacing, line.smoothing)
+    seen = 8 * radius * HEADING_RESOLUTION if math.isfinite(radius) else 0.0
+    return max(settings.min_spiral, 1.5 * spacing, line.smoothing, seen)
 
 
 def _arc_radius(line: Centreline, a: float, b: float, kappa: float) -> float:
