@@ -157,3 +157,11 @@ def test_repeated_vertices_are_dropped_and_said():
     (c,) = result.curves
     assert c.radius == pytest.approx(200.0, rel=1e-3)
     assert any(f"{x.size} repeated vertices" in note for note in result.notes)
+
+
+def test_large_radius_simple_curve_has_no_spirals():
+    # a ramp of a few metres on a 1500 m arc moves the heading by under 1e-3 rad: no spiral
+    x, y, _, _ = circle_bend(1500.0, 20.0, left=False, spacing=5.0)
+    (c,) = find_curves(x, y).curves
+    assert c.shape == "simple" and (c.spiral_in, c.spiral_out) == (0.0, 0.0)
+    assert c.radius == pytest.approx(1500.0, rel=0.02)
