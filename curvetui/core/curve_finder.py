@@ -73,10 +73,11 @@ class FinderSettings:
     max_radius: curvature flatter than 1 / max_radius is tangent (common practice, no
         source: highway curves rarely exceed 10 km radius).
     min_spiral: a curvature ramp shorter than this is reported as no spiral (no source:
-        below the resolution of headings measured over a few metres).
-    compound_ratio: the larger radius of two arcs must exceed the smaller by this factor
-        to be reported as a compound curve (no source; TxDOT's limit on the ratio, 1.5,
-        is a design rule, not a detection threshold).
+        below the resolution of headings measured over a few metres); the finder raises
+        it where the vertex spacing, the noise or a large radius hide shorter ramps
+        (``_shortest_spiral``).
+
+    A value out of range raises ValueError naming the setting and its range.
     """
 
     spacing: float = 1.0
@@ -84,7 +85,24 @@ class FinderSettings:
     short_tangent: float = SHORT_TANGENT
     max_radius: float = 10_000.0
     min_spiral: float = 3.0
-    compound_ratio: float = 1.1
+
+    def __post_init__(self) -> None:
+        for name, low, high, open_low in (
+            ("spacing", 0.0, 1000.0, True),
+            ("min_deflection", 0.0, math.pi, False),
+            ("short_tangent", 0.0, math.inf, False),
+            ("max_radius", 0.0, math.inf, True),
+            ("min_spiral", 0.0, math.inf, False),
+        ):
+            value = getattr(self, name)
+            ok = isinstance(value, int | float) and not math.isnan(value)
+            ok = ok and (value > low if open_low else value >= low) and value <= high
+            if name == "max_radius":
+                ok = ok and math.isfinite(value)
+            if not ok:
+                edge = "more than" if open_low else "at least"
+                top = f" and at most {high:g}" if math.isfinite(high) else ", finite"
+                raise ValueError(f"{name} must be {edge} {low:g}{top}; got {value!r}")
 
 
 @dataclass(frozen=True)

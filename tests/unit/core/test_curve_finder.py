@@ -165,3 +165,19 @@ def test_large_radius_simple_curve_has_no_spirals():
     (c,) = find_curves(x, y).curves
     assert c.shape == "simple" and (c.spiral_in, c.spiral_out) == (0.0, 0.0)
     assert c.radius == pytest.approx(1500.0, rel=0.02)
+
+
+@pytest.mark.parametrize(
+    ("field", "value"),
+    [
+        ("spacing", 0.0),
+        ("spacing", float("nan")),
+        ("min_deflection", -0.1),
+        ("short_tangent", -1.0),
+        ("max_radius", float("inf")),
+        ("min_spiral", float("nan")),
+    ],
+)
+def test_settings_out_of_range_name_the_setting(field, value):
+    with pytest.raises(ValueError, match=field):
+        FinderSettings(**{field: value})
