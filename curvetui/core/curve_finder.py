@@ -45,7 +45,7 @@ from curvetui.core.centreline import (
     prepare_centreline,
 )
 from curvetui.core.curve_fit import circle_geometric, heading_of_knots
-from curvetui.core.curve_regions import Region, find_regions
+from curvetui.core.curve_regions import Detection, Region, find_regions
 from curvetui.core.heading_segments import bends_in
 
 ARC_TRIM = 0.1  # share of an arc left out at each end of its circle fit (no source)
@@ -135,9 +135,13 @@ class FinderResult:
     notes: tuple[str, ...] = ()
 
 
-def find_curves(x: ArrayLike, y: ArrayLike, settings: FinderSettings = FinderSettings()):
+def find_curves(
+    x: ArrayLike, y: ArrayLike, settings: FinderSettings = FinderSettings()
+) -> FinderResult:
     """The curves along the line through vertices (x, y) [m] (module doc); a line that
-    cannot be searched gives no curves and a note saying why, never an exception."""
+    cannot be searched gives no curves and a note saying why, never an exception. A bend
+    dropped below the minimum deflection counts as tangent for the next curve's
+    ``tangent_before`` and relation."""
     try:
         line = prepare_centreline(x, y, settings.spacing)
     except CentrelineError as err:
@@ -154,9 +158,9 @@ def find_curves(x: ArrayLike, y: ArrayLike, settings: FinderSettings = FinderSet
         notes.append("two points: a straight line, no curve")
         return FinderResult((), 0, line.length, tuple(notes))
     detection = find_regions(line, settings.max_radius)
-    regions = _split_regions(line, detection.regions, detection.width, settings.max_radius)
-    bends: list[FittedBend] = []
     noise = heading_noise(line)
+    regions = _split_regions(line, detection, noise, settings.max_radius)
+    bends: list[FittedBend] = []
     for i, region in enumerate(regions):
         lo, hi = _window(line, region, regions, i, detection.width)
         bends.extend(fit_region(line, region, lo, hi, settings.max_radius, noise))
@@ -186,12 +190,12 @@ def find_curves(x: ArrayLike, y: ArrayLike, settings: FinderSettings = FinderSet
 
 
 def _split_regions(
-    line: Centreline, regions: tuple[Region, ...], width: float, max_radius: float
+    line: Centreline, detection: Detection, noise: float, max_radius: float
 ) -> list[Region]:
     """Each region's stretch (up to its neighbours) cut into bends where its heading
     diagram has a tangent or a change of sense (core/heading_segments.py); a region with
-    no bend left in it was noise."""
-    noise = heading_noise(line)
+    no bend left in it was noise. ``noise`` the headings' noise sd [rad]."""
+    regions, width = detection.regions, detection.width
     span = 2 * line.half + 1 + 2 * line.smoothing / line.step
     out: list[Region] = []
     n = line.arc.size
