@@ -1,0 +1,83 @@
+"""One path from a centreline file's features to register rows: each feature projected
+to a metric plane (finder.projection), each of its lines searched by the pure finder
+(core.curve_finder.find_curves), each curve found a register row (finder.register).
+
+A feature that cannot be projected, or a line the finder reports as unusable (two points,
+repeated vertices, zero length), is told in ``feature_notes`` and the rest still run."""
+
+from __future__ import annotations
+
+from collections import Counter
+from dataclasses import dataclass, field
+
+from curvetui.core.units import UnitSystem
+from curvetui.finder.projection import FeatureProblem, to_plane
+from curvetui.finder.register import SpeedSource, curve_row, feature_speeds
+from curvetui.storage.centrelines.model import CentrelineFile
+
+
+@dataclass
+class FinderRun:
+    """What the run found: register rows, counts by curve type and relation, curves
+    dropped below the minimum deflection, notes per feature, the plane used and the
+    largest scale error (k - 1) met, and speed problems."""
+
+    rows: list[dict[str, object]] = field(default_factory=list)
+    types: Counter[str] = field(default_factory=Counter)
+    relations: Counter[str] = field(default_factory=Counter)
+    dropped: int = 0
+    searched: int = 0
+    not_projected: list[str] = field(default_factory=list)
+    feature_notes: list[str] = field(default_factory=list)
+    planes: Counter[str] = field(default_factory=Counter)
+    scale_error: float = 0.0
+    speed_problems: list[str] = field(default_factory=list)
+    deflection_over: int = 0  # curves turning by more than batch's 179-degree deflection
+
+
+def find_in_file(
+    source: CentrelineFile,
+    settings,
+    kind: str,
+    units: UnitSystem,
+    speeds: SpeedSource,
+    keep: tuple[str, ...] = (),
+) -> FinderRun:
+    """Register rows for every curve found in the file's features (see the module)."""
+    from curvetui.core.curve_finder import find_curves
+
+    run = FinderRun()
+    for feature in source.features:
+        try:
+            plane = to_plane(feature)
+        except FeatureProblem as exc:
+            run.not_projected.append(f"feature {feature.fid}: {exc}")
+            continue
+        run.searched += 1
+        run.planes[plane.plane] += 1
+        if abs(plane.scale_error) > abs(run.scale_error):
+            run.scale_error = plane.scale_error
+        speed, posted = feature_speeds(
+            feature.properties, speeds, units, run.speed_problems, feature.fid
+        )
+        kept = {name: feature.properties.get(name) for name in keep}
+        n = 0
+        for line in plane.lines:
+            result = find_curves(line.x, line.y, settings)
+            run.dropped += result.dropped
+            for note in result.notes:
+                run.feature_notes.append(f"feature {feature.fid}: {note}")
+            for curve in result.curves:
+                n += 1
+                row = curve_row(curve, n, feature.fid, kind, line.start_station, units)
+                row["speed"] = speed
+                if speeds.posted_field:
+                    row["posted_speed"] = posted
+                row.update(kept)
+                run.rows.append(row)
+                run.types[curve.shape] += 1
+                if curve.relation:
+                    run.relations[curve.relation] += 1
+                if float(row["deflection"]) > 179.0:
+                    run.deflection_over += 1
+    return run
