@@ -131,11 +131,12 @@ def _speeds(args, units):
     from curvetui.finder.register import SpeedSource
 
     if args.speed is not None:
-        lo, hi = BY_KEY["speed"].allowed(args.kind, units)
+        # a road's range is its design table's (batch checks it on every row)
+        lo, hi = BY_KEY["speed"].allowed(args.kind, units) or (0.0, math.inf)
         if not (math.isfinite(args.speed) and lo < args.speed <= hi):
+            top = f" and at most {hi:g} {units.speed_label}" if math.isfinite(hi) else ""
             raise InputError(
-                f"--speed: must be above {lo:g} and at most {hi:g} {units.speed_label} for a "
-                f"{args.kind} curve, got {args.speed}"
+                f"--speed: must be above {lo:g}{top} for a {args.kind} curve, got {args.speed}"
             )
     if args.posted_field and args.kind == "rail":
         raise InputError("--posted-field: a posted speed is a road's (for its signs)")

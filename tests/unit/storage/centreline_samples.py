@@ -37,7 +37,7 @@ def geodesic_alignment(
     d = np.arange(0.0, tangent + step / 2, step)
     lo1, la1, _ = g.fwd(np.full(d.size, lon), np.full(d.size, lat), np.full(d.size, azimuth), d)
     pc = (lo1[-1], la1[-1])
-    _, _, back = g.inv(lon, lat, *pc)
+    _, back, _ = g.inv(lon, lat, *pc)
     heading = (back + 180.0) % 360.0  # forward azimuth at PC
     clon, clat, _ = g.fwd(*pc, heading + side * 90.0, radius)
     from_centre, _, _ = g.inv(clon, clat, *pc)

@@ -1,0 +1,160 @@
+"""`curvetui find-curves` end to end on GeoJSON generated here, then `curvetui batch` on
+the register it wrote. The centrelines are laid out on the WGS 84 ellipsoid with
+pyproj.Geod (tangent, circular arc of known radius and deflection, tangent), so the
+expected radius and deflection are the ones laid out; the tolerances (2 % radius, 1 degree)
+are the finder's accuracy goals from issue 16 (no external source). Road names are
+invented."""
+
+from __future__ import annotations
+
+import csv
+import json
+import sys
+from pathlib import Path
+
+import pytest
+
+sys.path.insert(0, str(Path(__file__).parents[1] / "storage"))
+sys.path.insert(0, str(Path(__file__).parents[1] / "finder"))
+from centreline_samples import geodesic_alignment, write_geojson  # noqa: E402
+from finder_adapter import ensure_finder  # noqa: E402
+
+from curvetui import CAUTION  # noqa: E402
+from curvetui.cli import main  # noqa: E402
+
+FOOT = 0.3048  # international foot, exact (1959 agreement)
+
+
+@pytest.fixture(scope="module", autouse=True)
+def finder():
+    ensure_finder()
+
+
+def _centrelines(tmp_path: Path, extra=None) -> Path:
+    lines = {
+        "QM-1": geodesic_alignment(-2.31, 53.71, 40.0, 300.0, 40.0, turn="right"),
+        "QM-2": geodesic_alignment(-2.30, 53.70, 120.0, 150.0, 60.0, turn="left"),
+    }
+    return write_geojson(tmp_path / "quillmere.geojson", lines, extra)
+
+
+def _rows(path: Path) -> list[dict]:
+    with open(path, newline="") as fh:
+        return list(csv.DictReader(fh))
+
+
+DEGENERATE = [
+    {"type": "Feature", "id": "two", "properties": {},
+     "geometry": {"type": "LineString", "coordinates": [[-2.3, 53.7], [-2.299, 53.7]]}},
+    {"type": "Feature", "id": "zero", "properties": {},
+     "geometry": {"type": "LineString", "coordinates": [[-2.3, 53.7]] * 4}},
+    {"type": "Feature", "id": "stop", "properties": {},
+     "geometry": {"type": "Point", "coordinates": [-2.3, 53.7]}},
+]  # fmt: skip
+
+
+def test_register_then_batch(tmp_path, capsys):
+    src = _centrelines(tmp_path, DEGENERATE)
+    before = src.read_bytes()
+    reg = tmp_path / "register.csv"
+    assert main(["find-curves", str(src), "-o", str(reg), "--speed", "60"]) == 0
+    assert src.read_bytes() == before
+    rows = _rows(reg)
+    assert list(rows[0])[:16] == [
+        "id", "kind", "feature", "begin_station", "end_station", "radius", "deflection",
+        "direction", "curve_length", "spiral_in", "spiral_out", "curve_type", "relation",
+        "tangent_before", "fit_rms", "speed",
+    ]  # fmt: skip
+    assert [(r["id"], r["feature"], r["direction"]) for r in rows] == [
+        ("QM-1-1", "QM-1", "right"),
+        ("QM-2-1", "QM-2", "left"),
+    ]
+    for row, radius, deflection in zip(rows, (300.0, 150.0), (40.0, 60.0), strict=True):
+        assert float(row["radius"]) == pytest.approx(radius, rel=0.02)
+        assert float(row["deflection"]) == pytest.approx(deflection, abs=1.0)
+        # laid out: the arc starts 200 m from the first vertex (within 5 % of the arc)
+        arc = radius * deflection * 3.141592653589793 / 180
+        assert float(row["begin_station"]) == pytest.approx(200.0, abs=0.05 * arc)
+        assert float(row["end_station"]) - float(row["begin_station"]) == pytest.approx(
+            float(row["curve_length"]), abs=0.01
+        )
+        assert row["kind"] == "road" and row["speed"] == "60"
+    err = " ".join(capsys.readouterr().err.split())
+    assert "4 line feature(s), 1 other feature(s) skipped" in err
+    assert "skipped 1: a point (not a line)" in err
+    assert "feature two:" in err and "feature zero:" in err  # degenerate: told, not raised
+    assert "Curves found: 2" in err and "lengths and stations in m" in err
+    assert f"Next: curvetui batch {reg} --units metric" in err
+    assert " ".join(CAUTION.split()) in err
+
+    out = tmp_path / "checked.csv"
+    code = main(["batch", str(reg), "-o", str(out), "--units", "metric"])
+    checked = _rows(out)
+    assert code in (0, 1)
+    assert [r["id"] for r in checked] == ["QM-1-1", "QM-2-1"]
+    assert all(r["status"] in ("pass", "fail") for r in checked), [r["messages"] for r in checked]
+    assert checked[0]["curve_type"] == "simple"  # the register's columns carried through
+
+
+def test_us_units_parquet_and_posted_speed(tmp_path, capsys):
+    import pyarrow.parquet as pq
+
+    lines = {"H-7": geodesic_alignment(-2.3, 53.7, 10.0, 300.0, 40.0)}
+    src = tmp_path / "harrowby.geojson"
+    write_geojson(src, lines)
+    doc = json.loads(src.read_text())
+    doc["features"][0]["properties"]["limit"] = "50 km/h"
+    src.write_text(json.dumps(doc))
+    reg = tmp_path / "register.parquet"
+    args = ["find-curves", str(src), "-o", str(reg), "--units", "us", "--posted-field", "limit"]
+    assert main([*args, "--keep", "name"]) == 0
+    table = pq.read_table(reg).to_pylist()
+    assert table[0]["radius"] == pytest.approx(300.0 / FOOT, rel=0.02)
+    # 50 km/h in mph: 50 / 3.6 / 0.44704 (the mile is 1609.344 m exactly)
+    assert table[0]["posted_speed"] == pytest.approx(50 / 3.6 / 0.44704, abs=1e-3)
+    assert table[0]["speed"] == table[0]["posted_speed"]
+    assert table[0]["name"] == "Quillmere lane H-7"
+    err = " ".join(capsys.readouterr().err.split())
+    assert "speed column is the posted speed" in err and "lengths and stations in ft" in err
+
+
+def test_an_existing_register_is_kept_as_bak(tmp_path, capsys):
+    src = _centrelines(tmp_path)
+    reg = tmp_path / "register.csv"
+    reg.write_text("earlier register\n")
+    assert main(["find-curves", str(src), "-o", str(reg)]) == 0
+    assert (tmp_path / "register.csv.bak").read_text() == "earlier register\n"
+    assert all(r["speed"] == "" for r in _rows(reg))
+    assert "speed column is blank" in " ".join(capsys.readouterr().err.split())
+
+
+@pytest.mark.parametrize(
+    "extra, says",
+    [
+        (["--keep", "radius"], "--keep: radius would clash"),
+        (["--speed", "0"], "--speed: must be above"),
+        (["--spacing", "1000"], "--spacing: must be"),
+        (["--kind", "rail", "--posted-field", "x"], "--posted-field"),
+        (["--layer", "a"], "--layer: only a GeoPackage"),
+    ],
+)
+def test_bad_options_exit_2_with_a_message(tmp_path, capsys, extra, says):
+    src = _centrelines(tmp_path)
+    reg = tmp_path / "r.csv"
+    assert main(["find-curves", str(src), "-o", str(reg), *extra]) == 2
+    assert says in " ".join(capsys.readouterr().err.split())
+    assert not reg.exists()
+
+
+def test_bad_files_exit_2_without_a_traceback(tmp_path, capsys):
+    reg = tmp_path / "r.csv"
+    assert main(["find-curves", str(tmp_path / "none.geojson"), "-o", str(reg)]) == 2
+    assert "no such file" in capsys.readouterr().err
+    points = tmp_path / "p.geojson"
+    points.write_text('{"type": "Point", "coordinates": [1, 2]}')
+    assert main(["find-curves", str(points), "-o", str(reg)]) == 2
+    err = capsys.readouterr().err
+    assert "holds no line features" in err and "Traceback" not in err
+    src = _centrelines(tmp_path)
+    assert main(["find-curves", str(src), "-o", str(src)]) == 2
+    assert "would overwrite the input" in capsys.readouterr().err
