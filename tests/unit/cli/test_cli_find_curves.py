@@ -158,3 +158,60 @@ def test_bad_files_exit_2_without_a_traceback(tmp_path, capsys):
     src = _centrelines(tmp_path)
     assert main(["find-curves", str(src), "-o", str(src)]) == 2
     assert "would overwrite the input" in capsys.readouterr().err
+
+
+def _plane_alignment(radius: float, deflection: float, tangent: float = 200.0, step: float = 2.0):
+    """Tangent, arc, tangent in a plane (exact analytic geometry), turning left, in m."""
+    import numpy as np
+
+    t = np.arange(0.0, tangent + step / 2, step)
+    first = np.column_stack([t, np.zeros_like(t)])
+    theta = np.radians(deflection)
+    a = np.linspace(0.0, theta, max(int(radius * theta / step), 2) + 1)[1:]
+    arc = np.column_stack([tangent + radius * np.sin(a), radius * (1 - np.cos(a))])
+    end = arc[-1]
+    last = end + np.column_stack([t[1:] * np.cos(theta), t[1:] * np.sin(theta)])
+    return np.vstack([first, arc, last])
+
+
+def test_other_formats_end_to_end(tmp_path, capsys):
+    from centreline_samples import (
+        gpkg_blob,
+        line_wkt,
+        wkb_linestring,
+        write_geopackage,
+        write_shapefile,
+    )
+
+    lonlat = geodesic_alignment(-2.3, 53.7, 75.0, 250.0, 35.0)
+    gpkg = write_geopackage(
+        tmp_path / "c.gpkg", [("Mill Lane", gpkg_blob(wkb_linestring(lonlat), 4326))]
+    )
+    shp = write_shapefile(tmp_path / "c.shp", {"Mill Lane": [lonlat]})
+    wkt = tmp_path / "c.csv"
+    wkt.write_text(f'id,wkt\nML,"{line_wkt(_plane_alignment(250.0, 35.0) / FOOT)}"\n')
+    runs = [
+        (gpkg, ["--id-field", "name"], "Mill Lane-1"),
+        (shp, ["--id-field", "name"], "Mill Lane-1"),
+        (wkt, ["--crs", "plane-ft"], "ML-1"),
+    ]
+    for path, extra, ident in runs:
+        reg = tmp_path / f"{path.suffix[1:]}.csv"
+        assert main(["find-curves", str(path), "-o", str(reg), *extra]) == 0, capsys.readouterr()
+        (row,) = _rows(reg)
+        assert row["id"] == ident
+        assert float(row["radius"]) == pytest.approx(250.0, rel=0.02)
+        assert float(row["deflection"]) == pytest.approx(35.0, abs=1.0)
+    assert row["direction"] == "left"
+
+
+def test_without_pyproj_the_extra_is_named(tmp_path, capsys, monkeypatch):
+    from curvetui.finder import projection
+
+    src = _centrelines(tmp_path)
+    projection._resolve.cache_clear()
+    monkeypatch.setitem(sys.modules, "pyproj", None)
+    assert main(["find-curves", str(src), "-o", str(tmp_path / "r.csv")]) == 2
+    err = capsys.readouterr().err
+    assert "pip install 'curvetui[gis]'" in err and "Traceback" not in err
+    projection._resolve.cache_clear()

@@ -109,3 +109,16 @@ def test_parts_join_where_they_meet():
     assert len(plane.lines) == 2
     assert plane.lines[0].x.tolist() == [0.0, 100.0, 100.0]
     assert plane.lines[1].start_station == pytest.approx(150.0)  # gaps not counted
+
+
+def test_without_pyproj_the_message_names_the_extra(monkeypatch):
+    from curvetui.finder import projection
+
+    circle = geodesic_circle(3.0, 45.0, 100.0)
+    projection._resolve.cache_clear()
+    monkeypatch.setitem(sys.modules, "pyproj", None)  # import pyproj raises ImportError
+    with pytest.raises(CentrelineError, match=r"needs pyproj: pip install 'curvetui\[gis\]'"):
+        to_plane(_feature(circle))
+    line = np.array([[0.0, 0.0], [10.0, 0.0]])
+    assert to_plane(_feature(line, crs=SourceCrs("plane-m", "--crs"))).lines[0].x[-1] == 10.0
+    projection._resolve.cache_clear()
