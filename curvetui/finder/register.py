@@ -79,19 +79,22 @@ def feature_speeds(
     """(speed, posted speed) of a feature's curves, in ``units``; a property that is not a
     speed is told in ``problems`` and left blank."""
 
-    def read(name: str) -> float | None:
+    def read(name: str, fallback: float | None = None) -> float | None:
+        instead = "left blank" if fallback is None else f"--speed {fallback:g} used"
         if name not in properties or properties[name] in (None, ""):
-            problems.append(f"feature {fid}: no {name!r} property (its curves have no value)")
-            return None
+            problems.append(f"feature {fid}: no {name!r} value; {instead}")
+            return fallback
         got = speed_value(properties[name], units)
         if got is None:
             shown = str(properties[name])[:40]
-            problems.append(f"feature {fid}: {name!r} is {shown!r}, not a speed; left blank")
+            problems.append(f"feature {fid}: {name!r} is {shown!r}, not a speed; {instead}")
+            return fallback
         return got
 
     posted = read(source.posted_field) if source.posted_field else None
-    speed = read(source.speed_field) if source.speed_field else None
-    if speed is None and source.speed is not None:
+    if source.speed_field:
+        speed = read(source.speed_field, source.speed)
+    else:
         speed = source.speed
     if source.posted_as_speed:
         speed = posted

@@ -73,11 +73,14 @@ def test_feature_speeds_fallbacks_and_problems():
     both = SpeedSource(speed=70.0, speed_field="design", posted_field="limit")
     assert feature_speeds({"design": "80", "limit": 60}, both, METRIC, problems, "A") == (80, 60)
     assert feature_speeds({"limit": 60}, both, METRIC, problems, "B") == (70.0, 60)
-    assert problems == ["feature B: no 'design' property (its curves have no value)"]
+    assert problems == ["feature B: no 'design' value; --speed 70 used"]
     posted_only = SpeedSource(posted_field="limit")
     assert posted_only.posted_as_speed
     assert feature_speeds({"limit": "x"}, posted_only, METRIC, problems, "C") == (None, None)
     assert problems[-1] == "feature C: 'limit' is 'x', not a speed; left blank"
+    field_only = SpeedSource(speed_field="design")
+    assert feature_speeds({"design": None}, field_only, METRIC, problems, "D") == (None, None)
+    assert problems[-1] == "feature D: no 'design' value; left blank"
 
 
 @pytest.mark.parametrize(
