@@ -36,7 +36,7 @@ def add_parser(sub) -> None:
         "--output",
         required=True,
         help="the register to write: .csv, or .parquet for Parquet (an existing file is "
-        "kept as NAME.bak)",
+        "kept as NAME.bak); - for CSV on standard output",
     )
     add_units_option(p)
     p.add_argument("--kind", choices=("road", "rail"), default="road", help="default road")
@@ -154,7 +154,7 @@ def run(args: argparse.Namespace) -> int:
     speeds = _speeds(args, units)
     keep = _keep_names(args.keep)
     settings = _settings(args, units)
-    if os.path.exists(args.output) and os.path.exists(args.input):
+    if args.output != "-" and os.path.exists(args.output) and os.path.exists(args.input):
         if os.path.samefile(args.input, args.output):
             raise InputError(f"{args.output}: the register would overwrite the input")
     source = read_centrelines(
@@ -169,7 +169,15 @@ def run(args: argparse.Namespace) -> int:
         raise InputError(f"{args.input}: holds no line features (skipped: {why}); nothing written")
     result = find_in_file(source, settings, args.kind, units, speeds, keep)
     columns = [c for c in COLUMNS if c != "posted_speed" or speeds.posted_field] + list(keep)
-    write_register(args.output, columns, result.rows)
+    if args.output == "-":
+        import sys
+
+        from curvetui.storage.curve_register import csv_bytes
+
+        sys.stdout.buffer.write(csv_bytes(columns, result.rows))
+        sys.stdout.buffer.flush()
+    else:
+        write_register(args.output, columns, result.rows)
     from curvetui.cli.find_curves_summary import print_summary
 
     print_summary(args, source, result, settings, units, speeds)

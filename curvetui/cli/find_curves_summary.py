@@ -24,7 +24,9 @@ def _listed(out, title: str, notes: list[str]) -> None:
 
 
 def next_command(args) -> str:
-    """The batch command to run on the register just written."""
+    """The batch command to run on the register just written (piped for standard output)."""
+    if args.output == "-":
+        return "... | " + shlex.join(["curvetui", "batch", "-", "--units", args.units])
     return shlex.join(["curvetui", "batch", args.output, "--units", args.units])
 
 
@@ -73,7 +75,9 @@ def print_summary(args, source, result, settings, units, speeds) -> None:
         f"speeds in {units.speed_label} ({args.units})"
     )
     _speed_lines(out, args, speeds, result, units)
-    out.print(f"Register written: {markup(args.output, True)} ({total} row(s))")
+    where = "standard output" if args.output == "-" else args.output
+    out.print(f"Register written: {markup(where, True)} ({total} row(s))")
+    _listed(out, "[yellow]Register notes[/]", result.register_notes)
     out.print(f"Next: {markup(next_command(args), True)}")
     out.print(f"[bold yellow]{CAUTION}[/]")
 

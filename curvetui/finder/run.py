@@ -33,6 +33,7 @@ class FinderRun:
     scale_error: float = 0.0
     speed_problems: list[str] = field(default_factory=list)
     deflection_over: int = 0  # curves turning by more than batch's 179-degree deflection
+    register_notes: list[str] = field(default_factory=list)
 
 
 def find_in_file(
@@ -80,4 +81,21 @@ def find_in_file(
                     run.relations[curve.relation] += 1
                 if float(row["deflection"]) > 179.0:
                     run.deflection_over += 1
+    _register_notes(source, keep, run)
     return run
+
+
+def _register_notes(source: CentrelineFile, keep: tuple[str, ...], run: FinderRun) -> None:
+    """Feature ids read more than once (their curve ids repeat too), kept properties no
+    feature has (their columns are blank)."""
+    ids = Counter(f.fid for f in source.features)
+    repeated = sorted(fid for fid, n in ids.items() if n > 1)
+    if repeated:
+        shown = ", ".join(repeated[:5]) + (" ..." if len(repeated) > 5 else "")
+        run.register_notes.append(
+            f"{len(repeated)} feature id(s) occur more than once ({shown}): their curve ids "
+            "repeat too; name a unique property with --id-field"
+        )
+    for name in keep:
+        if not any(name in f.properties for f in source.features):
+            run.register_notes.append(f"--keep {name}: no feature has it; the column is blank")

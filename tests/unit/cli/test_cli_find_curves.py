@@ -215,3 +215,20 @@ def test_without_pyproj_the_extra_is_named(tmp_path, capsys, monkeypatch):
     err = capsys.readouterr().err
     assert "pip install 'curvetui[gis]'" in err and "Traceback" not in err
     projection._resolve.cache_clear()
+
+
+def test_standard_output_and_register_notes(tmp_path, capsys):
+    lines = {"R": geodesic_alignment(-2.3, 53.7, 10.0, 300.0, 40.0)}
+    src = write_geojson(tmp_path / "dup.geojson", lines)
+    doc = json.loads(src.read_text())
+    doc["features"].append(doc["features"][0])  # the same id twice
+    src.write_text(json.dumps(doc))
+    assert main(["find-curves", str(src), "-o", "-", "--keep", "colour", "--speed", "50"]) == 0
+    captured = capsys.readouterr()
+    rows = list(csv.DictReader(captured.out.splitlines()))
+    assert [r["id"] for r in rows] == ["R-1", "R-1"] and rows[0]["colour"] == ""
+    err = " ".join(captured.err.split())
+    assert "1 feature id(s) occur more than once (R)" in err
+    assert "--keep colour: no feature has it" in err
+    assert "Next: ... | curvetui batch - --units metric" in err
+    assert not (tmp_path / "-").exists()

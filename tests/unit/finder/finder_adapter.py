@@ -26,8 +26,9 @@ def ensure_finder() -> bool:
     try:
         importlib.import_module("curvetui.core.curve_finder")
         return True
-    except ImportError:
-        pass
+    except ModuleNotFoundError as exc:
+        if exc.name != "curvetui.core.curve_finder":
+            raise  # the real finder is there but cannot import: a failure, not a stand-in
     module = types.ModuleType("curvetui.core.curve_finder")
     module.FinderSettings = FinderSettings
     module.FoundCurve = FoundCurve

@@ -274,3 +274,13 @@ def test_unknown_ending_and_missing_file(tmp_path):
         read_centrelines(str(tmp_path / "a.geojson"))
     with pytest.raises(CentrelineError, match="--layer: only a GeoPackage"):
         read_centrelines(str(tmp_path / "a.geojson"), layer="x")
+
+
+def test_the_bundled_demo_reads():
+    from pathlib import Path
+
+    demo = Path(__file__).parents[3] / "projects" / "quillmere-centrelines.geojson"
+    got = read_centrelines(str(demo))
+    assert [f.fid for f in got.features] == ["QVR", "HBL", "QEL"]
+    assert [len(f.parts) for f in got.features] == [1, 1, 2]
+    assert got.skipped == {"a point (not a line)": 1}
