@@ -181,4 +181,6 @@ def run(args: argparse.Namespace) -> int:
     from curvetui.cli.find_curves_summary import print_summary
 
     print_summary(args, source, result, settings, units, speeds)
-    return 0
+    from curvetui.cli import INTERNAL_ERROR
+
+    return INTERNAL_ERROR if result.finder_failures else 0

@@ -65,6 +65,7 @@ def print_summary(args, source, result, settings, units, speeds) -> None:
     min_def = math.degrees(settings.min_deflection)
     out.print(f"Dropped below the minimum deflection ({min_def:g} degrees): {result.dropped}")
     _listed(out, "Finder notes", result.feature_notes)
+    _listed(out, "[bold red]Finder failures (defects)[/]", result.finder_failures)
     if result.deflection_over:
         out.print(
             f"[yellow]{result.deflection_over} curve(s) turn by more than 179 degrees: batch "
@@ -75,6 +76,11 @@ def print_summary(args, source, result, settings, units, speeds) -> None:
         f"speeds in {units.speed_label} ({args.units})"
     )
     _speed_lines(out, args, speeds, result, units)
+    if args.kind == "rail" and "cant" not in [k.lower() for k in (args.keep or "").split(",")]:
+        out.print(
+            "[yellow]Rail: batch checks a rail curve with its cant: keep a property named "
+            "cant (--keep cant) or add a cant column, else batch reports every row[/]"
+        )
     where = "standard output" if args.output == "-" else args.output
     out.print(f"Register written: {markup(where, True)} ({total} row(s))")
     _listed(out, "[yellow]Register notes[/]", result.register_notes)

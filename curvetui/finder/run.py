@@ -3,7 +3,9 @@ to a metric plane (finder.projection), each of its lines searched by the pure fi
 (core.curve_finder.find_curves), each curve found a register row (finder.register).
 
 A feature that cannot be projected, or a line the finder reports as unusable (two points,
-repeated vertices, zero length), is told in ``feature_notes`` and the rest still run."""
+repeated vertices, zero length), is told in ``feature_notes`` and the rest still run. A
+line on which the finder itself raises (a defect) is told in ``finder_failures``, and the
+rest still run; the command then ends with exit code 3."""
 
 from __future__ import annotations
 
@@ -34,6 +36,7 @@ class FinderRun:
     speed_problems: list[str] = field(default_factory=list)
     deflection_over: int = 0  # curves turning by more than batch's 179-degree deflection
     register_notes: list[str] = field(default_factory=list)
+    finder_failures: list[str] = field(default_factory=list)  # defects, told and counted
 
 
 def find_in_file(
@@ -64,7 +67,14 @@ def find_in_file(
         kept = {name: feature.properties.get(name) for name in keep}
         n = 0
         for line in plane.lines:
-            result = find_curves(line.x, line.y, settings)
+            try:
+                result = find_curves(line.x, line.y, settings)
+            except Exception as exc:  # noqa: BLE001 - one feature's defect; the rest still run
+                run.finder_failures.append(
+                    f"feature {feature.fid}: not searched: the curve finder failed "
+                    f"({type(exc).__name__}); this is a defect in curvetui, please report it"
+                )
+                continue
             run.dropped += result.dropped
             for note in result.notes:
                 run.feature_notes.append(f"feature {feature.fid}: {note}")

@@ -232,3 +232,23 @@ def test_standard_output_and_register_notes(tmp_path, capsys):
     assert "--keep colour: no feature has it" in err
     assert "Next: ... | curvetui batch - --units metric" in err
     assert not (tmp_path / "-").exists()
+
+
+def test_a_finder_defect_is_told_and_the_rest_still_run(tmp_path, capsys, monkeypatch):
+    import curvetui.core.curve_finder as finder_module
+
+    real = finder_module.find_curves
+    calls = []
+
+    def flaky(x, y, settings=None):
+        calls.append(1)
+        if len(calls) == 1:
+            raise ZeroDivisionError("a defect")
+        return real(x, y, settings) if settings is not None else real(x, y)
+
+    monkeypatch.setattr(finder_module, "find_curves", flaky)
+    reg = tmp_path / "r.csv"
+    assert main(["find-curves", str(_centrelines(tmp_path)), "-o", str(reg)]) == 3
+    assert [r["feature"] for r in _rows(reg)] == ["QM-2"]
+    err = " ".join(capsys.readouterr().err.split())
+    assert "feature QM-1: not searched: the curve finder failed (ZeroDivisionError)" in err
