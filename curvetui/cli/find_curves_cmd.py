@@ -143,10 +143,34 @@ def _speeds(args, units):
     return SpeedSource(args.speed, args.speed_field, args.posted_field)
 
 
+def _search(source, settings, kind, units, speeds, keep):
+    """find_in_file with a progress bar on standard error when it is a terminal."""
+    from rich.console import Console
+    from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
+
+    from curvetui.finder.run import find_in_file
+
+    err = Console(stderr=True, highlight=False)
+    progress = Progress(
+        TextColumn("finding curves"),
+        BarColumn(),
+        MofNCompleteColumn(),
+        TimeElapsedColumn(),
+        console=err,
+        transient=True,
+        disable=not err.is_terminal,
+    )
+    task = progress.add_task("features", total=len(source.features))
+    with progress:
+        return find_in_file(
+            source, settings, kind, units, speeds, keep,
+            tick=lambda n: progress.update(task, completed=n),
+        )  # fmt: skip
+
+
 def run(args: argparse.Namespace) -> int:
     from curvetui.core.units import unit_system
     from curvetui.finder.register import COLUMNS
-    from curvetui.finder.run import find_in_file
     from curvetui.storage.centrelines import read_centrelines
     from curvetui.storage.curve_register import write_register
 
@@ -167,7 +191,7 @@ def run(args: argparse.Namespace) -> int:
     if not source.features:
         why = "; ".join(f"{n} {reason}" for reason, n in source.skipped.items()) or "none"
         raise InputError(f"{args.input}: holds no line features (skipped: {why}); nothing written")
-    result = find_in_file(source, settings, args.kind, units, speeds, keep)
+    result = _search(source, settings, args.kind, units, speeds, keep)
     columns = [c for c in COLUMNS if c != "posted_speed" or speeds.posted_field] + list(keep)
     if args.output == "-":
         import sys

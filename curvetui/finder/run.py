@@ -10,6 +10,7 @@ rest still run; the command then ends with exit code 3."""
 from __future__ import annotations
 
 from collections import Counter
+from collections.abc import Callable
 from dataclasses import dataclass, field
 
 from curvetui.core.units import UnitSystem
@@ -46,12 +47,16 @@ def find_in_file(
     units: UnitSystem,
     speeds: SpeedSource,
     keep: tuple[str, ...] = (),
+    tick: Callable[[int], None] | None = None,
 ) -> FinderRun:
-    """Register rows for every curve found in the file's features (see the module)."""
+    """Register rows for every curve found in the file's features (see the module);
+    ``tick(n)`` is told after each feature (n done so far)."""
     from curvetui.core.curve_finder import find_curves
 
     run = FinderRun()
-    for feature in source.features:
+    for done, feature in enumerate(source.features, start=1):
+        if tick is not None:
+            tick(done - 1)
         try:
             plane = to_plane(feature)
         except FeatureProblem as exc:
