@@ -252,3 +252,20 @@ def test_a_finder_defect_is_told_and_the_rest_still_run(tmp_path, capsys, monkey
     assert [r["feature"] for r in _rows(reg)] == ["QM-2"]
     err = " ".join(capsys.readouterr().err.split())
     assert "feature QM-1: not searched: the curve finder failed (ZeroDivisionError)" in err
+
+
+def test_zone_edge_and_repeated_vertices_through_the_finder(tmp_path, capsys):
+    import numpy as np
+
+    # the same alignment laid out across the UTM 31/32 zone edge (6 degrees east) and in
+    # mid-zone (3 degrees east); and the mid-zone one with every vertex written twice
+    edge = geodesic_alignment(5.999, 50.0, 90.0, 300.0, 40.0)
+    mid = geodesic_alignment(2.999, 50.0, 90.0, 300.0, 40.0)
+    doubled = np.repeat(mid, 2, axis=0)
+    src = write_geojson(tmp_path / "e.geojson", {"edge": edge, "mid": mid, "dup": doubled})
+    reg = tmp_path / "r.csv"
+    assert main(["find-curves", str(src), "-o", str(reg), "--speed", "60"]) == 0
+    radius = {r["feature"]: float(r["radius"]) for r in _rows(reg)}
+    assert radius["edge"] == pytest.approx(300.0, rel=0.02)
+    assert radius["edge"] == pytest.approx(radius["mid"], rel=1e-4)
+    assert radius["dup"] == pytest.approx(radius["mid"], rel=1e-4)
