@@ -58,6 +58,7 @@ class PlaneFeature:
     lines: tuple[PlaneLine, ...]
     scale_error: float
     plane: str  # "local transverse Mercator", "grid of <crs name>", "plane grid"
+    notes: tuple[str, ...] = ()
 
 
 class FeatureProblem(ValueError):
@@ -192,7 +193,29 @@ def to_plane(feature: LineFeature) -> PlaneFeature:
             xy, scale, plane = _geographic(parts, crs)
         else:
             xy, scale, plane = _projected(parts, source, crs)
-    return PlaneFeature(feature, _join(xy), scale, plane)
+    pieces, bad = _finite_pieces(xy)
+    notes = (
+        (f"{bad} vertex/vertices without finite coordinates dropped: the line is split "
+         "there and the station runs on from piece to piece (the gap not counted)",)
+        if bad else ()
+    )  # fmt: skip
+    return PlaneFeature(feature, _join(pieces), scale, plane, notes)
+
+
+def _finite_pieces(xy):
+    """The parts split at vertices whose plane coordinates are not finite (NaN in the
+    file, or beyond the projection); (pieces, vertices dropped)."""
+    pieces, bad = [], 0
+    for x, y in xy:
+        ok = np.isfinite(x) & np.isfinite(y)
+        bad += int(np.count_nonzero(~ok))
+        if ok.all():
+            pieces.append((x, y))
+            continue
+        edges = np.flatnonzero(np.diff(np.r_[0, ok.astype(np.int8), 0]))
+        for a, b in zip(edges[::2], edges[1::2], strict=True):
+            pieces.append((x[a:b], y[a:b]))
+    return pieces, bad
 
 
 def _length(x: np.ndarray, y: np.ndarray) -> float:

@@ -63,6 +63,7 @@ def find_in_file(
             run.not_projected.append(f"feature {feature.fid}: {exc}")
             continue
         run.searched += 1
+        run.feature_notes.extend(f"feature {feature.fid}: {note}" for note in plane.notes)
         run.planes[plane.plane] += 1
         if abs(plane.scale_error) > abs(run.scale_error):
             run.scale_error = plane.scale_error

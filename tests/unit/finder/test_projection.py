@@ -122,3 +122,11 @@ def test_without_pyproj_the_message_names_the_extra(monkeypatch):
     line = np.array([[0.0, 0.0], [10.0, 0.0]])
     assert to_plane(_feature(line, crs=SourceCrs("plane-m", "--crs"))).lines[0].x[-1] == 10.0
     projection._resolve.cache_clear()
+
+
+def test_vertices_without_coordinates_split_the_line():
+    line = np.array([[0.0, 0.0], [10.0, 0.0], [np.nan, np.nan], [20.0, 0.0], [30.0, 0.0]])
+    plane = to_plane(_feature(line, crs=SourceCrs("plane-m", "--crs")))
+    assert [ln.x.tolist() for ln in plane.lines] == [[0.0, 10.0], [20.0, 30.0]]
+    assert plane.lines[1].start_station == 10.0
+    assert plane.notes and plane.notes[0].startswith("1 vertex/vertices without finite")
