@@ -145,6 +145,8 @@ def read_geopackage(
         source = _crs(con, int(srs_id), crs, path, out.notes)
         info = con.execute(f"PRAGMA table_info({_quote(table)})").fetchall()
         names = [row[1] for row in info]
+        # SQLite names are case-insensitive: use the table's own spelling of the column
+        column = next((n for n in names if n.lower() == str(column).lower()), column)
         pk = next((row[1] for row in info if row[5] == 1), None)
         if id_field is not None and id_field not in names:
             raise CentrelineError(
