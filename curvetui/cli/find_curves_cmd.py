@@ -16,6 +16,7 @@ from curvetui.inputs import InputError
 
 SPACING_RANGE = (0.1, 100.0)  # [m] resampling step the finder is asked for (no source)
 DEFLECTION_RANGE = (0.0, 90.0)  # [degrees] a minimum deflection below 90 (no source)
+MAX_JOBS = 256  # processes for --jobs
 
 
 def add_parser(sub) -> None:
@@ -76,6 +77,13 @@ def add_parser(sub) -> None:
         metavar="PROP",
         help="the property giving the posted speed (road: for the signs); without --speed "
         "or --speed-field it is the speed checked too",
+    )
+    f.add_argument(
+        "--jobs",
+        type=int,
+        default=1,
+        metavar="N",
+        help="search the features in N processes (default 1); the register is the same",
     )
     p.add_argument(
         "--keep",
@@ -143,7 +151,7 @@ def _speeds(args, units):
     return SpeedSource(args.speed, args.speed_field, args.posted_field)
 
 
-def _search(source, settings, kind, units, speeds, keep):
+def _search(source, settings, kind, units, speeds, keep, jobs):
     """find_in_file with a progress bar on standard error when it is a terminal."""
     from rich.console import Console
     from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
@@ -164,7 +172,7 @@ def _search(source, settings, kind, units, speeds, keep):
     with progress:
         return find_in_file(
             source, settings, kind, units, speeds, keep,
-            tick=lambda n: progress.update(task, completed=n),
+            tick=lambda n: progress.update(task, completed=n), jobs=jobs,
         )  # fmt: skip
 
 
@@ -178,6 +186,8 @@ def run(args: argparse.Namespace) -> int:
     speeds = _speeds(args, units)
     keep = _keep_names(args.keep)
     settings = _settings(args, units)
+    if not 1 <= args.jobs <= MAX_JOBS:
+        raise InputError(f"--jobs: must be 1 to {MAX_JOBS}, got {args.jobs}")
     if args.output != "-" and os.path.exists(args.output) and os.path.exists(args.input):
         if os.path.samefile(args.input, args.output):
             raise InputError(f"{args.output}: the register would overwrite the input")
@@ -191,7 +201,7 @@ def run(args: argparse.Namespace) -> int:
     if not source.features:
         why = "; ".join(f"{n} {reason}" for reason, n in source.skipped.items()) or "none"
         raise InputError(f"{args.input}: holds no line features (skipped: {why}); nothing written")
-    result = _search(source, settings, args.kind, units, speeds, keep)
+    result = _search(source, settings, args.kind, units, speeds, keep, args.jobs)
     columns = [c for c in COLUMNS if c != "posted_speed" or speeds.posted_field] + list(keep)
     if args.output == "-":
         import sys

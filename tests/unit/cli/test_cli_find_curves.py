@@ -136,6 +136,7 @@ def test_an_existing_register_is_kept_as_bak(tmp_path, capsys):
         (["--spacing", "1000"], "--spacing: must be"),
         (["--kind", "rail", "--posted-field", "x"], "--posted-field"),
         (["--layer", "a"], "--layer: only a GeoPackage"),
+        (["--jobs", "0"], "--jobs: must be 1 to 256"),
     ],
 )
 def test_bad_options_exit_2_with_a_message(tmp_path, capsys, extra, says):
