@@ -22,6 +22,7 @@ from curvetui.bend.evaluate import ERROR, FAIL, PASS, STATUS_NAMES  # noqa: F401
 from curvetui.bend.fields import BY_KEY, STATION
 from curvetui.bend.messages import message_parts
 from curvetui.bend.parse import Column, Kinds, to_number
+from curvetui.bend.series_signs import series_signs
 from curvetui.bend.service import check_columns
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
@@ -173,9 +174,11 @@ def evaluate_chunk(
     row_numbers: np.ndarray,
     ctx: BatchContext,
     items: bool = False,
+    series: np.ndarray | None = None,
 ) -> ChunkResult:
     """Check one chunk. ``cells`` maps known column names (lower case) to text columns;
-    ``row_numbers`` are the rows as a spreadsheet numbers them (the header is row 1)."""
+    ``row_numbers`` are the rows as a spreadsheet numbers them (the header is row 1);
+    ``series`` each row's place among its neighbours in a register (curvetui.batch.series)."""
     n = len(row_numbers)
     columns = {}
     for name, array in cells.items():
@@ -190,6 +193,8 @@ def evaluate_chunk(
         lambda i: kind_cells[i].as_py() or "",
     )
     ev = check_columns(kinds, columns, ctx.units, ctx.table, ctx.limits)
+    if series is not None:
+        series_signs(ev, series)
 
     result: dict[str, pa.Array] = {}
     known = ev.status != ERROR

@@ -90,8 +90,9 @@ class Part(Tally):
     data: bytes | None = None
 
 
-def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> Part:
-    """Check one chunk and build its output rows (in row order, malformed rows included).
+def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad, places=None) -> Part:
+    """Check one chunk and build its output rows (in row order, malformed rows included);
+    ``places``: each row's place in a register's series (curvetui.batch.series), if any.
 
     One row must never cost the others their results: should the chunk's check raise (a
     defect: every input the generator of benchmarks/robustness.py finds is refused with a
@@ -99,7 +100,7 @@ def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> Par
     written as an error row naming its row."""
     width = len(job.header.names)
     part = Part()
-    tables = _checked_tables(job, batch, rows, part)
+    tables = _checked_tables(job, batch, rows, part, places)
     if bad:
         bad_table = bad_rows_table(bad, job.header, job.schema)
         if not job.want_bytes:
@@ -128,26 +129,32 @@ def process_chunk(job: Job, batch: pa.RecordBatch, rows: np.ndarray, bad) -> Par
     return part
 
 
-def _checked_tables(job: Job, batch: pa.RecordBatch, rows: np.ndarray, part: Part) -> list:
+def _checked_tables(
+    job: Job, batch: pa.RecordBatch, rows: np.ndarray, part: Part, places=None
+) -> list:
     """The chunk's rows checked, as output tables in row order (empty list for none)."""
     if not batch.num_rows:
         return []
     try:
-        return [_checked_table(job, batch, rows, part)]
+        return [_checked_table(job, batch, rows, part, places)]
     except Exception as exc:  # noqa: BLE001 - a defect; the rows at fault are found below
         if batch.num_rows > 1:
             half = batch.num_rows // 2
-            return _checked_tables(job, batch.slice(0, half), rows[:half], part) + (
-                _checked_tables(job, batch.slice(half), rows[half:], part)
+            head, tail = (None, None) if places is None else (places[:half], places[half:])
+            return _checked_tables(job, batch.slice(0, half), rows[:half], part, head) + (
+                _checked_tables(job, batch.slice(half), rows[half:], part, tail)
             )
         return [_unchecked_row(job, batch, int(rows[0]), exc, part)]
 
 
-def _checked_table(job: Job, batch: pa.RecordBatch, rows: np.ndarray, part: Part) -> pa.Table:
+def _checked_table(
+    job: Job, batch: pa.RecordBatch, rows: np.ndarray, part: Part, places=None
+) -> pa.Table:
     header, schema = job.header, job.schema
     width = len(header.names)
     cells = {key: batch.column(pos) for key, pos in header.known.items()}
-    result = evaluate_chunk(cells, rows, job.ctx, items=not job.want_bytes)
+    more = {} if places is None else {"series": places}  # a register's places, if any
+    result = evaluate_chunk(cells, rows, job.ctx, items=not job.want_bytes, **more)
     arrays = [batch.column(i) for i in range(width)]
     arrays += [result.columns[name] for name in cols.result_names(list(header.names))]
     tbl = pa.Table.from_arrays(arrays, schema=schema)

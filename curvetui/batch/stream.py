@@ -32,6 +32,7 @@ from curvetui.batch.chunk import BatchContext
 from curvetui.batch.formulas import neutral_text, neutralise
 from curvetui.batch.header import HEAD_BYTES, BatchFileError, read_header
 from curvetui.batch.output import Job, Part, output_schema, process_chunk
+from curvetui.batch.series import SeriesHold
 from curvetui.batch.summary import NOT_UTF8_ROW, Summary, finish, merge
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
@@ -253,6 +254,21 @@ def _run(
         if progress is not None:
             progress(stream.count, total, summary.rows)
 
+    series = SeriesHold.for_file(header, ctx)
+
+    def submit(chunk, pool):
+        if not job.want_bytes or workers < 2:
+            take(process_chunk(job, *chunk))  # in order, here (the app, one core)
+            return pool
+        # chunks are checked on ``workers`` threads (the engine's numpy and pyarrow work
+        # runs outside the GIL) and written back in the input's order
+        if pool is None:
+            pool = _start_pool(workers)
+        pending.append(pool.submit(process_chunk, job, *chunk))
+        while len(pending) > workers + 1 or (pending and pending[0].done()):
+            take(pending.popleft().result())
+        return pool
+
     try:
         while True:
             try:
@@ -276,16 +292,12 @@ def _run(
             last = int(rows[-1]) if len(rows) else -1
             bad = [b for b in numbering.bad if b[0] <= last]
             numbering.bad = [b for b in numbering.bad if b[0] > last]
-            if not job.want_bytes or workers < 2:
-                take(process_chunk(job, batch, rows, bad))  # in order, here (the app, one core)
-                continue
-            # chunks are checked on ``workers`` threads (the engine's numpy and pyarrow
-            # work runs outside the GIL) and written back in the input's order
-            if pool is None:
-                pool = _start_pool(workers)
-            pending.append(pool.submit(process_chunk, job, batch, rows, bad))
-            while len(pending) > workers + 1 or (pending and pending[0].done()):
-                take(pending.popleft().result())
+            # a register's chunk waits for the curves after its last (batch.series)
+            ready = [(batch, rows, bad, None)] if series is None else series.put(batch, rows, bad)
+            for chunk in ready:
+                pool = submit(chunk, pool)
+        for chunk in [] if series is None else series.rest():
+            pool = submit(chunk, pool)
         while pending:
             take(pending.popleft().result())
         if numbering.bad:

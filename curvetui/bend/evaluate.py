@@ -48,6 +48,12 @@ CRASH_OUTSIDE_RANGE = 1 << 11  # R or arc below HSM Eq. 10-13's 100 ft, or its C
 ADVISORY_BELOW_TABLE = 1 << 12  # the curve fails the table's f_max at its lowest speed
 SMALL_DEFLECTION = 1 << 13  # deflection under the sign table's reliable minimum: a note
 SIGNS_SINGLE_BEND = 1 << 14  # signs chosen for one bend: Reverse/Winding not available
+# a register's curves in series (curvetui.bend.series_signs, batch only)
+SIGNS_SERIES = 1 << 15  # signs chosen with the curve's neighbours (replaces the one above)
+SERIES_NOT_PLACED = 1 << 16  # no stations or direction: not placed in a series
+SERIES_OUT_OF_ORDER = 1 << 17  # begins before the previous curve of its feature ends
+SERIES_ENDS_BEFORE_BEGIN = 1 << 18  # end station before begin station
+SERIES_FEATURE_AGAIN = 1 << 19  # its feature came earlier in the file, others between
 ADVISORY_FLAGS = {
     "below_table": ADVISORY_BELOW_TABLE,
     "small_deflection": SMALL_DEFLECTION,

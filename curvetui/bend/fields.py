@@ -22,8 +22,9 @@ from curvetui.core.units import UnitSystem
 ROAD, RAIL = "road", "rail"
 BOTH = (ROAD, RAIL)
 
-# unit kinds: how a field's number is shown and converted to SI (CHOICE: a word, no unit)
-SPEED, LENGTH, CANT, PERCENT, DEGREES, FACTOR, MILLIMETRE, STATION, CHOICE = (
+# unit kinds: how a field's number is shown and converted to SI (CHOICE: a word, no unit;
+# TEXT: an id kept as text)
+SPEED, LENGTH, CANT, PERCENT, DEGREES, FACTOR, MILLIMETRE, STATION, CHOICE, TEXT = (
     "speed",
     "length",
     "cant",
@@ -33,6 +34,7 @@ SPEED, LENGTH, CANT, PERCENT, DEGREES, FACTOR, MILLIMETRE, STATION, CHOICE = (
     "mm",
     "station",
     "choice",
+    "text",
 )
 
 
@@ -90,6 +92,7 @@ class Field:
             FACTOR: "",
             MILLIMETRE: "mm",
             CHOICE: "",
+            TEXT: "",
         }[self.unit]
 
     def to_si(self, value, units: UnitSystem):
@@ -338,6 +341,53 @@ FIELDS: tuple[Field, ...] = (
 )
 
 BY_KEY: dict[str, Field] = {f.key: f for f in FIELDS}
+
+# A curve register's columns (find-curves' output, or an authority's own inventory): the
+# batch reads them to place each road curve among its neighbours on the same feature, for
+# the Reverse and Winding Road signs (curvetui.core.curve_series). One bend has no
+# neighbours, so the one-bend commands, the app's form and the project file do not take
+# them (they are not in FIELDS).
+DIRECTIONS = ("left", "right")  # in code order: curvetui.core.curve_series LEFT, RIGHT
+REGISTER_FIELDS: tuple[Field, ...] = (
+    _f(
+        "feature",
+        "Feature",
+        TEXT,
+        (ROAD,),
+        "the road (feature) the curve lies on: curves of one feature in station order; a "
+        "change of feature ends a series (without the column, all rows are one feature)",
+        {},
+    ),
+    _f(
+        "begin_station",
+        "Begin station",
+        STATION,
+        (ROAD,),
+        "station of the curve's start (TS or PC) along its feature",
+        {ROAD: (-1e7, 1e7)},
+        short="begin station",
+    ),
+    _f(
+        "end_station",
+        "End station",
+        STATION,
+        (ROAD,),
+        "station of the curve's end (ST or PT) along its feature",
+        {ROAD: (-1e7, 1e7)},
+        short="end station",
+    ),
+    _f(
+        "direction",
+        "Direction",
+        CHOICE,
+        (ROAD,),
+        "left or right, seen travelling from the feature's first vertex",
+        {},
+        choices=DIRECTIONS,
+        hint=" / ".join(DIRECTIONS),
+    ),
+)
+REGISTER_BY_KEY: dict[str, Field] = {f.key: f for f in REGISTER_FIELDS}
 
 
 def fields_for(kind: str) -> tuple[Field, ...]:

@@ -27,6 +27,7 @@ from curvetui.bend.layer_texts import (
 )
 from curvetui.bend.rail_messages import RAIL_MESSAGES
 from curvetui.bend.road_messages import ROAD_MESSAGES
+from curvetui.bend.series_signs import series_note
 from curvetui.core import sight as sd
 from curvetui.core import transitions as tr
 
@@ -139,6 +140,63 @@ ADVISORY_RULES = (
         ),
         True,
         "advisory",
+    ),
+    Rule(
+        "bend",
+        ev_mod.SIGNS_SERIES,
+        "note",
+        "signs_series",
+        lambda ev, i, ref, units: series_note(_signs_of(ev)),
+        True,
+        "signs",
+    ),
+    Rule(
+        "bend",
+        ev_mod.SERIES_NOT_PLACED,
+        "note",
+        "series_not_placed",
+        _const(
+            "not placed in a series: begin_station, end_station and direction are needed "
+            "(a station such as 2+710.5 or a number; 'left' or 'right'), so Reverse and "
+            "Winding Road are not checked for this curve"
+        ),
+        True,
+        "signs",
+    ),
+    Rule(
+        "bend",
+        ev_mod.SERIES_OUT_OF_ORDER,
+        "warning",
+        "series_out_of_order",
+        _const(
+            "begins before the previous curve of its feature ends: the register is not in "
+            "station order here, so this curve is left out of any series (sort the curves "
+            "by feature and station)"
+        ),
+        True,
+        "signs",
+    ),
+    Rule(
+        "bend",
+        ev_mod.SERIES_FEATURE_AGAIN,
+        "warning",
+        "series_feature_again",
+        _const(
+            "its feature came earlier in the file, other features between: the register is "
+            "not grouped by feature, so curves on either side of the gap are not placed "
+            "together (sort the curves by feature and station)"
+        ),
+        True,
+        "signs",
+    ),
+    Rule(
+        "bend",
+        ev_mod.SERIES_ENDS_BEFORE_BEGIN,
+        "warning",
+        "series_ends_before_begin",
+        _const("end_station is before begin_station: this curve is left out of any series"),
+        True,
+        "signs",
     ),
     Rule(
         "bend",

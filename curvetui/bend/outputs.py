@@ -198,6 +198,10 @@ OUTPUTS: tuple[Output, ...] = (
     _o("signs.posted_speed", (ROAD,), INPUT, echo=True),
     _o("signs.speed_difference", (ROAD,)),
     *(_o(f"signs.{k}", (ROAD,), TEXT) for k in SIGNS),
+    # a register's curves in series (curvetui.bend.series_signs, batch only): the series'
+    # sign on its first curve (Reverse Turn/Curve, Winding Road), "in series" on the later
+    # ones, "single" or "same direction" (own signs); null where the curve is not placed
+    _o("signs.series", (ROAD,), TEXT),
     _o("signs.table", (ROAD,), TEXT, working=True),
 )
 BY_KEY = {o.key: o for o in OUTPUTS}

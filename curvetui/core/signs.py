@@ -6,7 +6,9 @@ choice. By the difference between the posted speed and the advisory speed the ta
 gives the warning sign, the advisory speed plaque and the chevrons or large arrow as
 "required", "recommended", "optional" or "not required"; the sign itself is Turn where the
 advisory speed is at most the table's Turn speed, else Curve. Reverse and Winding Road
-signs need consecutive curves and are never chosen for one bend.
+signs need consecutive curves and are never chosen for one bend: the table's series
+rule (a tangent limit and the signs' names) is applied to a register's consecutive curves
+by :mod:`curvetui.core.curve_series` and :mod:`curvetui.bend.series_signs`.
 """
 
 from __future__ import annotations
@@ -15,7 +17,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from curvetui.core.units import KMH, MPH
+from curvetui.core.units import FOOT, KMH, MPH
 
 LEVELS = ("required", "recommended", "optional", "not required")
 NOT_REQUIRED = "not required"
@@ -49,7 +51,24 @@ class SignTable:
     friction_sources: tuple[str, ...]
     differences: np.ndarray  # each row's lower difference, table units, ascending
     rows: tuple[dict[str, str], ...]  # per row: part -> level, part_source -> status
+    series_tangent: float  # curves closer than this are in series (ft on "us", else m)
+    series_tangent_source: str
+    reverse_turn: str  # the signs' names
+    reverse_curve: str
+    winding_road: str
+    series_names_source: str
+    series_rule_source: str
+    same_direction_note: str
     path: str = ""
+
+    @property
+    def series_tangent_si(self) -> float:
+        """The series tangent limit [m] (600 ft = 182.88 m exactly)."""
+        return self.series_tangent * (FOOT if self.units == "us" else 1.0)
+
+    @property
+    def length_label(self) -> str:
+        return "ft" if self.units == "us" else "m"
 
     @property
     def speed_unit(self) -> float:
@@ -63,6 +82,13 @@ class SignTable:
         if project_units == "metric":
             return self.metric_step, KMH
         return 5.0, MPH  # a metric table on a US project: 5 mph (MUTCD 2C.08, read)
+
+
+def is_turn(table: SignTable, advisory_si) -> np.ndarray:
+    """Whether each curve's sign takes the Turn form (advisory speed [m/s] at most the
+    table's Turn speed, 30 mph in MUTCD 2009) rather than the Curve form."""
+    with np.errstate(invalid="ignore"):
+        return np.asarray(advisory_si, float) / table.speed_unit <= table.turn_max_advisory + 1e-9
 
 
 def select_signs(table: SignTable, posted_si, advisory_si) -> dict[str, np.ndarray]:
@@ -82,9 +108,8 @@ def select_signs(table: SignTable, posted_si, advisory_si) -> dict[str, np.ndarr
         row = np.searchsorted(table.differences, np.where(known, diff, -np.inf) + 1e-6, "right")
     row = np.where(known, row - 1, -1)
     out: dict[str, np.ndarray] = {"row": row, "difference": diff}
-    with np.errstate(invalid="ignore"):
-        turn = adv / table.speed_unit <= table.turn_max_advisory + 1e-9
-    out["sign"] = np.where(np.isfinite(adv), np.where(turn, "Turn", "Curve"), None).astype(object)
+    out["sign"] = np.where(np.isfinite(adv), np.where(is_turn(table, adv), "Turn", "Curve"), None)
+    out["sign"] = out["sign"].astype(object)
     for part in PARTS:
         words = np.array([*(r[part] for r in table.rows), NOT_REQUIRED], dtype=object)
         level = words[np.where(row < 0, len(table.rows), row)]

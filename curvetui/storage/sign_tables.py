@@ -73,6 +73,8 @@ def parse_sign_table(data: dict, path: str = "") -> SignTable:
         rows.append(row)
     if any(b <= a for a, b in zip(diffs, diffs[1:], strict=False)):
         raise TableError(f"{where}: row differences must rise")
+    series = _need(head, "series", w, dict)
+    ws = f"{where} [signs.series]"
     return SignTable(
         name=_text(head, "name", w),
         title=_text(head, "title", w),
@@ -97,6 +99,14 @@ def parse_sign_table(data: dict, path: str = "") -> SignTable:
         friction_sources=tuple(fsrc),
         differences=np.array(diffs),
         rows=tuple(rows),
+        series_tangent=_number(series, "tangent_less_than", ws, 1.0, 10_000.0),
+        series_tangent_source=_text(series, "tangent_less_than_source", ws),
+        reverse_turn=_text(series, "reverse_turn", ws),
+        reverse_curve=_text(series, "reverse_curve", ws),
+        winding_road=_text(series, "winding_road", ws),
+        series_names_source=_text(series, "names_source", ws),
+        series_rule_source=_text(series, "rule_source", ws),
+        same_direction_note=_text(series, "same_direction_note", ws),
         path=path,
     )
 

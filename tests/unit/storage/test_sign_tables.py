@@ -46,3 +46,37 @@ def test_bad_level_and_rising_friction_refused():
 def test_unknown_name():
     with pytest.raises(TableError, match="CURVETUI_SIGNS: unknown sign table"):
         sign_table("no-such-table")
+
+
+def test_series_rule_read_with_sources():
+    # 600 ft (REFERENCES.md "Existing curves": read, secondary) converted exactly
+    t = sign_table()
+    assert t.series_tangent == 600 and t.series_tangent_si == 182.88
+    assert t.series_tangent_source.startswith("read")
+    assert (t.reverse_turn, t.reverse_curve, t.winding_road) == (
+        "Reverse Turn",
+        "Reverse Curve",
+        "Winding Road",
+    )
+    assert t.series_names_source.startswith("from memory")
+    assert "no source" in t.same_direction_note
+
+
+def test_an_authority_file_changes_the_series_rule():
+    data = _data()
+    data["signs"]["units"] = "metric"
+    data["signs"]["series"]["tangent_less_than"] = 120
+    data["signs"]["series"]["winding_road"] = "Series of Bends"
+    t = parse_sign_table(data, "x.toml")
+    assert t.series_tangent_si == 120.0 and t.winding_road == "Series of Bends"
+
+
+def test_series_rule_needs_its_sources():
+    data = _data()
+    del data["signs"]["series"]["names_source"]
+    with pytest.raises(TableError, match="names_source"):
+        parse_sign_table(data, "x.toml")
+    data = _data()
+    data["signs"]["series"]["tangent_less_than"] = -5
+    with pytest.raises(TableError, match="tangent_less_than"):
+        parse_sign_table(data, "x.toml")
