@@ -101,3 +101,15 @@ def test_feature_speeds_fallbacks_and_problems():
 )
 def test_cell_text(name, value, text):
     assert cell_text(name, value) == text
+
+
+def test_the_register_names_the_columns_batch_reads():
+    from curvetui.bend.fields import REGISTER_FIELDS, column_names
+    from curvetui.finder.register import COLUMNS
+
+    # batch places curves in series by these (bend/fields.py REGISTER_FIELDS) and checks
+    # each by these inputs: the register must write them under the same names
+    assert {f.key for f in REGISTER_FIELDS} <= set(COLUMNS)
+    assert {"radius", "deflection", "spiral_in", "spiral_out", "speed", "posted_speed"} <= (
+        set(COLUMNS) & set(column_names())
+    )
