@@ -66,6 +66,13 @@ def parse_geojson(
         features = [{"type": "Feature", "geometry": doc, "properties": None}]
     for index, feature in enumerate(features, start=1):
         _read_feature(feature, index, id_field, source, out)
+    if id_field:
+        missing = sum(1 for f in out.features if f.properties.get(id_field) in (None, ""))
+        if missing:
+            out.notes.append(
+                f"{missing} feature(s) without a {id_field!r} property: their position in "
+                "the file is their id"
+            )
     return out
 
 

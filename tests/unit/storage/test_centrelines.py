@@ -79,6 +79,10 @@ def test_geojson_bare_geometry_z_dropped_and_id_field(tmp_path):
     }
     path.write_text(json.dumps(doc))
     assert read_centrelines(str(path), id_field="ref").features[0].fid == "Q12"
+    got = read_centrelines(str(path), id_field="code")
+    assert got.features[0].fid == "1" and got.notes == [
+        "1 feature(s) without a 'code' property: their position in the file is their id"
+    ]
 
 
 def test_geojson_crs_member_honoured_and_told(tmp_path):
