@@ -87,6 +87,10 @@ def build_parser(command: str | None = None) -> argparse.ArgumentParser:
         from curvetui.cli import realign_cmd
 
         realign_cmd.add_parser(sub)
+    if wanted("find-curves"):
+        from curvetui.cli import find_curves_cmd
+
+        find_curves_cmd.add_parser(sub)
     return parser
 
 

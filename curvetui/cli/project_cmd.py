@@ -30,6 +30,7 @@ COMMANDS = {
     "design",
     "landxml",
     "realign",
+    "find-curves",
     "-h",
     "--help",
     "--version",
