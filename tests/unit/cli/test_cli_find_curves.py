@@ -15,19 +15,12 @@ from pathlib import Path
 import pytest
 
 sys.path.insert(0, str(Path(__file__).parents[1] / "storage"))
-sys.path.insert(0, str(Path(__file__).parents[1] / "finder"))
 from centreline_samples import geodesic_alignment, write_geojson  # noqa: E402
-from finder_adapter import ensure_finder  # noqa: E402
 
 from curvetui import CAUTION  # noqa: E402
 from curvetui.cli import main  # noqa: E402
 
 FOOT = 0.3048  # international foot, exact (1959 agreement)
-
-
-@pytest.fixture(scope="module", autouse=True)
-def finder():
-    ensure_finder()
 
 
 def _centrelines(tmp_path: Path, extra=None) -> Path:

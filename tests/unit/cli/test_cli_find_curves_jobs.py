@@ -4,21 +4,13 @@ stand-in cannot serve them)."""
 
 from __future__ import annotations
 
-import importlib.util
 import sys
 from pathlib import Path
-
-import pytest
 
 sys.path.insert(0, str(Path(__file__).parents[1] / "storage"))
 from centreline_samples import geodesic_alignment, write_geojson  # noqa: E402
 
 from curvetui.cli import main  # noqa: E402
-
-pytestmark = pytest.mark.skipif(
-    importlib.util.find_spec("curvetui.core.curve_finder") is None,
-    reason="core.curve_finder is not on this branch yet (merged from finder-core)",
-)
 
 
 def test_jobs_give_the_same_register(tmp_path):

@@ -5,25 +5,18 @@ the mile 1609.344 m (both exact by the 1959 agreement); km/h = 1/3.6 m/s."""
 from __future__ import annotations
 
 import math
-import sys
-from pathlib import Path
 
 import pytest
 
-sys.path.insert(0, str(Path(__file__).parent))
-from finder_adapter import ensure_finder  # noqa: E402
-
-from curvetui.core.units import METRIC, US  # noqa: E402
-from curvetui.finder.register import (  # noqa: E402
+from curvetui.core.curve_finder import FoundCurve
+from curvetui.core.units import METRIC, US
+from curvetui.finder.register import (
     SpeedSource,
     cell_text,
     curve_row,
     feature_speeds,
     speed_value,
 )
-
-ensure_finder()  # the real core.curve_finder once merged; its stand-in until then
-from curvetui.core.curve_finder import FoundCurve  # noqa: E402, I001
 
 CURVE = FoundCurve(
     begin=120.0, end=329.4391, radius=300.0, radii=(300.0,), deflection=-math.radians(40.0),

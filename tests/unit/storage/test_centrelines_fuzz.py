@@ -8,15 +8,10 @@ from __future__ import annotations
 
 import json
 import struct
-import sys
-from pathlib import Path
 
 import numpy as np
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
-
-sys.path.insert(0, str(Path(__file__).parents[1] / "finder"))
-from finder_adapter import ensure_finder  # noqa: E402
 
 from curvetui.cli import main  # noqa: E402
 from curvetui.storage.centrelines import CentrelineError, read_centrelines  # noqa: E402
@@ -58,7 +53,6 @@ def _mutated(place, value):
 @FUZZ
 @given(st.sampled_from(PLACES), values)
 def test_mutated_geojson_reads_or_is_refused(tmp_path_factory, place, value):
-    ensure_finder()
     folder = tmp_path_factory.mktemp("fz")
     path = folder / "c.geojson"
     path.write_text(json.dumps(_mutated(place, value)))
