@@ -31,9 +31,10 @@ from curvetui.core.alignment import Chain, bearing
 POSITION_TOL = 0.005  # [m]
 ANGLE_TOL = 1e-4  # [rad], about 21 arc seconds
 ZERO_LENGTH = 1e-9  # [m] a tangent shorter than this is no Line element
-# [m] a spiral shorter than a micrometre is left out (no file writes its length; the offset
-# it makes, Ls^2 / (6 R) at its end, is below 1e-12 m)
-SHORTEST_SPIRAL = 1e-6
+# [m] a spiral shorter than a millimetre is left out: written to six decimals (a micrometre,
+# or a millionth of a foot) its PI, about 2 Ls / 3 from its start, would round onto its start
+# (seen: Ls 1e-6 m); the offset it makes, Ls^2 / (6 R) at its end, is below 2e-7 m for R >= 1 m
+SHORTEST_SPIRAL = 1e-3
 
 
 class ElementError(ValueError):

@@ -155,3 +155,19 @@ def test_no_line_for_a_zero_tangent_and_control_characters():
     geom = root.find(f"{NS}Alignments/{NS}Alignment/{NS}CoordGeom")
     assert [c.tag.removeprefix(NS) for c in geom] == ["Curve", "Line"]
     assert root.find(f"{NS}Alignments/{NS}Alignment").get("name") == "a?b"
+
+
+@pytest.mark.parametrize("units", ["metric", "us"])
+def test_a_spiral_too_short_to_write_is_left_out(units):
+    """Found by the property test above (turn 20 degrees, R 1433 m, spiral share 1e-9: a
+    spiral of 0.5 micrometres): written to six decimals its PI fell on its start and the file
+    could not be read back. Spirals under a millimetre are now written as none; the bend
+    reads back within the round trip's tolerances (assert_same: 1 mm)."""
+    leg = 3 * (1433.0 * math.tan(math.radians(75)) + 2 * 1433.0 + 10)
+    turn = math.radians(20.0)
+    points = ((0.0, 0.0), (0.0, leg), (leg * math.sin(turn), leg + leg * math.cos(turn)))
+    ls = 2 * 1433.0 * turn * 1e-9
+    chain = Chain(points, (1433.0,), (ls,), (ls,), 0.0, "P")
+    back = roundtrip(chain, units)
+    assert back.spirals_in == (0.0,) and back.spirals_out == (0.0,)
+    assert_same(chain, back)
