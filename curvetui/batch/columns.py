@@ -61,6 +61,7 @@ DEFAULT_ROAD = (
     "min_radius",
     "superelevation",
     "sight.status",
+    "crash.curvature_cmf",
     "crash.cmf",
     "advisory.speed",
     "advisory.design_speed_inferred",
@@ -86,8 +87,13 @@ DEFAULT_GEOMETRY = (
 )
 DEFAULT_END = (*ALWAYS, FINDINGS)
 # in the default only, what a result needs beyond _NEEDS: a bend's signs only with a posted
-# speed (a register's series sign needs the register's columns, as in _NEEDS)
-_DEFAULT_NEEDS = tuple((f"signs.{k}", "posted_speed") for k in ("sign", "plaque", "chevrons"))
+# speed (a register's series sign needs the register's columns, as in _NEEDS); the combined
+# crash factor only with a measured superelevation (its variance factor needs one: without
+# it the curvature factor alone is written)
+_DEFAULT_NEEDS = (
+    *((f"signs.{k}", "posted_speed") for k in ("sign", "plaque", "chevrons")),
+    ("crash.cmf", "superelevation"),
+)
 
 # result columns written only when the file has the input they need
 _NEEDS = (

@@ -63,7 +63,19 @@ def test_default_by_kinds_present():
     assert ROAD_ONLY_RESULTS <= set(names_road) and not RAIL_ONLY_RESULTS & set(names_road)
     assert RAIL_ONLY_RESULTS <= set(names_rail) and not ROAD_ONLY_RESULTS & set(names_rail)
     assert (ROAD_ONLY_RESULTS | RAIL_ONLY_RESULTS) <= set(names_both)
-    assert "crash.cmf" in names_road and "crash.cmf" not in names_rail  # road only
+    assert "crash.curvature_cmf" in names_road and "crash.curvature_cmf" not in names_rail
+
+
+def test_combined_crash_factor_only_with_a_measured_superelevation():
+    """The combined factor is curvature x superelevation variance (HSM 1st ed. Eqs. 10-13 and
+    10-14..16): without a measured e it cannot be formed, so the default writes the curvature
+    factor alone, which a register from centrelines always has."""
+    names, _, _ = run("id,kind,speed,radius,deflection\nQV-1,road,80,300,30\n")
+    assert "crash.curvature_cmf" in names and "crash.cmf" not in names
+    names, out, _ = run("id,kind,speed,radius,deflection,superelevation\nQV-1,road,80,300,30,4\n")
+    assert {"crash.curvature_cmf", "crash.cmf"} <= set(names)
+    # the variance factor is at least 1 (Eqs. 10-14..16), so the product is not below it
+    assert float(out[0]["crash.cmf"]) >= float(out[0]["crash.curvature_cmf"]) > 1
 
 
 def test_default_needs_its_inputs():
