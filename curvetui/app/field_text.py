@@ -5,7 +5,7 @@ stations)."""
 
 from __future__ import annotations
 
-from curvetui.bend.fields import BY_KEY, FIELDS, STATION, cli_name
+from curvetui.bend.fields import BY_KEY, CHOICE, FIELDS, STATION, TEXT, cli_name
 from curvetui.stations import format_station, parse_station
 from curvetui.storage.project.model import Bend
 
@@ -19,12 +19,19 @@ def station_text(value: float, units: str) -> str:
     return format_station(value, units, decimals)
 
 
-def input_value(text: str, station_units: str | None = None) -> float | str | None:
+def input_value(
+    text: str, station_units: str | None = None, key: str | None = None
+) -> float | str | None:
     """An input as ``set_input`` stores it: None when blank, a number, or the text itself.
-    With ``station_units`` a station such as 2+710.5 is read as its number."""
+    With ``station_units`` a station such as 2+710.5 is read as its number. A field of
+    words (``key`` a CHOICE or TEXT field) keeps the text as typed: '90' typed for the
+    rotation axis stays '90', so the message quotes what was typed."""
     text = text.strip()
     if text == "":
         return None
+    field = BY_KEY.get(key) if key is not None else None
+    if field is not None and field.unit in (CHOICE, TEXT):
+        return text
     try:
         return float(text)
     except ValueError:

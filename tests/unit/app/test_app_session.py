@@ -328,6 +328,23 @@ def test_saving_with_a_bad_input_leaves_the_file_alone(demo_path, session):
     assert session.dirty is True
 
 
+def test_a_number_typed_in_a_field_of_words_is_kept_as_typed_and_saved(demo_path, session):
+    """'90' typed for the rotation axis (tried in the app: it was stored as 90.0, the
+    message said got '90.0' and the save was refused with the file's type words): it stays
+    the text typed, the message quotes it and names the words allowed, and the save keeps
+    it for the designer to fix later (the file takes text there)."""
+    b = bend(session, "QV-04")
+    st = session.set_input(b, "rotation_axis", " 90 ")
+    assert b.inputs["rotation_axis"] == "90"
+    assert st.error_field == "rotation_axis"
+    assert "'centreline'" in st.error and "got '90'" in st.error, st.error
+    session.save()
+    saved = json.loads(demo_path.read_text(encoding="utf-8"))
+    qv04 = next(x for x in saved["bends"] if x["id"] == "QV-04")
+    assert qv04["inputs"]["rotation_axis"] == "90"
+    assert session.set_input(b, "rotation_axis", "inside").error is None
+
+
 # -- a project naming a table that does not exist -----------------------------------------------
 
 
