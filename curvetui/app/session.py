@@ -252,9 +252,7 @@ class Session:
         and recompute. A value equal to the stored one leaves it as stored (100 stays 100,
         not 100.0) and changes nothing."""
         field = BY_KEY.get(key)
-        value = input_value(
-            text, self.units.name if field and field.unit == STATION else None, key
-        )
+        value = input_value(text, self.units.name if field and field.unit == STATION else None, key)
         old = bend.inputs.get(key)
         if value is None:
             if bend.inputs.pop(key, None) is not None:

@@ -46,8 +46,10 @@ def _cells_near(n: int, centre, reach: int):
     """Every valid (a, b, c, e) within ``reach`` of ``centre``: four float arrays."""
     steps = range(-reach, reach + 1)
     got = np.array(
-        [[centre[0] + i, centre[1] + j, centre[2] + k, centre[3] + m]
-         for i, j, k, m in itertools.product(steps, steps, steps, steps)],
+        [
+            [centre[0] + i, centre[1] + j, centre[2] + k, centre[3] + m]
+            for i, j, k, m in itertools.product(steps, steps, steps, steps)
+        ],
         dtype=float,
     )
     a, b, c, e = got.T
@@ -128,8 +130,9 @@ def _free_cells(p: _Problem, a, b, c, e) -> tuple[_Best | None, int]:
     tol = 1e-12 * max(float(np.max(np.abs(p.m))), 1e-12) * (1.0 + e)
     for k in range(ineq.shape[1]):
         r = ineq[:, k, :]
-        lo, hi, ok1 = _interval(np.einsum("ci,ci->c", r, xp), np.einsum("ci,ci->c", r, nv),
-                                lo, hi, tol)
+        lo, hi, ok1 = _interval(
+            np.einsum("ci,ci->c", r, xp), np.einsum("ci,ci->c", r, nv), lo, hi, tol
+        )
         ok &= ok1
     fixed = np.where(q == 5, 0.0, np.nan) * np.ones(a.size)
     if p.limit is not None:
@@ -187,11 +190,13 @@ def free_smallest_limit(p: _Problem, centre, reach: int = 2, shortlist: int = 12
         cols = _free_columns(n, *(np.array([v[k]]) for v in (a, b, c, e)))[0].T  # (n, 5)
         sc = t_mat @ cols
         ineq = _inequalities(*(np.array([v[k]]) for v in (a, b, c, e)))[0]  # (9, 5)
-        a_ub = np.vstack([
-            np.hstack([-sc, -np.ones((n, 1))]),
-            np.hstack([sc, -np.ones((n, 1))]),
-            np.hstack([-ineq, np.zeros((ineq.shape[0], 1))]),
-        ])
+        a_ub = np.vstack(
+            [
+                np.hstack([-sc, -np.ones((n, 1))]),
+                np.hstack([sc, -np.ones((n, 1))]),
+                np.hstack([-ineq, np.zeros((ineq.shape[0], 1))]),
+            ]
+        )
         b_ub = np.concatenate([-sm, sm, np.zeros(ineq.shape[0])])
         a_eq = [np.append(cols.sum(axis=0), 0.0), np.append(idx @ cols, 0.0)]
         b_eq = [p.m.sum(), idx @ p.m]
@@ -201,9 +206,15 @@ def free_smallest_limit(p: _Problem, centre, reach: int = 2, shortlist: int = 12
         if p.u_fixed is not None:
             a_eq.append([0.0, 0, 1, 0, 0, 0])
             b_eq.append(p.u_fixed)
-        res = linprog(np.array([0, 0, 0, 0, 0, 1.0]), A_ub=a_ub, b_ub=b_ub, A_eq=np.array(a_eq),
-                      b_eq=np.array(b_eq), bounds=[(None, None)] * 5 + [(0, None)],
-                      method="highs")
+        res = linprog(
+            np.array([0, 0, 0, 0, 0, 1.0]),
+            A_ub=a_ub,
+            b_ub=b_ub,
+            A_eq=np.array(a_eq),
+            b_eq=np.array(b_eq),
+            bounds=[(None, None)] * 5 + [(0, None)],
+            method="highs",
+        )
         if res.status == 0 and (result is None or res.x[5] < result[0]):
             result = (float(res.x[5]), k)
     return result

@@ -265,11 +265,13 @@ def test_two_holds_at_zero_met_and_the_limit_they_need():
     assert abs(r.slews[20]) <= 1e-9 and abs(r.slews[35]) <= 1e-9
     e = r.measured - r.designed  # closes: sum and first moment of e vanish
     assert abs(e.sum()) < 1e-12 and abs((np.arange(n) * e).sum()) < 1e-10
-    low = design_realignment(st, m, CHORD, holds=holds, slew_limit=0.2 * r.max_slew,
-                             max_transition=10)
+    low = design_realignment(
+        st, m, CHORD, holds=holds, slew_limit=0.2 * r.max_slew, max_transition=10
+    )
     assert not low.feasible and low.smallest_limit is not None
     assert low.smallest_limit <= r.max_slew + 1e-12  # the least-squares design meets it
     assert abs(low.slews[20]) <= 1e-9 and abs(low.slews[35]) <= 1e-9
-    ok = design_realignment(st, m, CHORD, holds=holds, slew_limit=low.smallest_limit * 1.001,
-                            max_transition=10)
+    ok = design_realignment(
+        st, m, CHORD, holds=holds, slew_limit=low.smallest_limit * 1.001, max_transition=10
+    )
     assert ok.feasible and ok.max_slew <= low.smallest_limit * 1.001 + 1e-9
