@@ -18,13 +18,14 @@ stretch's ends having been blurred together).
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import NDArray
 
 from curvetui.core.centreline import Centreline, smooth_like
-from curvetui.core.curve_fit import CurvatureModel, fit_curvature, heading_of_knots
+from curvetui.core.curve_fit import NO_RAMP, CurvatureModel, fit_curvature, heading_of_knots
 from curvetui.core.curve_regions import Region
 
 MAX_PLATEAUS = 4
@@ -80,9 +81,12 @@ def fit_region(
     hi: int,
     max_radius: float,
     noise: float,
+    shortest_ramp: Callable[[float], float] | None = None,
 ) -> list[FittedBend]:
     """The bend (or bends) best fitting the headings from point ``lo`` to ``hi`` around
-    ``region`` (module doc); ``noise`` the headings' noise sd [rad]."""
+    ``region`` (module doc); ``noise`` the headings' noise sd [rad]; ``shortest_ramp``:
+    the shortest end ramp [m] told from a plain arc's end on an arc of a radius [m]
+    (shorter ones are held at zero and the bend fitted again, ``_plain_ends``)."""
     n = line.arc.size
     step = line.step
     pad = int(math.ceil(4 * line.smoothing / step)) + line.half + 1
@@ -108,9 +112,11 @@ def fit_region(
     theta0 = float(line.heading[lo])
     n_eff = max(2.0, (hi - lo + 1) / (2 * line.half + 1 + 2 * line.smoothing / step))
 
-    def fit(start: NDArray, plateaus: int) -> CurvatureModel:
+    def fit(start: NDArray, plateaus: int, held=(False, False)) -> CurvatureModel:
         pattern = (True,) * plateaus
-        return fit_curvature(s, heading, start, smoother, inside, pattern, bounds, end_limit)
+        return fit_curvature(
+            s, heading, start, smoother, inside, pattern, bounds, end_limit, no_ramp=held
+        )
 
     def criterion(model: CurvatureModel) -> float:
         k = 2 + 3 * len(model.plateaus) + 1
@@ -143,8 +149,43 @@ def fit_region(
                 value = criterion(model)
                 if value < best_value - BIC_MARGIN:
                     best, best_value = model, value
+    if shortest_ramp is not None:
+        best = _plain_ends(best, fit, shortest_ramp)
     bends = _parted(best, 1.0 / max_radius)
     return [within(b, float(line.arc[0]), float(line.arc[-1])) for b in bends]
+
+
+def _plain_ends(model: CurvatureModel, fit, shortest_ramp) -> CurvatureModel:
+    """The bend fitted again with its end ramps held at zero where they are shorter than
+    ``shortest_ramp`` of the arc beside them: noise rounds a plain arc's ends off into short
+    ramps, which would be reported as spirals (and failed as too short by a check); the
+    arc's ends and radius are then those of a plain arc, not of an arc between ramps."""
+    kn = model.knots
+    ramps = (kn[1] - kn[0], kn[-1] - kn[-2])
+    radii = tuple(abs(1 / k) if k else math.inf for k in (model.plateaus[0], model.plateaus[-1]))
+    held = tuple(
+        NO_RAMP < ramp < shortest_ramp(radius) for ramp, radius in zip(ramps, radii, strict=True)
+    )
+    if not any(held):
+        return model
+    return fit(_held_start(model, held), len(model.plateaus), held)
+
+
+def _held_start(model: CurvatureModel, held: tuple[bool, bool]) -> NDArray:
+    """Start parameters for ``model`` with the held end ramps at zero: the arc next to a
+    held ramp takes over half of it (the arc that a spiral of length L replaces begins
+    about L / 2 into it)."""
+    kn = list(model.knots)
+    lengths = list(np.diff(kn))
+    start = kn[0]
+    if held[0]:
+        start += lengths[0] / 2
+        lengths[1] += lengths[0] / 2
+        lengths[0] = NO_RAMP / 2
+    if held[1]:
+        lengths[-2] += lengths[-1] / 2
+        lengths[-1] = NO_RAMP / 2
+    return np.array([model.theta0, start, *lengths, *model.plateaus])
 
 
 def _has_short_arc(model: CurvatureModel, shortest: float) -> bool:

@@ -33,6 +33,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import partial
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
@@ -50,6 +51,9 @@ from curvetui.core.heading_segments import bends_in
 
 ARC_TRIM = 0.1  # share of an arc left out at each end of its circle fit (no source)
 MIN_ARC_VERTICES = 6  # vertices an arc needs for a circle fit on a noisy line (no source)
+# a ramp is a spiral only when its heading departs from a plain arc's by this many sd of
+# the headings' noise averaged over it (_shortest_spiral; no source)
+RAMP_SIGMAS = 1.5
 # a circle fit whose radius would scatter more than this (relative sd) on the line's noise
 # gives way to the curvature of the fitted bend, which the spirals and tangents steady
 CIRCLE_FIT_MAX_SD = 0.03
@@ -163,7 +167,8 @@ def find_curves(
     bends: list[FittedBend] = []
     for i, region in enumerate(regions):
         lo, hi = _window(line, region, regions, i, detection.width)
-        bends.extend(fit_region(line, region, lo, hi, settings.max_radius, noise))
+        shortest = partial(_shortest_spiral, line, settings, noise=noise)
+        bends.extend(fit_region(line, region, lo, hi, settings.max_radius, noise, shortest))
     curves: list[FoundCurve] = []
     dropped = 0
     previous_end: float | None = None
@@ -172,7 +177,7 @@ def find_curves(
         if abs(bend.turn) < settings.min_deflection:
             dropped += 1
             continue
-        curve = _curve_of(line, bend, settings)
+        curve = _curve_of(line, bend, settings, noise)
         tangent = None if previous_end is None else max(0.0, bend.knots[0] - previous_end)
         relation = ""
         sense = 1 if bend.turn > 0 else -1
@@ -247,16 +252,18 @@ def _with(curve: FoundCurve, relation: str, tangent: float | None) -> FoundCurve
 # --- one bend to a found curve ------------------------------------------------------------
 
 
-def _curve_of(line: Centreline, bend: FittedBend, settings: FinderSettings) -> FoundCurve:
+def _curve_of(
+    line: Centreline, bend: FittedBend, settings: FinderSettings, noise: float
+) -> FoundCurve:
     kn = np.asarray(bend.knots)
     radii = []
     for j, kappa in enumerate(bend.plateaus):
         radii.append(_arc_radius(line, kn[2 * j + 1], kn[2 * j + 2], kappa))
     spiral_in = float(kn[1] - kn[0])
     spiral_out = float(kn[-1] - kn[-2])
-    if spiral_in < _shortest_spiral(line, settings, radii[0]):
+    if spiral_in < _shortest_spiral(line, settings, radii[0], noise):
         spiral_in = 0.0
-    if spiral_out < _shortest_spiral(line, settings, radii[-1]):
+    if spiral_out < _shortest_spiral(line, settings, radii[-1], noise):
         spiral_out = 0.0
     if len(radii) > 1:
         shape = "compound"
@@ -280,17 +287,26 @@ def _curve_of(line: Centreline, bend: FittedBend, settings: FinderSettings) -> F
     )
 
 
-def _shortest_spiral(line: Centreline, settings: FinderSettings, radius: float) -> float:
+def _shortest_spiral(
+    line: Centreline, settings: FinderSettings, radius: float, noise: float = 0.0
+) -> float:
     """The shortest ramp reported as a spiral [m] on an arc of ``radius`` [m]:
     ``settings.min_spiral``, and no less than one and a half vertex spacings (the
     corners of a polyline round a curve's start off over about one spacing), the
-    smoothing width (noise blurs the ramp as much), or the ramp whose heading departs
-    from a plain arc's by the headings' resolution: a ramp of length L moves the heading
-    by up to about L / (8 R) (derived: the clothoid's heading against the arc's, shifted
-    by L / 2), so L = 8 R HEADING_RESOLUTION."""
+    smoothing width (noise blurs the ramp as much), or the ramp whose heading departs from
+    a plain arc's by the headings' resolution: a ramp of length L moves the heading by up
+    to about L / (8 R) (derived: the clothoid's heading against the arc's, shifted by
+    L / 2), so L = 8 R HEADING_RESOLUTION; nor than the ramp whose departure stands
+    RAMP_SIGMAS sd clear of the headings' noise ``noise`` [rad] averaged over the ramp
+    (L / w independent headings, w the width one noise value spans: the chord and the
+    smoothing): L / (8 R) = c noise sqrt(w / L), so L = (8 c R noise sqrt w)^(2/3)."""
     spacing = float(np.median(np.diff(line.vertex_station)))
-    seen = 8 * radius * HEADING_RESOLUTION if math.isfinite(radius) else 0.0
-    return max(settings.min_spiral, 1.5 * spacing, line.smoothing, seen)
+    if not math.isfinite(radius):
+        return max(settings.min_spiral, 1.5 * spacing, line.smoothing)
+    seen = 8 * radius * HEADING_RESOLUTION
+    width = (2 * line.half + 1) * line.step + 2 * line.smoothing
+    clear = (8 * RAMP_SIGMAS * radius * noise * math.sqrt(width)) ** (2 / 3)
+    return max(settings.min_spiral, 1.5 * spacing, line.smoothing, seen, clear)
 
 
 def _arc_radius(line: Centreline, a: float, b: float, kappa: float) -> float:

@@ -34,6 +34,7 @@ TINY = 1e-12
 # it are in line (a circle through them would be larger than rounding can tell)
 COLLINEAR = 1e-9
 OVERRUN_WEIGHT = 0.1  # [rad/m]
+NO_RAMP = 1e-3  # [m] a ramp held at zero is kept under this (a millimetre: no spiral)
 MAX_EVALUATIONS = 100  # per fit; a fit that needs more is a poor start (no source)
 # relative change of the misfit and of the parameters that ends a fit: 1e-6 of a knot
 # station is well under a millimetre on a curve of a kilometre (no source)
@@ -173,6 +174,7 @@ def fit_curvature(
     pattern: tuple[bool, ...],
     bounds_station: tuple[float, float],
     last_knot: float = math.inf,
+    no_ramp: tuple[bool, bool] = (False, False),
 ) -> CurvatureModel:
     """Least-squares fit of a bend with plateaus of curvature ``pattern`` (see ``_unpack``)
     to ``heading`` at ``s``.
@@ -183,6 +185,7 @@ def fit_curvature(
     kept within ``bounds_station``; lengths are non-negative; a plateau's curvature keeps
     its sign; a last knot beyond ``last_knot`` is penalised (OVERRUN_WEIGHT [rad/m]), so
     that the bend stays on the stretch fitted instead of running over unseen ground.
+    ``no_ramp``: (entry, exit) ramps held at zero length (NO_RAMP: a plain arc's ends).
     """
     from scipy.optimize import least_squares
 
@@ -198,6 +201,9 @@ def fit_curvature(
     hi = np.full(start.size, np.inf)
     lo[1], hi[1] = bounds_station
     lo[2 : 2 + n_len] = 0.0
+    for held, at in zip(no_ramp, (2, 1 + n_len), strict=True):
+        if held:
+            hi[at] = NO_RAMP
     for j, k in enumerate(start[2 + n_len :]):
         if k > 0:
             lo[2 + n_len + j] = 0.0

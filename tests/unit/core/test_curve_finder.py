@@ -167,6 +167,36 @@ def test_large_radius_simple_curve_has_no_spirals():
     assert c.radius == pytest.approx(1500.0, rel=0.02)
 
 
+def _noisy(x, y, sd: float, seed: int):
+    rng = np.random.default_rng(seed)
+    return x + rng.normal(0, sd, x.size), y + rng.normal(0, sd, y.size)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_noise_does_not_make_spirals_of_a_plain_arc(seed):
+    # R 600 m, 20 degrees, no spirals, 3 m vertices with 0.1 m noise: the noise rounds the
+    # arc's ends off into ramps of 15-40 m, which were reported as spirals (and a check
+    # then failed them as too short); the arc is fitted again without them
+    x, y, ((pc, pt),) = chain_line([(600.0, 20.0, 0.0, 0.0)], [], spacing=3.0)
+    (c,) = find_curves(*_noisy(x, y, 0.1, seed)).curves
+    assert c.shape == "simple" and (c.spiral_in, c.spiral_out) == (0.0, 0.0)
+    assert c.radius == pytest.approx(600.0, rel=0.02)
+    assert c.begin == pytest.approx(pc, abs=6.0)
+    assert c.end == pytest.approx(pt, abs=6.0)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_spirals_that_stand_clear_of_the_noise_are_kept(seed):
+    # R 150 m, 60 degrees, clothoids of 40 m: a plain arc's heading would depart by about
+    # L / 8R = 0.033 rad, far above the headings' noise averaged over the ramp
+    x, y, _ = chain_line([(150.0, 60.0, 40.0, 40.0)], [], spacing=3.0)
+    (c,) = find_curves(*_noisy(x, y, 0.1, seed)).curves
+    assert c.shape == "spiralled"
+    assert c.spiral_in == pytest.approx(40.0, abs=10.0)
+    assert c.spiral_out == pytest.approx(40.0, abs=10.0)
+    assert c.radius == pytest.approx(150.0, rel=0.03)
+
+
 @pytest.mark.parametrize(
     ("field", "value"),
     [
