@@ -52,7 +52,7 @@ ROOT = HERE.parent
 sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(ROOT))
 
-from batch_speed import TreeMemory, generate, per_row_loop  # noqa: E402
+from batch_speed import TreeMemory, generate, per_row_loop, verdict  # noqa: E402
 
 SPEED_GOAL = 1.5  # batch within this many times pyarrow writing the same table
 SIZE_GOAL = 1 / 3  # default output at most this share of today's
@@ -141,10 +141,6 @@ def today_tree(folder: Path, rev: str) -> Path | None:
         tar.extractall(dest, filter="data")
     archive.unlink()
     return dest
-
-
-def verdict(ok: bool) -> str:
-    return "PASS" if ok else "MISS"
 
 
 def mb(size: int) -> str:
