@@ -107,7 +107,8 @@ def key_stations(lc_in, lc_out, l_in, l_out, e, e_nc) -> dict:
         # the ramps cross where e (x - LC_in) / L_in = e (LC_out - x) / L_out
         cross = (lc_in * l_out + lc_out * l_in) / (l_in + l_out)
     peak = np.where(too_short, cross, 0.5 * (full_in + full_out))
-    peak_slope = np.where(too_short, e * (cross - lc_in) / l_in, e)
+    with np.errstate(divide="ignore", over="ignore", invalid="ignore"):  # where not too_short
+        peak_slope = np.where(too_short, e * (cross - lc_in) / l_in, e)
     out["peak"] = np.where(ok, peak, np.nan)
     out["peak_slope"] = np.where(ok, peak_slope, np.nan)
     out["too_short"] = np.asarray(too_short & ok)
@@ -120,8 +121,11 @@ def edge_slopes(station, lc_in, lc_out, l_in, l_out, e, e_nc):
     x = np.asarray(station, dtype=float)
     e = np.asarray(e, dtype=float)
     e_nc = np.asarray(e_nc, dtype=float)
-    ramp_in = e * (x - lc_in) / np.asarray(l_in, dtype=float)
-    ramp_out = e * (np.asarray(lc_out) - x) / np.asarray(l_out, dtype=float)
+    # a ramp of (nearly) no length overflows to +-inf, which the clip below takes to its
+    # ends: a step from normal crown to full superelevation
+    with np.errstate(divide="ignore", over="ignore", invalid="ignore"):
+        ramp_in = e * (x - lc_in) / np.asarray(l_in, dtype=float)
+        ramp_out = e * (np.asarray(lc_out) - x) / np.asarray(l_out, dtype=float)
     s_out = np.clip(np.minimum(ramp_in, ramp_out), -e_nc, e)
     s_in = np.maximum(s_out, e_nc)
     return s_out, s_in

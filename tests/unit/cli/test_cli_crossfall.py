@@ -155,3 +155,17 @@ def test_hostile_values_never_reach_the_user_as_a_defect(capsys, option, value):
     err = capsys.readouterr().err
     assert code in (0, 1, 2), err
     assert "Traceback" not in err and "internal error" not in err
+
+
+@pytest.mark.parametrize("spiral", ["1e-320", "1e-300"])
+def test_a_spiral_of_almost_no_length_warns_nothing_from_numpy(capsys, spiral):
+    """Found by hand: a subnormal spiral length overflowed the ramp's slope and numpy's
+    RuntimeWarning (with a source path) reached the user's terminal; the ramp is a step."""
+    import warnings
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", RuntimeWarning)
+        code = main(["crossfall", *IOWA, "--spiral", spiral])
+    captured = capsys.readouterr()
+    assert code in (0, 1)
+    assert "RuntimeWarning" not in captured.err and captured.out.startswith("station,")
