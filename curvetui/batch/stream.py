@@ -18,7 +18,6 @@ import contextlib
 import errno
 import io
 import os
-import sys
 from collections.abc import Callable
 from pathlib import Path
 from typing import BinaryIO
@@ -39,6 +38,7 @@ from curvetui.batch.parquet_io import ParquetRows, is_parquet, parquet_header, p
 from curvetui.batch.series import SeriesHold
 from curvetui.batch.summary import NOT_UTF8_ROW, Summary, finish, merge
 from curvetui.batch.survey import csv_kinds, parquet_kinds
+from curvetui.batch.undecodable import undecodable
 from curvetui.core.rail import RailLimits
 from curvetui.core.road_table import RoadTable
 from curvetui.core.units import UnitSystem
@@ -134,7 +134,7 @@ class _Numbering:
 
     def handler(self, row) -> str:
         # pyarrow decodes the row's text before calling this; a row that is not UTF-8 never
-        # gets here: pyarrow reports that decoding error as "unraisable" (see _undecodable)
+        # gets here: pyarrow reports that decoding error as "unraisable" (see batch/undecodable.py)
         number = row.number if row.number is not None else -1
         self.skipped.append(number)
         if row.text.strip():
@@ -285,10 +285,10 @@ def _run(
         reader = rows  # a Parquet file's chunks
     else:
         try:
-            with _undecodable() as undecodable:
+            with undecodable() as not_utf8:
                 reader = _open(stream, names, block_size, header, numbering)
         except pa.ArrowInvalid as exc:
-            raise BatchFileError(_NOT_UTF8 if undecodable else _arrow_words(exc)) from None
+            raise BatchFileError(_NOT_UTF8 if not_utf8 else _arrow_words(exc)) from None
         except StopIteration:  # pragma: no cover - header only, handled below
             reader = None
 
@@ -343,12 +343,12 @@ def _run(
     try:
         while True:
             try:
-                with _undecodable() as undecodable:
+                with undecodable() as not_utf8:
                     batch = reader.read_next_batch()
             except StopIteration:
                 break
             except pa.ArrowInvalid as exc:
-                if undecodable:
+                if not_utf8:
                     raise BatchFileError(_NOT_UTF8) from None
                 raise BatchFileError(_arrow_words(exc)) from None
             rows = numbering.numbers(batch.num_rows)
@@ -457,28 +457,6 @@ def _arrow_words(exc: Exception) -> str:
     if "UTF8" in text or "utf8" in text.lower():
         return _NOT_UTF8
     return f"cannot read the file as CSV: {text}"
-
-
-@contextlib.contextmanager
-def _undecodable():
-    """While pyarrow reads a block: a row with the wrong number of fields that is not UTF-8
-    makes pyarrow's call of our row handler fail on decoding the row's text, which Python
-    would print as "Exception ignored ... Traceback". Such errors are kept in the list
-    yielded instead (pyarrow then stops with a parse error, reported as not UTF-8)."""
-    seen: list[BaseException] = []
-    previous = sys.unraisablehook
-
-    def hook(info) -> None:
-        if isinstance(info.exc_value, UnicodeDecodeError):
-            seen.append(info.exc_value)
-        else:
-            previous(info)
-
-    sys.unraisablehook = hook
-    try:
-        yield seen
-    finally:
-        sys.unraisablehook = previous
 
 
 def batch_bytes(text: str | bytes, units, table, limits, **kw) -> tuple[bytes, Summary]:

@@ -19,6 +19,7 @@ import pyarrow.compute as pc
 import pyarrow.csv as pcsv
 
 from curvetui.batch.header import Header
+from curvetui.batch.undecodable import undecodable
 
 KINDS = frozenset(("road", "rail"))
 SURVEY_BLOCK = 1 << 22  # bytes per parsed block while surveying
@@ -35,32 +36,38 @@ def csv_kinds(source: str | Path | BinaryIO, header: Header) -> frozenset[str]:
     names = [f"c{i}" for i in range(len(header.names))]
     kind = names[header.known["kind"]]
     start = None if isinstance(source, str | Path) else source.tell()
-    found: set[str] = set()
     try:
-        reader = pcsv.open_csv(
-            str(source) if start is None else pa.PythonFile(source, mode="r"),
-            read_options=pcsv.ReadOptions(
-                column_names=names, skip_rows=1, block_size=SURVEY_BLOCK, use_threads=True
-            ),
-            parse_options=pcsv.ParseOptions(
-                delimiter=header.delimiter,
-                newlines_in_values=True,
-                invalid_row_handler=lambda row: "skip",
-            ),
-            convert_options=pcsv.ConvertOptions(
-                include_columns=[kind], column_types={kind: pa.string()}
-            ),
-        )
-        for batch in reader:
-            found |= _found(batch.column(0))
-            if found == KINDS:
-                break
+        with undecodable():  # a malformed row not UTF-8: pyarrow stops, both kinds below
+            found = _surveyed(source, start, names, kind, header)
     except (pa.ArrowException, OSError, UnicodeError):
         return KINDS
     finally:
         if start is not None:
             source.seek(start)
     return frozenset(found)
+
+
+def _surveyed(source, start, names: list[str], kind: str, header: Header) -> set[str]:
+    found: set[str] = set()
+    reader = pcsv.open_csv(
+        str(source) if start is None else pa.PythonFile(source, mode="r"),
+        read_options=pcsv.ReadOptions(
+            column_names=names, skip_rows=1, block_size=SURVEY_BLOCK, use_threads=True
+        ),
+        parse_options=pcsv.ParseOptions(
+            delimiter=header.delimiter,
+            newlines_in_values=True,
+            invalid_row_handler=lambda row: "skip",
+        ),
+        convert_options=pcsv.ConvertOptions(
+            include_columns=[kind], column_types={kind: pa.string()}
+        ),
+    )
+    for batch in reader:
+        found |= _found(batch.column(0))
+        if found == KINDS:
+            break
+    return found
 
 
 def parquet_kinds(path: str | Path, header: Header) -> frozenset[str]:

@@ -66,3 +66,28 @@ def test_reads_of_any_size_return_valid_text_unchanged(size):
             got += chunk
         assert got == want
         assert stream.replaced == (data != want)
+
+
+# pytest turns what Python would print as "Exception ignored" into this warning: an error here
+@pytest.mark.filterwarnings("error::pytest.PytestUnraisableExceptionWarning")
+def test_a_malformed_row_not_utf8_prints_no_traceback_in_the_survey(tmp_path, capfd):
+    """Found by benchmarks/robustness.py: a row with too many fields holding bytes that are
+    not UTF-8 made pyarrow's call of the kinds survey's row handler fail, and Python printed
+    "Exception ignored ... Traceback" on the terminal (the check itself already kept it
+    quiet). The survey now gives both kinds, as for any file it cannot read."""
+    from curvetui.cli import main
+
+    src = tmp_path / "bends.csv"
+    src.write_bytes(
+        b"id,kind,speed,radius\n"
+        b"A,road,80,400\n"
+        b"B,road,80,400,\xed\xb2\x80,extra\n"  # too many fields, and not UTF-8
+        b"C,road,80,400\n"
+    )
+    code = main(["batch", str(src), "-o", str(tmp_path / "out.csv")])
+    err = capfd.readouterr().err
+    assert "Traceback" not in err and "Exception ignored" not in err, err
+    assert code == 1  # the malformed row is an error row; the others pass
+    with open(tmp_path / "out.csv", encoding="utf-8", newline="") as fh:
+        rows = list(csv.DictReader(fh))
+    assert [(r["row"], r["status"]) for r in rows] == [("2", "pass"), ("3", "error"), ("4", "pass")]
