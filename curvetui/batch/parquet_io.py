@@ -46,15 +46,20 @@ def parquet_header(path: str | Path) -> Header:
 
 
 def as_text(column: pa.Array, name: str) -> pa.Array:
-    """A column's cells as text for the one path (a null: a blank cell)."""
+    """A column's cells as text for the one path (a null: a blank cell). A column that
+    has no text form is refused by name: nested cells (lists, structs, maps), and any
+    type pyarrow cannot cast to text (binary cells that are not UTF-8)."""
     if pa.types.is_string(column.type):
         return pc.fill_null(column, "")
+    refused = BatchFileError(
+        f"column {name!r}: its type {column.type} cannot be read as text or numbers"
+    )
+    if pa.types.is_nested(column.type):
+        raise refused
     try:
         return pc.fill_null(pc.cast(column, pa.string()), "")
-    except (pa.ArrowNotImplementedError, pa.ArrowInvalid):
-        raise BatchFileError(
-            f"column {name!r}: its type {column.type} cannot be read as text or numbers"
-        ) from None
+    except pa.ArrowException:
+        raise refused from None
 
 
 class ParquetRows:

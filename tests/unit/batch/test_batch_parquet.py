@@ -106,8 +106,16 @@ def test_parquet_in_with_number_and_text_columns_matches_the_csv(tmp_path):
     assert (summary.rows, summary.errors) == (5, 1)
 
 
-def test_a_parquet_column_that_is_not_text_or_numbers_is_refused_by_name(tmp_path):
-    table = pa.table({"kind": ["road"], "speed": [80.0], "radius": [300.0], "bends": [[1, 2]]})
+@pytest.mark.parametrize(
+    "cells",
+    [
+        pa.array([[1, 2]]),  # a list: nested
+        pa.array([{"a": 1}]),  # a struct: nested
+        pa.array([b"\xff"], pa.binary()),  # bytes that are not UTF-8
+    ],
+)
+def test_a_parquet_column_that_is_not_text_or_numbers_is_refused_by_name(tmp_path, cells):
+    table = pa.table({"kind": ["road"], "speed": [80.0], "radius": [300.0], "bends": cells})
     pq.write_table(table, tmp_path / "odd.parquet")
     with pytest.raises(BatchFileError, match="column 'bends'"):
         run_batch(tmp_path / "odd.parquet", io.BytesIO(), *SETTINGS, columns=cols.DEFAULT)
