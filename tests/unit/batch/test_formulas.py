@@ -4,6 +4,8 @@ The rule (a cell starting with =, +, -, @, a tab or a carriage return, unless it
 number) follows OWASP's "CSV Injection" page; the check here is that the whole-column path
 (a first-byte look, then pyarrow's regex) writes each cell exactly as Python's ``re`` does
 one cell at a time (``neutral_text``), whatever the arrays' slicing, chunking and nulls.
+Source: OWASP, "CSV Injection" (common practice, no standard); the reference for each cell
+is Python's ``re`` module; no engineering value is checked here.
 """
 
 from __future__ import annotations

@@ -1,6 +1,7 @@
 """`curvetui find-curves --jobs 2`: the register is the same, byte for byte, as with one
 process. Needs the real core.curve_finder (the processes import it afresh, so the test
-stand-in cannot serve them)."""
+stand-in cannot serve them). No engineering value is checked: the check is that two runs
+agree byte for byte (the lines are the invented demo centrelines)."""
 
 from __future__ import annotations
 

@@ -5,6 +5,8 @@ is parallel to the tangent at its middle, so the chord's bearing is the tangent'
 a circle's curvature is 1/R everywhere), and for the noise estimate the variance of a
 vertex's offset from its neighbours' chord, 1.5 sigma^2 for independent Gaussian errors of
 sd sigma on equally spaced vertices (derived: d = e_1 - (e_0 + e_2)/2 across the chord).
+Source: plane geometry and the variance of a sum of independent errors, derived here (no
+published table gives these values).
 """
 
 from __future__ import annotations

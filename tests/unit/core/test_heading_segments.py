@@ -1,7 +1,8 @@
 """The heading diagram cut into straight pieces and grouped into bends.
 
 Check values: headings written out from their definition (flat on a tangent, slope 1/R
-on an arc; exact, no engine code).
+on an arc; exact, no engine code). Source: the definition of curvature as the rate of
+change of heading, d(theta)/ds = 1/R (plane geometry, derived here; no published table).
 """
 
 from __future__ import annotations

@@ -5,6 +5,9 @@ radius R from its centre and at chord 2 R sin(t / 2R) from its start (plane
 trigonometry); a clothoid's points against its own ends as core/plan_elements.py lays
 them out (SC and CS from core/spiral.py's X, Y, checked in test_spiral.py) and with the
 heading a clothoid has, theta = t^2 / (2 R Ls), between consecutive close points.
+Sources: plane geometry for lines and arcs (derived); the clothoid's heading is its
+definition (curvature linear in length, AASHTO Green Book 2018 section 3.3.8 on spiral
+transitions, cited from memory).
 """
 
 from __future__ import annotations

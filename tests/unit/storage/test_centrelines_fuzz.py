@@ -2,7 +2,8 @@
 bytes. A reader returns features or raises CentrelineError naming the file; the WKT and WKB
 parsers raise only their own errors; `find-curves` ends with exit code 0 or 2, never an
 internal error (3). Bounded as tests/unit/cli/test_fuzz_files.py is; no engineering value
-is checked here."""
+is checked here. Sources for the formats fuzzed: GeoJSON RFC 7946; WKT and WKB as in OGC
+Simple Features (ISO 19125-1, cited from memory)."""
 
 from __future__ import annotations
 

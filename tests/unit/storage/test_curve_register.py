@@ -1,5 +1,9 @@
 """storage.curve_register: the register saved as CSV (formula-like text neutralised as
-batch output does, OWASP "CSV Injection") or Parquet (typed columns), the old file kept."""
+batch output does, OWASP "CSV Injection") or Parquet (typed columns), the old file kept.
+
+Sources: the formula rule is OWASP's "CSV Injection" page (common practice, no standard);
+the numbers' text (300.0 written as 300) is the register's own display rule;
+no engineering value is checked here (the curves written are invented rows)."""
 
 from __future__ import annotations
 
