@@ -19,19 +19,18 @@ def station_text(value: float, units: str) -> str:
     return format_station(value, units, decimals)
 
 
-def input_value(
-    text: str, station_units: str | None = None, key: str | None = None
-) -> float | str | None:
-    """An input as ``set_input`` stores it: None when blank, a number, or the text itself.
-    With ``station_units`` a station such as 2+710.5 is read as its number. A field of
-    words (``key`` a CHOICE or TEXT field) keeps the text as typed: '90' typed for the
-    rotation axis stays '90', so the message quotes what was typed."""
+def input_value(text: str, key: str | None = None, units: str | None = None) -> float | str | None:
+    """An input ``key`` as ``set_input`` stores it from typed ``text``: None when blank, a
+    number, or the text itself. A station field (``units`` metric or us) reads 2+710.5 as
+    its number; a field of words (CHOICE or TEXT) keeps the text as typed: '90' typed for
+    the rotation axis stays '90', so the message quotes what was typed."""
     text = text.strip()
     if text == "":
         return None
-    field = BY_KEY.get(key) if key is not None else None
-    if field is not None and field.unit in (CHOICE, TEXT):
+    unit = BY_KEY[key].unit if key in BY_KEY else None
+    if unit in (CHOICE, TEXT):
         return text
+    station_units = units if unit == STATION else None
     try:
         return float(text)
     except ValueError:

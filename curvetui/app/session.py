@@ -22,7 +22,6 @@ from curvetui.app.field_text import (
 )
 from curvetui.app.storable import file_problems, readable_problems, same_results
 from curvetui.app.units_change import UnitChange, apply_change
-from curvetui.bend.fields import BY_KEY, STATION
 from curvetui.core.units import UnitSystem, unit_system
 from curvetui.inputs import InputError
 from curvetui.stations import parse_station
@@ -251,8 +250,7 @@ class Session:
         """Set one input from typed text ('' clears it; a station may be written 2+710.5)
         and recompute. A value equal to the stored one leaves it as stored (100 stays 100,
         not 100.0) and changes nothing."""
-        field = BY_KEY.get(key)
-        value = input_value(text, self.units.name if field and field.unit == STATION else None, key)
+        value = input_value(text, key, self.units.name)
         old = bend.inputs.get(key)
         if value is None:
             if bend.inputs.pop(key, None) is not None:

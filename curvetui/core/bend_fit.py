@@ -81,7 +81,7 @@ def fit_region(
     hi: int,
     max_radius: float,
     noise: float,
-    shortest_ramp: Callable[[float], float] | None = None,
+    shortest_ramp: Callable[[float], float],
 ) -> list[FittedBend]:
     """The bend (or bends) best fitting the headings from point ``lo`` to ``hi`` around
     ``region`` (module doc); ``noise`` the headings' noise sd [rad]; ``shortest_ramp``:
@@ -149,9 +149,7 @@ def fit_region(
                 value = criterion(model)
                 if value < best_value - BIC_MARGIN:
                     best, best_value = model, value
-    if shortest_ramp is not None:
-        best = _plain_ends(best, fit, shortest_ramp)
-    bends = _parted(best, 1.0 / max_radius)
+    bends = _parted(_plain_ends(best, fit, shortest_ramp), 1.0 / max_radius)
     return [within(b, float(line.arc[0]), float(line.arc[-1])) for b in bends]
 
 

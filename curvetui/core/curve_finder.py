@@ -165,9 +165,9 @@ def find_curves(
     noise = heading_noise(line)
     regions = _split_regions(line, detection, noise, settings.max_radius)
     bends: list[FittedBend] = []
+    shortest = partial(_shortest_spiral, line, settings, noise=noise)
     for i, region in enumerate(regions):
         lo, hi = _window(line, region, regions, i, detection.width)
-        shortest = partial(_shortest_spiral, line, settings, noise=noise)
         bends.extend(fit_region(line, region, lo, hi, settings.max_radius, noise, shortest))
     curves: list[FoundCurve] = []
     dropped = 0
@@ -288,7 +288,7 @@ def _curve_of(
 
 
 def _shortest_spiral(
-    line: Centreline, settings: FinderSettings, radius: float, noise: float = 0.0
+    line: Centreline, settings: FinderSettings, radius: float, noise: float
 ) -> float:
     """The shortest ramp reported as a spiral [m] on an arc of ``radius`` [m]:
     ``settings.min_spiral``, and no less than one and a half vertex spacings (the
